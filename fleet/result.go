@@ -1,0 +1,65 @@
+package fleet
+
+import (
+	"hoistfleet/calc"
+)
+
+// CheckResult is one check of one hoist.
+type CheckResult struct {
+	ID          string
+	Status      Status
+	Demand      float64 // NaN when not computed
+	Capacity    float64 // NaN when not computed
+	Unit        string  // unit of Demand and Capacity: SI, or "d", "h", "deg", "1"
+	Utilisation float64 // Demand / Capacity, NaN when not computed
+	Margin      float64 // 1 − Utilisation, NaN when not computed
+	// LimitRatedLoadKg is the rated load at which the check just reaches its limit
+	// (utilisation 1), NaN for checks that do not depend on the load or were not run.
+	LimitRatedLoadKg float64
+	Rule             string // the rule applied, in words: "Zp ≥ 5.6 (M6)"
+	Source           string // its published source and provenance label
+	Message          string // why unchecked / error, or a note
+	Figures          []calc.Figure
+	Steps            []calc.Step
+	// LoadDependent marks checks that enter the maximum permissible rated load.
+	LoadDependent bool
+}
+
+// Rating is the maximum permissible rated load of one hoist.
+type Rating struct {
+	MaxRatedLoadKg float64 // NaN when none can be given
+	GoverningCheck string  // the check (or cap) that sets it
+	Note           string  // why null, or which cap applied
+}
+
+// Evaluation is the set of checks of one hoist at one rated load, with its verdict.
+type Evaluation struct {
+	RatedLoadKg float64
+	Status      Status
+	WorstCheck  string  // the check with the smallest margin
+	MinMargin   float64 // over pass / marginal / fail checks, NaN when none
+	Checks      []CheckResult
+}
+
+// Result is everything hoistfleet says about one register row.
+type Result struct {
+	Asset *Asset
+	Evaluation
+	Rating
+	Messages     []string // located problems and notes, in the order found
+	DefaultsUsed []string // e.g. "hook block mass 0 kg"
+	Derived      []string // values derived rather than given, e.g. "duty group M5 derived from T5 L2"
+	// Proposed is the evaluation at the proposed rated load (a Proposed rated load cell,
+	// or --rated-load-factor), nil when there is none.
+	Proposed *Evaluation
+}
+
+// Check returns the named check of the current evaluation, or nil.
+func (e *Evaluation) Check(id string) *CheckResult {
+	for i := range e.Checks {
+		if e.Checks[i].ID == id {
+			return &e.Checks[i]
+		}
+	}
+	return nil
+}

@@ -1,0 +1,63 @@
+package fleet
+
+import (
+	"context"
+	"time"
+)
+
+// Source yields the register's rows in order. Next returns io.EOF after the last row.
+// A bad cell is not an error of Next: it is a Bad Value in the Asset. Next returns an
+// error only when the file itself cannot be read further.
+type Source interface {
+	Header() *Header
+	Next(ctx context.Context) (*Asset, error)
+	Close() error
+}
+
+// Sink receives the run: Begin once, Write every result in register order, End once
+// with the summary. A Sink writing a file writes to a temporary file and renames it only
+// in End, so that a failed run leaves no half file; Abort removes the temporary file.
+type Sink interface {
+	Begin(h *Header, info *RunInfo) error
+	Write(r *Result) error
+	End(s *Summary, info *RunInfo) error
+	Abort()
+}
+
+// RuleUse is one rule row in force, as the audit sheet lists it.
+type RuleUse struct {
+	ID         string
+	Groups     string
+	When       string
+	Value      string
+	Unit       string
+	Source     string
+	Provenance string
+	Note       string
+	Origin     string // "built-in iso", "built-in us", or the user's rule file
+	Uses       int    // how many checks used it in this run
+}
+
+// RunInfo is what the audit sheet records about a run.
+type RunInfo struct {
+	Tool            string
+	Version         string
+	Command         string // the command line as given
+	Input           string // input file name as given
+	InputSHA256     string
+	Sheet           string
+	Profile         string // rule profile
+	RulesFile       string // user rule file, "" for none
+	Rules           []RuleUse
+	AsOf            time.Time // the run's date for inspection and age checks
+	Started         time.Time
+	Finished        time.Time
+	MarginalBand    float64
+	RatedLoadFactor float64 // 0 when not re-rating the fleet
+	Workers         int
+	Rows            int
+	Cautions        []string
+}
+
+// Caution is the warning every output carries.
+const Caution = "hoistfleet is a screening calculation on the data given. It does not replace thorough examination by a competent person, the manufacturer's ratings and instructions, or the regulations, codes and licensed engineering practice that apply where the hoist is used, which always prevail. A hoist's rating may be changed only by its manufacturer or a competent person, after a load test."

@@ -1,0 +1,211 @@
+package fleet
+
+import (
+	"math"
+	"sort"
+)
+
+// Summary is the fleet-level picture, accumulated one result at a time so that a
+// register of any size is summarised in bounded memory (the lists keep the TopN worst).
+type Summary struct {
+	TopN     int
+	Total    int
+	ByStatus [5]int // indexed by Status (pass … fail)
+	Sites    []SiteCount
+	Checks   []CheckCount
+	// Governing counts hoists by governing check (or cap) of their maximum rated load.
+	Governing map[string]int
+	// MarginBins counts hoists by smallest margin (see MarginBinEdges).
+	MarginBins [len(MarginBinEdges) + 1]int
+	// Worst are the TopN hoists with the smallest margin (fail first), worst first.
+	Worst []Brief
+	// Overdue are the TopN most overdue inspections; OverdueCount counts them all.
+	Overdue      []Brief
+	OverdueCount int
+	// Flags lists hoists needing attention for a reason other than a design margin:
+	// rope at discard, design life used, load test needed; FlagCounts counts them all.
+	Flags      []Brief
+	FlagCounts map[string]int
+	// Rerated counts hoists evaluated at a proposed rated load; Changed lists (TopN) and
+	// counts those whose verdict changes.
+	Rerated      int
+	Changed      []Brief
+	ChangedCount int
+
+	siteIndex  map[string]int
+	checkIndex map[string]int
+}
+
+// MarginBinEdges are the upper edges of the smallest-margin histogram bins: margin < 0
+// (fail), 0–0.1, 0.1–0.2, 0.2–0.3, 0.3–0.5, ≥ 0.5; the last bin also holds hoists with no
+// margin.
+var MarginBinEdges = [...]float64{0, 0.1, 0.2, 0.3, 0.5}
+
+// MarginBinLabels names the bins of MarginBins.
+var MarginBinLabels = [...]string{"< 0 (over limit)", "0 – 10 %", "10 – 20 %", "20 – 30 %", "30 – 50 %", "≥ 50 %"}
+
+// SiteCount counts hoists by status at one site.
+type SiteCount struct {
+	Site     string
+	ByStatus [5]int
+}
+
+// CheckCount counts one check's statuses over the fleet (info included).
+type CheckCount struct {
+	ID       string
+	ByStatus [6]int
+}
+
+// Brief is one hoist in a summary list.
+type Brief struct {
+	Row            int
+	AssetID        string
+	Site           string
+	Status         Status
+	WorstCheck     string
+	MinMargin      float64
+	GoverningCheck string
+	MaxRatedLoadKg float64
+	Reason         string  // for Flags and Overdue: what is wrong, in words
+	Days           float64 // for Overdue: days overdue
+	NewStatus      Status  // for Changed: status at the proposed load
+}
+
+// NewSummary returns an empty summary keeping topN hoists in each list.
+func NewSummary(topN int) *Summary {
+	return &Summary{TopN: topN, Governing: map[string]int{}, FlagCounts: map[string]int{},
+		siteIndex: map[string]int{}, checkIndex: map[string]int{}}
+}
+
+func brief(r *Result) Brief {
+	b := Brief{Row: r.Asset.Row, AssetID: r.Asset.ID, Status: r.Status, WorstCheck: r.WorstCheck,
+		MinMargin: r.MinMargin, GoverningCheck: r.GoverningCheck, MaxRatedLoadKg: r.MaxRatedLoadKg}
+	if v := r.Asset.Get("site"); v.State == OK {
+		b.Site = v.Text
+	}
+	return b
+}
+
+// Add counts one result. Results must be added in register order for stable lists.
+func (s *Summary) Add(r *Result) {
+	s.Total++
+	b := brief(r)
+	if int(r.Status) < len(s.ByStatus) {
+		s.ByStatus[r.Status]++
+	}
+	i, ok := s.siteIndex[b.Site]
+	if !ok {
+		i = len(s.Sites)
+		s.siteIndex[b.Site] = i
+		s.Sites = append(s.Sites, SiteCount{Site: b.Site})
+	}
+	if int(r.Status) < 5 {
+		s.Sites[i].ByStatus[r.Status]++
+	}
+	for _, c := range r.Checks {
+		j, ok := s.checkIndex[c.ID]
+		if !ok {
+			j = len(s.Checks)
+			s.checkIndex[c.ID] = j
+			s.Checks = append(s.Checks, CheckCount{ID: c.ID})
+		}
+		s.Checks[j].ByStatus[c.Status]++
+		switch {
+		case c.ID == "inspection-due" && c.Status == StatusFail:
+			s.OverdueCount++
+			o := b
+			o.Days = c.Demand - c.Capacity
+			o.Reason = c.Message
+			s.Overdue = insertTop(s.Overdue, o, s.TopN, func(x, y Brief) bool { return x.Days > y.Days })
+		case (c.ID == "rope-wear" || c.ID == "design-life" || c.ID == "load-test") && (c.Status == StatusFail || c.Status == StatusMarginal):
+			s.FlagCounts[c.ID]++
+			f := b
+			f.Reason = c.ID + " " + c.Status.String()
+			if c.Message != "" {
+				f.Reason += ": " + c.Message
+			}
+			if len(s.Flags) < s.TopN*3 {
+				s.Flags = append(s.Flags, f)
+			}
+		}
+	}
+	if r.GoverningCheck != "" {
+		s.Governing[r.GoverningCheck]++
+	}
+	bin := len(MarginBinEdges)
+	if !math.IsNaN(r.MinMargin) {
+		for k, e := range MarginBinEdges {
+			if r.MinMargin < e {
+				bin = k
+				break
+			}
+		}
+	}
+	s.MarginBins[bin]++
+	if r.Status != StatusPass {
+		s.Worst = insertTop(s.Worst, b, s.TopN, worse)
+	}
+	if r.Proposed != nil {
+		s.Rerated++
+		if r.Proposed.Status != r.Status {
+			s.ChangedCount++
+			c := b
+			c.NewStatus = r.Proposed.Status
+			if len(s.Changed) < s.TopN {
+				s.Changed = append(s.Changed, c)
+			}
+		}
+	}
+}
+
+// worse orders hoists for the worst list: higher status first, then smaller margin.
+func worse(x, y Brief) bool {
+	if x.Status != y.Status {
+		return x.Status.Worse(y.Status)
+	}
+	mx, my := x.MinMargin, y.MinMargin
+	if math.IsNaN(mx) {
+		mx = math.Inf(1)
+	}
+	if math.IsNaN(my) {
+		my = math.Inf(1)
+	}
+	return mx < my
+}
+
+// insertTop keeps list sorted by less (first = most), at most n long. Equal elements keep
+// arrival order.
+func insertTop(list []Brief, b Brief, n int, less func(x, y Brief) bool) []Brief {
+	i := sort.Search(len(list), func(i int) bool { return less(b, list[i]) })
+	if i >= n {
+		return list
+	}
+	list = append(list, Brief{})
+	copy(list[i+1:], list[i:])
+	list[i] = b
+	if len(list) > n {
+		list = list[:n]
+	}
+	return list
+}
+
+// GoverningSorted returns the governing counts, largest first, ties by name.
+func (s *Summary) GoverningSorted() []NameCount {
+	out := make([]NameCount, 0, len(s.Governing))
+	for k, v := range s.Governing {
+		out = append(out, NameCount{k, v})
+	}
+	sort.Slice(out, func(i, j int) bool {
+		if out[i].Count != out[j].Count {
+			return out[i].Count > out[j].Count
+		}
+		return out[i].Name < out[j].Name
+	})
+	return out
+}
+
+// NameCount is a label and a count.
+type NameCount struct {
+	Name  string
+	Count int
+}
