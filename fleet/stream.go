@@ -15,8 +15,9 @@ type Source interface {
 }
 
 // Sink receives the run: Begin once, Write every result in register order, End once
-// with the summary. A Sink writing a file writes to a temporary file and renames it only
-// in End, so that a failed run leaves no half file; Abort removes the temporary file.
+// with the summary. Sinks write to an io.Writer given at construction; the caller (cmd)
+// makes the file atomic (temporary file, renamed after End). Abort releases what a sink
+// holds (temporary files of its own) after a failed run.
 type Sink interface {
 	Begin(h *Header, info *RunInfo) error
 	Write(r *Result) error

@@ -165,7 +165,7 @@ const (
 // Value is one schema field of one register row, converted to SI.
 type Value struct {
 	State ValueState
-	Num   float64   // number and integer kinds, in SI (kg, N, m, s, W, N m, kg m², m/s, m/s²); angles stay in degrees, rotational speed in rev/min, time in s except hours columns in h; a % becomes a ratio (160 % → 1.6)
+	Num   float64   // number and integer kinds, in SI (kg, N, m, s, W, N m, kg m², m/s, m/s²); s); angles stay in degrees, rotational speed in rev/min; a % becomes a ratio (160 % → 1.6)
 	Text  string    // text, enum (canonical lower-case value) and bool ("yes"/"no") kinds
 	Date  time.Time // date kind (UTC midnight)
 	Raw   string    // the cell as read, for messages
@@ -178,7 +178,10 @@ type Column struct {
 	Index int    // 0-based position in the row
 	Title string // header text as written
 	Key   string // schema key, "" for a column the schema does not know (passed through)
-	Unit  string // unit as written in the header ("" when none); conversion factors live in io
+	Unit  string // unit as written in the header ("" when none)
+	// Factor converts the column's unit to the SI value in Value.Num (SI = cell × Factor);
+	// 1 when there is no unit. Writers use it to show results in the register's own units.
+	Factor float64
 }
 
 // Header is the register's header row as read.
