@@ -2,6 +2,7 @@ package fleet
 
 import (
 	"hoistfleet/calc"
+	"hoistfleet/templates"
 )
 
 // CheckResult is one check of one hoist.
@@ -52,6 +53,8 @@ type Result struct {
 	// Proposed is the evaluation at the proposed rated load (a Proposed rated load cell,
 	// or --rated-load-factor), nil when there is none.
 	Proposed *Evaluation
+
+	rules []templates.Rule // rules the checks used, counted for the audit sheet
 }
 
 // Check returns the named check of the current evaluation, or nil.

@@ -1,0 +1,127 @@
+package calc
+
+import (
+	"fmt"
+	"math"
+	"time"
+)
+
+// InspectionDue is the inspection-due check: whether the periodic inspection is current.
+//
+//	next due = last + intervalMonths calendar months
+//	demand   = days from the last inspection to asOf            [d]
+//	capacity = days from the last inspection to the next due date [d]
+//	utilisation = demand / capacity
+//
+// so a hoist inspected today has utilisation 0, one whose inspection falls due today 1
+// (not overdue: pass or marginal, as the caller's band decides) and an overdue one more
+// than 1. The interval comes from the caller's rules (ASME B30.16 / B30.2 periodic
+// inspection: normal service yearly, heavy semiannually, severe quarterly; standards.md,
+// seen). Dates are read as calendar dates in their own location; no clock is read.
+//
+// Months are added as Go's time.AddDate adds them: the day of the month is kept and a day
+// that the target month lacks rolls over into the next month. So 2026-01-31 + 1 month is
+// 2026-03-03 (February 2026 has 28 days), 2024-01-31 + 1 month is 2024-03-02 (leap year),
+// and 2024-02-29 + 12 months is 2025-03-01. Months of the same length, and any start on
+// or before the 28th, give the same day of the month.
+//
+// Figures: next_due (Text, ISO date), days_overdue (asOf − next due, ≥ 0), days_to_due
+// (next due − asOf, ≥ 0), days_since_last, interval_days.
+//
+// It returns a *RangeError when the last inspection date or the run date is missing, the
+// last inspection is after the run date, or intervalMonths < 1.
+func InspectionDue(last, asOf time.Time, intervalMonths int) (Outcome, error) {
+	switch {
+	case last.IsZero():
+		return Outcome{}, &RangeError{Field: "last_inspection", Msg: "no last inspection date"}
+	case asOf.IsZero():
+		return Outcome{}, &RangeError{Msg: "no as-of date for the inspection check"}
+	case intervalMonths < 1:
+		return Outcome{}, &RangeError{Field: "service", Msg: fmt.Sprintf("inspection interval must be ≥ 1 month (got %d)", intervalMonths)}
+	}
+	l, a := lifeDay(last), lifeDay(asOf)
+	if a.Before(l) {
+		return Outcome{}, &RangeError{Field: "last_inspection", Msg: fmt.Sprintf("last inspection %s is after the as-of date %s", lifeISO(l), lifeISO(a))}
+	}
+	next := l.AddDate(0, intervalMonths, 0)
+	since := lifeDaysBetween(l, a)
+	interval := lifeDaysBetween(l, next)
+	overdue := max(0, lifeDaysBetween(next, a))
+	toDue := max(0, lifeDaysBetween(a, next))
+	u := float64(since) / float64(interval)
+
+	o := Outcome{
+		Demand:      float64(since),
+		Capacity:    float64(interval),
+		Unit:        "d",
+		Utilisation: u,
+		Verdict:     ByUtilisation,
+		Figures: []Figure{
+			{Name: "next_due", Value: math.NaN(), Text: lifeISO(next)},
+			{Name: "days_overdue", Value: float64(overdue), Unit: "d"},
+			{Name: "days_to_due", Value: float64(toDue), Unit: "d"},
+			{Name: "days_since_last", Value: float64(since), Unit: "d"},
+			{Name: "interval_days", Value: float64(interval), Unit: "d"},
+		},
+		Steps: []Step{
+			{Symbol: "next due", Formula: "last + interval (calendar months)", Numbers: fmt.Sprintf("%s + %d months = %s", lifeISO(l), intervalMonths, lifeISO(next)), Value: math.NaN(), Unit: "date"},
+			{Symbol: "days since", Formula: "as-of − last", Numbers: fmt.Sprintf("%s − %s", lifeISO(a), lifeISO(l)), Value: float64(since), Unit: "d"},
+			{Symbol: "interval", Formula: "next due − last", Numbers: fmt.Sprintf("%s − %s", lifeISO(next), lifeISO(l)), Value: float64(interval), Unit: "d"},
+			{Symbol: "u", Formula: "days since / interval", Numbers: fmt.Sprintf("%d / %d", since, interval), Value: u, Unit: "1"},
+		},
+	}
+	if overdue > 0 {
+		o.Note = fmt.Sprintf("periodic inspection overdue by %d days (due %s)", overdue, lifeISO(next))
+	} else {
+		o.Note = fmt.Sprintf("next periodic inspection due %s", lifeISO(next))
+	}
+	return o, nil
+}
+
+// LoadTest is the load-test check: whether the last load test covers the rated (or
+// proposed) load.
+//
+//	demand   = rated or proposed load m_L                 [kg]
+//	capacity = test load / test factor (covered rated load) [kg]
+//	utilisation = m_L · factor / test load
+//
+// The test factor comes from the caller's rules for the test type: 1.25 for a static test
+// and 1.1 for a dynamic test (Machinery Directive 2006/42/EC Annex I 4.1.2.3, the maker's
+// verification coefficients; standards.md, law, memory high). A US rule of a test at
+// 100–125 % of rated load (29 CFR 1910.179(k)(2)) is a factor of 1 to 1.25. The check
+// does not depend on the test date and is not part of the rating.
+//
+// Figures: covered_rated_load_kg (test load / factor), test_load_ratio (test load / m_L).
+//
+// It returns a *RangeError for a rated load ≤ 0, a test load ≤ 0 or a factor < 1.
+func LoadTest(ratedKg, testKg, testFactor float64) (Outcome, error) {
+	switch {
+	case !(ratedKg > 0) || math.IsInf(ratedKg, 0):
+		return Outcome{}, &RangeError{Field: "rated_load", Msg: fmt.Sprintf("rated load must be > 0 (got %s kg)", dutyNum(ratedKg))}
+	case !(testKg > 0) || math.IsInf(testKg, 0):
+		return Outcome{}, &RangeError{Field: "test_load", Msg: fmt.Sprintf("test load must be > 0 (got %s kg)", dutyNum(testKg))}
+	case !(testFactor >= 1) || math.IsInf(testFactor, 0):
+		return Outcome{}, &RangeError{Field: "test_type", Msg: fmt.Sprintf("test factor must be ≥ 1 (got %s)", dutyNum(testFactor))}
+	}
+	covered := testKg / testFactor
+	u := ratedKg / covered
+	o := Outcome{
+		Demand:      ratedKg,
+		Capacity:    covered,
+		Unit:        "kg",
+		Utilisation: u,
+		Verdict:     ByUtilisation,
+		Figures: []Figure{
+			{Name: "covered_rated_load_kg", Value: covered, Unit: "kg"},
+			{Name: "test_load_ratio", Value: testKg / ratedKg, Unit: "1"},
+		},
+		Steps: []Step{
+			{Symbol: "m_cov", Formula: "test load / test factor", Numbers: fmt.Sprintf("%s / %s", dutyNum(testKg), dutyNum(testFactor)), Value: covered, Unit: "kg"},
+			{Symbol: "u", Formula: "m_L / m_cov", Numbers: fmt.Sprintf("%s / %s", dutyNum(ratedKg), dutyNum(covered)), Value: u, Unit: "1"},
+		},
+	}
+	if u > 1 {
+		o.Note = fmt.Sprintf("the last test covers %s kg: a new load test is needed for %s kg", dutyNum(covered), dutyNum(ratedKg))
+	}
+	return o, nil
+}

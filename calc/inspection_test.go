@@ -1,0 +1,213 @@
+package calc_test
+
+import (
+	"strings"
+	"testing"
+	"time"
+
+	"hoistfleet/calc"
+)
+
+// TestInspectionDueCalendar checks the calendar arithmetic. The due dates and day counts
+// are Gregorian-calendar facts counted by hand (month lengths; 2024 is a leap year,
+// 2026 and 2027 are not); the month-end roll-over is the documented AddDate convention.
+// Intervals of 12, 6 and 3 months are the ASME B30.16 periodic intervals for normal,
+// heavy and severe service (standards.md, seen), supplied by the caller's rules.
+func TestInspectionDueCalendar(t *testing.T) {
+	tests := []struct {
+		name     string
+		last     time.Time
+		months   int
+		nextDue  string
+		interval float64
+	}{
+		{"mid-month quarterly", date(2026, 1, 15), 3, "2026-04-15", 16 + 28 + 31 + 15},
+		{"yearly, no leap day", date(2025, 3, 1), 12, "2026-03-01", 365},
+		{"yearly across 2024-02-29", date(2023, 3, 1), 12, "2024-03-01", 366},
+		{"yearly to the day before a leap day", date(2023, 2, 28), 12, "2024-02-28", 365},
+		// Month end rolls over: 31 January + 1 month is "31 February" = 3 March 2026.
+		{"Jan 31 + 1 month", date(2026, 1, 31), 1, "2026-03-03", 31},
+		// In a leap year "31 February" = 2 March.
+		{"Jan 31 + 1 month, leap year", date(2024, 1, 31), 1, "2024-03-02", 31},
+		// A leap day + 12 months is "29 February 2025" = 1 March 2025.
+		{"leap day + 12 months", date(2024, 2, 29), 12, "2025-03-01", 366},
+		{"Aug 31 + 6 months", date(2026, 8, 31), 6, "2027-03-03", 30 + 31 + 30 + 31 + 31 + 28 + 3},
+		{"Dec 31 semiannual into a leap year", date(2023, 12, 31), 6, "2024-07-01", 31 + 29 + 31 + 30 + 31 + 30 + 1},
+	}
+	for _, tt := range tests {
+		o, err := calc.InspectionDue(tt.last, tt.last, tt.months)
+		if err != nil {
+			t.Errorf("%s: %v", tt.name, err)
+			continue
+		}
+		if due, _ := figText(o, "next_due"); due != tt.nextDue {
+			t.Errorf("%s: next_due %s, want %s", tt.name, due, tt.nextDue)
+		}
+		if !approxEqual(o.Capacity, tt.interval, 0, 0) || !approxEqual(o.Figure("interval_days"), tt.interval, 0, 0) {
+			t.Errorf("%s: interval %v d, want %v d", tt.name, o.Capacity, tt.interval)
+		}
+		// Inspected on the as-of date: nothing used.
+		if o.Demand != 0 || o.Utilisation != 0 {
+			t.Errorf("%s: inspected today gives demand %v, u %v; want 0", tt.name, o.Demand, o.Utilisation)
+		}
+	}
+}
+
+func TestInspectionDueStatus(t *testing.T) {
+	last := date(2025, 6, 10) // yearly: due 2026-06-10, 365 days
+	tests := []struct {
+		name    string
+		asOf    time.Time
+		since   float64
+		u       float64
+		overdue float64
+		toDue   float64
+		noteHas string
+	}{
+		// As of exactly the due date: not overdue (u = 1, which the caller's band reads as
+		// marginal, never fail).
+		{"on the due date", date(2026, 6, 10), 365, 1, 0, 0, "due 2026-06-10"},
+		{"day before", date(2026, 6, 9), 364, 364.0 / 365, 0, 1, "due"},
+		{"day after", date(2026, 6, 11), 366, 366.0 / 365, 1, 0, "overdue by 1 days"},
+		// 2026-06-10 to 2027-06-10 is 365 days (no 29 February between).
+		{"a year late", date(2027, 6, 10), 730, 2, 365, 0, "overdue by 365"},
+		{"half way", date(2025, 12, 9), 182, 182.0 / 365, 0, 183, "next"},
+	}
+	for _, tt := range tests {
+		o, err := calc.InspectionDue(last, tt.asOf, 12)
+		if err != nil {
+			t.Errorf("%s: %v", tt.name, err)
+			continue
+		}
+		for _, c := range []struct {
+			what      string
+			got, want float64
+		}{
+			{"demand", o.Demand, tt.since},
+			{"days_since_last", o.Figure("days_since_last"), tt.since},
+			{"utilisation", o.Utilisation, tt.u},
+			{"days_overdue", o.Figure("days_overdue"), tt.overdue},
+			{"days_to_due", o.Figure("days_to_due"), tt.toDue},
+		} {
+			if !approxEqual(c.got, c.want, 1e-12, 1e-12) {
+				t.Errorf("%s: %s = %v, want %v", tt.name, c.what, c.got, c.want)
+			}
+		}
+		if (tt.overdue > 0) != (o.Utilisation > 1) {
+			t.Errorf("%s: overdue %v but utilisation %v", tt.name, tt.overdue, o.Utilisation)
+		}
+		if o.Unit != "d" || !strings.Contains(o.Note, tt.noteHas) {
+			t.Errorf("%s: unit %q note %q (want it to contain %q)", tt.name, o.Unit, o.Note, tt.noteHas)
+		}
+	}
+}
+
+// TestInspectionDueDatesNotInstants: a date is a calendar date in its own location; a
+// late-evening time west of Greenwich is still that day.
+func TestInspectionDueDatesNotInstants(t *testing.T) {
+	west := time.FixedZone("UTC-5", -5*3600)
+	last := time.Date(2026, 1, 15, 23, 30, 0, 0, west) // 2026-01-16 04:30 UTC
+	asOf := time.Date(2026, 4, 15, 8, 0, 0, 0, time.UTC)
+	o, err := calc.InspectionDue(last, asOf, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if due, _ := figText(o, "next_due"); due != "2026-04-15" || o.Figure("days_overdue") != 0 || !approxEqual(o.Utilisation, 1, 0, 1e-15) {
+		t.Errorf("next_due %s, overdue %v, u %v; want 2026-04-15, 0, 1", due, o.Figure("days_overdue"), o.Utilisation)
+	}
+}
+
+func TestInspectionDueErrors(t *testing.T) {
+	tests := []struct {
+		name       string
+		last, asOf time.Time
+		months     int
+		field      string
+	}{
+		{"no last inspection", time.Time{}, date(2026, 1, 1), 12, "last_inspection"},
+		{"no as-of", date(2026, 1, 1), time.Time{}, 12, ""},
+		{"zero interval", date(2025, 1, 1), date(2026, 1, 1), 0, "service"},
+		{"inspected in the future", date(2026, 2, 1), date(2026, 1, 1), 12, "last_inspection"},
+	}
+	for _, tt := range tests {
+		_, err := calc.InspectionDue(tt.last, tt.asOf, tt.months)
+		if err == nil {
+			t.Errorf("%s: no error", tt.name)
+			continue
+		}
+		if f := rangeField(t, err); f != tt.field {
+			t.Errorf("%s: field %q, want %q", tt.name, f, tt.field)
+		}
+	}
+}
+
+func TestLoadTest(t *testing.T) {
+	tests := []struct {
+		name                string
+		rated, test, factor float64
+		covered, u          float64
+	}{
+		// Static test at 1.25 × rated (Machinery Directive 2006/42/EC Annex I 4.1.2.3;
+		// standards.md, law, memory high): 12 500 kg covers 10 000 kg exactly.
+		{"static at 125 %", 10000, 12500, 1.25, 10000, 1},
+		// Dynamic test at 1.1 × (same source): 11 000 kg covers 10 000 kg.
+		{"dynamic at 110 %", 10000, 11000, 1.1, 10000, 1},
+		// Re-rating to 11 000 kg after a 12 500 kg static test: 11 000 / 10 000 = 1.1,
+		// a new test is needed.
+		{"proposed above cover", 11000, 12500, 1.25, 10000, 1.1},
+		// US cranes: test at 100 % to 125 % of rated (29 CFR 1910.179(k)(2); standards.md,
+		// law): a rule factor of 1 means the test load itself is covered.
+		{"factor 1", 5000, 5000, 1, 5000, 1},
+		{"light test", 2000, 1250, 1.25, 1000, 2},
+	}
+	for _, tt := range tests {
+		o, err := calc.LoadTest(tt.rated, tt.test, tt.factor)
+		if err != nil {
+			t.Errorf("%s: %v", tt.name, err)
+			continue
+		}
+		for _, c := range []struct {
+			what      string
+			got, want float64
+		}{
+			{"demand", o.Demand, tt.rated},
+			{"capacity", o.Capacity, tt.covered},
+			{"covered_rated_load_kg", o.Figure("covered_rated_load_kg"), tt.covered},
+			{"utilisation", o.Utilisation, tt.u},
+			{"test_load_ratio", o.Figure("test_load_ratio"), tt.test / tt.rated},
+		} {
+			if !approxEqual(c.got, c.want, 1e-9, 1e-12) {
+				t.Errorf("%s: %s = %v, want %v", tt.name, c.what, c.got, c.want)
+			}
+		}
+		if o.Unit != "kg" || (tt.u > 1) != strings.Contains(o.Note, "new load test") {
+			t.Errorf("%s: unit %q note %q", tt.name, o.Unit, o.Note)
+		}
+	}
+	// Utilisation is linear in the rated load (demand ∝ m_L, capacity fixed).
+	a, _ := calc.LoadTest(3000, 12500, 1.25)
+	b, _ := calc.LoadTest(6000, 12500, 1.25)
+	if !approxEqual(b.Utilisation, 2*a.Utilisation, 0, 1e-12) {
+		t.Errorf("utilisation not linear in rated load: %v, %v", a.Utilisation, b.Utilisation)
+	}
+
+	for _, bad := range []struct {
+		name                string
+		rated, test, factor float64
+		field               string
+	}{
+		{"no rated load", 0, 12500, 1.25, "rated_load"},
+		{"no test load", 10000, 0, 1.25, "test_load"},
+		{"negative test load", 10000, -1, 1.25, "test_load"},
+		{"factor below 1", 10000, 12500, 0.8, "test_type"},
+	} {
+		_, err := calc.LoadTest(bad.rated, bad.test, bad.factor)
+		if err == nil {
+			t.Errorf("%s: no error", bad.name)
+			continue
+		}
+		if f := rangeField(t, err); f != bad.field {
+			t.Errorf("%s: field %q, want %q", bad.name, f, bad.field)
+		}
+	}
+}

@@ -1,0 +1,874 @@
+package fleet
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+	"time"
+
+	"hoistfleet/calc"
+	"hoistfleet/templates"
+)
+
+// Options configure a run. The zero value is not usable: Rules is required.
+type Options struct {
+	Rules           *templates.Table
+	MarginalBand    float64   // default 0.10
+	AsOf            time.Time // the run's date for inspection and age checks
+	RatedLoadFactor float64   // > 0: re-rate every hoist to factor × rated load
+	Workers         int       // ≤ 0: GOMAXPROCS
+	TopN            int       // length of the summary's lists; ≤ 0: 20
+	Buffer          int       // reorder buffer (results in flight); ≤ 0: 64 × workers
+	G               float64   // acceleration of gravity; 0: calc.StandardGravity
+}
+
+// Checker evaluates hoists against the rules in force. It is safe for concurrent use.
+type Checker struct {
+	opts Options
+}
+
+// NewChecker returns a checker for opts.
+func NewChecker(opts Options) (*Checker, error) {
+	if opts.Rules == nil {
+		return nil, errors.New("fleet: no rule table")
+	}
+	if opts.MarginalBand < 0 || opts.MarginalBand >= 1 {
+		return nil, fmt.Errorf("fleet: marginal band %g is not in [0, 1)", opts.MarginalBand)
+	}
+	if opts.G == 0 {
+		opts.G = calc.StandardGravity
+	}
+	if opts.TopN <= 0 {
+		opts.TopN = 20
+	}
+	return &Checker{opts: opts}, nil
+}
+
+// Options returns the checker's options with defaults applied.
+func (c *Checker) Options() Options { return c.opts }
+
+// StatusOf turns a utilisation into pass / marginal / fail with marginal band b:
+// pass u ≤ 1 − b, marginal 1 − b < u ≤ 1, fail u > 1 (design.md "Statuses").
+func StatusOf(u, band float64) Status {
+	switch {
+	case math.IsNaN(u):
+		return StatusError
+	case u > 1:
+		return StatusFail
+	case u > 1-band:
+		return StatusMarginal
+	}
+	return StatusPass
+}
+
+// RuleKey identifies a rule row for counting its uses.
+func RuleKey(r templates.Rule) string {
+	return r.ID + "\x00" + r.Groups + "\x00" + r.When + "\x00" + r.Origin
+}
+
+// hoistData is one asset's inputs resolved for the checks: values, defaults, scope.
+type hoistData struct {
+	a        *Asset
+	h        calc.Hoist
+	group    int
+	scope    templates.Scope
+	missing  map[string]bool   // empty fields
+	bad      map[string]*Error // unreadable fields
+	defaults []string
+	derived  []string
+	messages []string
+	rules    []templates.Rule // rules used (for the audit counts)
+	ruleErr  map[string]error // rule lookups that failed, by rule id
+	opts     *Options
+}
+
+func (d *hoistData) num(key string) (float64, bool) {
+	v := d.a.Get(key)
+	if v.State == OK {
+		return v.Num, true
+	}
+	return 0, false
+}
+
+func (d *hoistData) text(key string) string {
+	v := d.a.Get(key)
+	if v.State == OK {
+		return v.Text
+	}
+	return ""
+}
+
+// rule looks up a rule for this hoist and records its use.
+func (d *hoistData) rule(id string) (float64, templates.Rule, error) {
+	v, r, err := d.opts.Rules.Value(id, d.scope)
+	if err != nil {
+		return 0, r, err
+	}
+	d.rules = append(d.rules, r)
+	return v, r, nil
+}
+
+func (d *hoistData) ruleWord(id string) (string, templates.Rule, error) {
+	r, ok := d.opts.Rules.Lookup(id, d.scope)
+	if !ok {
+		return "", r, fmt.Errorf("rule %s: no row of the %s rules applies", id, d.opts.Rules.Profile)
+	}
+	d.rules = append(d.rules, r)
+	return strings.ToLower(strings.TrimSpace(r.Value)), r, nil
+}
+
+// resolve reads an asset into hoistData: SI values with defaults applied and reported.
+func (c *Checker) resolve(a *Asset) *hoistData {
+	d := &hoistData{a: a, missing: map[string]bool{}, bad: map[string]*Error{}, opts: &c.opts}
+	for _, p := range a.Problems {
+		d.messages = append(d.messages, p.Error())
+	}
+	for _, col := range templates.Columns() {
+		v := a.Get(col.Key)
+		switch v.State {
+		case Empty:
+			d.missing[col.Key] = true
+		case Bad:
+			e := v.Err
+			if e == nil {
+				e = &Error{Kind: Invalid, Cell: v.Cell, Field: col.Key, Asset: a.ID, Err: fmt.Errorf("unreadable value %q", v.Raw)}
+			}
+			d.bad[col.Key] = e
+			d.messages = append(d.messages, e.Error())
+		}
+	}
+	d.resolveDuty()
+	d.scope = templates.Scope{Group: d.group, Attrs: map[string]string{}, Nums: map[string]float64{}}
+	for _, k := range []struct{ attr, key, def string }{
+		{"special", "special_service", "none"}, {"control", "control_braking", "none"},
+		{"service", "service", "normal"}, {"records", "usage_records", "none"},
+		{"test", "test_type", "static"}, {"grooved", "drum_grooved", "yes"},
+	} {
+		v := d.text(k.key)
+		if v == "" {
+			v = k.def
+		}
+		d.scope.Attrs[k.attr] = v
+	}
+	if cat := calc.RopeCategory(d.text("rope_construction")); cat != "" {
+		d.scope.Attrs["rope"] = cat
+	}
+
+	h := calc.Hoist{G: c.opts.G}
+	h.RatedLoadKg, _ = d.num("rated_load")
+	h.HookBlockKg = d.numDefault("hook_block_mass", 0, "hook block mass 0 kg")
+	h.Parts = int(d.numDefault("parts_of_line", 1, "parts of line 1"))
+	h.RopeEnds = int(d.numDefault("rope_ends", 1, "rope ends on drum 1"))
+	h.SheaveEff = d.numRule("sheave_efficiency", "default.sheave_efficiency", "sheave efficiency %g")
+	h.DeflectionSheaves = int(d.numDefault("deflection_sheaves", 0, ""))
+	h.RopeDiameterM, _ = d.num("rope_diameter")
+	h.RopeMBFN, _ = d.num("rope_mbf")
+	h.DrumDiameterM, _ = d.num("drum_diameter")
+	h.Layers = int(d.numDefault("rope_layers", 1, ""))
+	h.Grooves, _ = d.num("drum_grooves")
+	h.Grooved = d.scope.Attrs["grooved"] != "no"
+	h.LiftHeightM, _ = d.num("lift_height")
+	h.SheaveDiameterM, _ = d.num("sheave_diameter")
+	h.FleetAngleDeg, _ = d.num("fleet_angle")
+	h.DrumInertiaKgM2, _ = d.num("drum_inertia")
+	h.DrumMassKg, _ = d.num("drum_mass")
+	h.GearRatio, _ = d.num("gear_ratio")
+	h.GearEff = d.numRule("gear_efficiency", "default.gear_efficiency", "gear efficiency %g")
+	if v, ok := d.num("gear_backdrive_efficiency"); ok {
+		h.GearBackEff = v
+	} else {
+		h.GearBackEff = h.GearEff
+		if d.missing["gear_backdrive_efficiency"] {
+			d.defaults = append(d.defaults, fmt.Sprintf("gear back-drive efficiency = gear efficiency %g", h.GearEff))
+		}
+	}
+	h.GearboxRatedTorqueNm, _ = d.num("gearbox_rated_torque")
+	h.MotorPowerW, _ = d.num("motor_power")
+	h.MotorSpeedRPM, _ = d.num("motor_speed")
+	h.PeakTorqueRatio = d.numRule("motor_peak_torque", "default.peak_torque_ratio", "motor peak torque %g × rated")
+	h.MotorInertiaKgM2, _ = d.num("motor_inertia")
+	h.BrakeTorqueNm, _ = d.num("brake_torque")
+	h.BrakeOnDrum = d.text("brake_location") == "drum"
+	h.Brakes = int(d.numDefault("brakes", 1, ""))
+	d.scope.Nums["brakes"] = float64(h.Brakes)
+	h.BrakeDelayS = d.numRule("brake_delay", "default.brake_delay", "brake delay %g s")
+	h.HoistSpeedMS, _ = d.num("hoist_speed")
+	h.LoweringSpeedMS, _ = d.num("lowering_speed")
+	h.AccelMS2 = d.numRule("acceleration", "default.acceleration", "acceleration %g m/s²")
+	if h.RopeDiameterM > 0 {
+		d.scope.Nums["d_mm"] = h.RopeDiameterM * 1000
+	}
+	// Minimum breaking force from grade and construction (EN 12385-4) when not given.
+	if d.missing["rope_mbf"] && h.RopeDiameterM > 0 {
+		grade, okg := d.num("rope_grade")
+		if k, canon, ok := calc.RopeK(d.text("rope_construction")); ok && okg {
+			h.RopeMBFN = calc.MBFFromGrade(h.RopeDiameterM, grade, k)
+			delete(d.missing, "rope_mbf")
+			d.derived = append(d.derived, fmt.Sprintf("rope MBF %.1f kN from EN 12385-4: d² R K/1000 with d %g mm, R %g N/mm², K %g (%s)",
+				h.RopeMBFN/1000, h.RopeDiameterM*1000, grade, k, canon))
+		}
+	}
+	d.h = h
+	return d
+}
+
+// numDefault returns the field, or def when empty (reporting the default when text is
+// not empty). A bad cell also returns def: the checks that need it report the error.
+func (d *hoistData) numDefault(key string, def float64, text string) float64 {
+	if v, ok := d.num(key); ok {
+		return v
+	}
+	if d.missing[key] && text != "" {
+		d.defaults = append(d.defaults, text)
+	}
+	return def
+}
+
+// numRule returns the field, or the rule table's default (reported).
+func (d *hoistData) numRule(key, ruleID, format string) float64 {
+	if v, ok := d.num(key); ok {
+		return v
+	}
+	v, _, err := d.rule(ruleID)
+	if err != nil {
+		d.messages = append(d.messages, err.Error())
+		return math.NaN()
+	}
+	if d.missing[key] {
+		d.defaults = append(d.defaults, fmt.Sprintf(format, v)+" (rule "+ruleID+")")
+	}
+	return v
+}
+
+// resolveDuty sets the mechanism group from the register, or derives it from usage
+// (ISO 4301-1), and flags a disagreement.
+func (d *hoistData) resolveDuty() {
+	given := 0
+	if s := d.text("duty_group"); s != "" {
+		if g, fem, ok := calc.ParseDutyGroup(s); ok {
+			given = g
+			if fem {
+				d.derived = append(d.derived, fmt.Sprintf("FEM 9.511 class %s read as ISO 4301-1 group %s", s, calc.DutyGroupName(g)))
+			}
+		}
+	}
+	u := calc.Usage{}
+	u.CyclesPerHour, _ = d.num("cycles_per_hour")
+	u.MeanLiftM, _ = d.num("mean_lift")
+	if v, ok := d.num("hours_per_day"); ok {
+		u.HoursPerDay = v / 3600
+	}
+	if v, ok := d.num("hoist_speed"); ok {
+		u.SpeedMPerMin = v * 60
+	}
+	if s := d.text("load_spectrum"); len(s) == 2 {
+		u.SpectrumClass = int(s[1] - '0')
+	}
+	u.Km, _ = d.num("spectrum_factor")
+	haveUsage := u.CyclesPerHour > 0 && u.MeanLiftM > 0 && u.HoursPerDay > 0 && (u.SpectrumClass > 0 || u.Km > 0)
+	if !haveUsage {
+		d.group = given
+		return
+	}
+	if v, _, err := d.rule("default.working_days"); err == nil {
+		u.WorkingDaysPerYear = v
+	}
+	if v, _, err := d.rule("default.design_years"); err == nil {
+		u.DesignYears = v
+	}
+	der, err := calc.DeriveDuty(u)
+	if err != nil {
+		d.messages = append(d.messages, "duty group not derived from usage: "+err.Error())
+		d.group = given
+		return
+	}
+	switch {
+	case given == 0:
+		d.group = der.Group
+		note := fmt.Sprintf("duty group %s derived from usage (ISO 4301-1): %s", calc.DutyGroupName(der.Group), der.Basis)
+		if der.Clamped {
+			note += "; clamped at a corner of the ISO 4301-1 table"
+		}
+		d.derived = append(d.derived, note)
+	case given != der.Group:
+		d.group = given
+		d.messages = append(d.messages, fmt.Sprintf("duty group %s given, but the usage columns give %s (%s): the given group is used; check the register",
+			calc.DutyGroupName(given), calc.DutyGroupName(der.Group), der.Basis))
+	default:
+		d.group = given
+	}
+}
+
+// checkSpec describes one check: the fields it needs, the rules it uses and how it runs.
+type checkSpec struct {
+	id    string
+	needs []string // schema keys that must be present (Bad → error, Empty → unchecked)
+	// loadDependent checks enter the maximum permissible rated load; linear ones are
+	// solved in closed form (utilisation affine in the rated load), the others by bracketed
+	// root finding.
+	loadDependent, linear bool
+	// nullsRating: when this load-independent check fails, the hoist has no rating.
+	nullsRating bool
+	// noBand: pass up to utilisation 1, no marginal band (a load test at exactly the
+	// required test load covers the rating).
+	noBand bool
+	// applicable reports whether the check applies at all (false → info "not applicable").
+	applicable func(d *hoistData) (bool, string)
+	// prepare looks up rules and returns the function to evaluate at any hoist state,
+	// with the rule text and source; an error makes the check unchecked (missing rule) or
+	// error.
+	prepare func(d *hoistData) (run func(h calc.Hoist) (calc.Outcome, error), rules []templates.Rule, err error)
+}
+
+func needsMotorRadius(d *hoistData) []string {
+	if d.h.Layers > 1 {
+		return []string{"rope_diameter"}
+	}
+	return nil
+}
+
+var loadNeeds = []string{"rated_load"}
+
+func join(lists ...[]string) []string {
+	var out []string
+	for _, l := range lists {
+		out = append(out, l...)
+	}
+	return out
+}
+
+// checkSpecs returns the checks in fleet.CheckIDs order.
+func checkSpecs() []checkSpec {
+	ruleOf := func(d *hoistData, id string) (float64, templates.Rule, error) { return d.rule(id) }
+	return []checkSpec{
+		{id: "rope-design-factor", needs: join(loadNeeds, []string{"rope_mbf"}), loadDependent: true, linear: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				z, rz, err := ruleOf(d, "rope.design_factor")
+				if err != nil {
+					return nil, nil, err
+				}
+				basis, rb, err := d.ruleWord("rope.basis")
+				if err != nil {
+					return nil, nil, err
+				}
+				static := basis == "static"
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, z, static) }, []templates.Rule{rz, rb}, nil
+			}},
+		{id: "drum-ratio", needs: []string{"drum_diameter", "rope_diameter"}, nullsRating: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				h1, r, err := ruleOf(d, "drum.h1")
+				if err != nil {
+					return nil, nil, err
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumRatio(h, h1) }, []templates.Rule{r}, nil
+			}},
+		{id: "sheave-ratio", needs: []string{"sheave_diameter", "rope_diameter"}, nullsRating: true,
+			applicable: func(d *hoistData) (bool, string) {
+				if d.h.Parts <= d.h.RopeEnds && d.h.DeflectionSheaves == 0 && d.missing["sheave_diameter"] {
+					return false, "no running sheaves (single part per rope end, no deflection sheaves)"
+				}
+				return true, ""
+			},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				h2, r, err := ruleOf(d, "sheave.h2")
+				if err != nil {
+					return nil, nil, err
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.SheaveRatio(h, h2) }, []templates.Rule{r}, nil
+			}},
+		{id: "drum-capacity", needs: []string{"drum_diameter", "rope_diameter", "lift_height", "drum_grooves"}, nullsRating: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				w, r, err := ruleOf(d, "drum.dead_wraps")
+				if err != nil {
+					return nil, nil, err
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumCapacity(h, w) }, []templates.Rule{r}, nil
+			}},
+		{id: "fleet-angle", needs: []string{"fleet_angle"}, nullsRating: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				id := "fleet_angle.max_grooved"
+				if !d.h.Grooved {
+					id = "fleet_angle.max_plain"
+				}
+				mx, r1, err := ruleOf(d, id)
+				if err != nil {
+					return nil, nil, err
+				}
+				mn, r2, err := ruleOf(d, "fleet_angle.min")
+				if err != nil {
+					return nil, nil, err
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, []templates.Rule{r1, r2}, nil
+			}},
+		{id: "motor-torque", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), loadDependent: true, linear: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				return calc.MotorTorque, nil, nil
+			}},
+		{id: "motor-power", needs: join(loadNeeds, []string{"hoist_speed", "motor_power"}), loadDependent: true, linear: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				return calc.MotorPower, nil, nil
+			}},
+		{id: "hoist-speed", needs: []string{"motor_speed", "drum_diameter", "gear_ratio", "hoist_speed"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				tol, r, err := ruleOf(d, "hoist_speed.tolerance")
+				if err != nil {
+					return nil, nil, err
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, tol) }, []templates.Rule{r}, nil
+			}},
+		{id: "motor-accel-torque", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), loadDependent: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				return calc.MotorAccelTorque, nil, nil
+			}},
+		{id: "gearbox-torque", needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), loadDependent: true,
+			applicable: func(d *hoistData) (bool, string) {
+				if d.missing["gearbox_rated_torque"] {
+					return false, "no gearbox rated torque in the register"
+				}
+				return true, ""
+			},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				return calc.GearboxTorque, nil, nil
+			}},
+		{id: "brake-holding", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), loadDependent: true, linear: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				f, r1, err := ruleOf(d, "brake.factor")
+				if err != nil {
+					return nil, nil, err
+				}
+				each, r2, err := d.ruleWord("brake.each")
+				if err != nil {
+					return nil, nil, err
+				}
+				e := each == "yes"
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, []templates.Rule{r1, r2}, nil
+			}},
+		{id: "brake-stop", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), loadDependent: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				lim := math.NaN()
+				var rules []templates.Rule
+				if r, ok := d.opts.Rules.Lookup("brake_stop.max_distance", d.scope); ok {
+					v, err := r.ValueSI()
+					if err != nil {
+						return nil, nil, err
+					}
+					d.rules = append(d.rules, r)
+					lim, rules = v, []templates.Rule{r}
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, lim) }, rules, nil
+			}},
+		{id: "runaway", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}),
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				return calc.Runaway, nil, nil
+			}},
+		{id: "shaft-load", needs: join(loadNeeds, []string{"drum_mass"}),
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				return calc.ShaftLoad, nil, nil
+			}},
+		{id: "design-life", needs: []string{"operating_hours"}, nullsRating: true,
+			prepare: prepareDesignLife},
+		{id: "inspection-due", needs: []string{"last_inspection"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				months, r, err := ruleOf(d, "inspection.interval_months")
+				if err != nil {
+					return nil, nil, err
+				}
+				last := d.a.Get("last_inspection").Date
+				asOf := d.opts.AsOf
+				return func(calc.Hoist) (calc.Outcome, error) {
+					return calc.InspectionDue(last, asOf, int(math.Round(months)))
+				}, []templates.Rule{r}, nil
+			}},
+		{id: "load-test", needs: join(loadNeeds, []string{"test_load"}), noBand: true,
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+				f, r, err := ruleOf(d, "load_test.factor")
+				if err != nil {
+					return nil, nil, err
+				}
+				test, _ := d.num("test_load")
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, []templates.Rule{r}, nil
+			}},
+		{id: "rope-wear", needs: []string{"rope_diameter"}, nullsRating: true,
+			prepare: prepareRopeWear},
+	}
+}
+
+func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+	if d.group == 0 {
+		return nil, nil, &Error{Kind: Missing, Field: "duty_group", Err: errors.New("needs the duty group (or the usage to derive it)")}
+	}
+	km, ok := d.num("spectrum_factor")
+	if !ok {
+		if s := d.text("load_spectrum"); len(s) == 2 {
+			km, ok = calc.SpectrumFactor(int(s[1] - '0'))
+		}
+	}
+	if !ok {
+		return nil, nil, &Error{Kind: Missing, Field: "load_spectrum", Err: errors.New("needs the load spectrum (L1–L4) or the spectrum factor")}
+	}
+	dur, r1, err := d.rule("life.duration_h")
+	if err != nil {
+		return nil, nil, err
+	}
+	x, r2, err := d.rule("life.record_factor")
+	if err != nil {
+		return nil, nil, err
+	}
+	hours, _ := d.num("operating_hours")
+	in := calc.LifeInput{OperatingHours: hours / 3600, Km: km, RecordFactor: x, FullLoadDurationH: dur,
+		Commissioned: d.a.Get("commissioned").Date, AsOf: d.opts.AsOf}
+	return func(calc.Hoist) (calc.Outcome, error) { return calc.DesignLife(in) }, []templates.Rule{r1, r2}, nil
+}
+
+func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+	meas, okm := d.num("rope_measured_diameter")
+	bw, okb := d.num("rope_broken_wires")
+	if !okm && !okb {
+		return nil, nil, &Error{Kind: Missing, Field: "rope_measured_diameter", Err: errors.New("needs the measured rope diameter or the broken-wire count from the last inspection")}
+	}
+	in := calc.WearInput{NominalM: d.h.RopeDiameterM, MeasuredM: meas, BrokenWires: -1,
+		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.opts.AsOf}
+	in.ReferenceM, _ = d.num("rope_reference_diameter")
+	if okb {
+		in.BrokenWires = int(bw)
+	}
+	var rules []templates.Rule
+	if okm {
+		v, r, err := d.rule("rope_wear.max_reduction")
+		if err != nil {
+			return nil, nil, err
+		}
+		rules = append(rules, r)
+		if r.Dimension() == "length" {
+			in.MaxReductionM = v
+		} else {
+			in.MaxReductionFraction = v
+		}
+	}
+	if okb {
+		v, r, err := d.rule("rope_wear.broken_wires_lay")
+		if err != nil {
+			return nil, nil, err
+		}
+		rules = append(rules, r)
+		in.MaxBrokenWires = int(v)
+	}
+	return func(calc.Hoist) (calc.Outcome, error) { return calc.RopeWear(in) }, rules, nil
+}
+
+// Check evaluates one asset: every check at its rated load (and at the proposed load
+// when there is one), the maximum permissible rated load and its governing check.
+func (c *Checker) Check(a *Asset) *Result {
+	r := &Result{Asset: a}
+	if a.Blank {
+		r.Status = StatusUnchecked
+		r.MinMargin = math.NaN()
+		r.MaxRatedLoadKg = math.NaN()
+		r.Rating.Note = "empty row"
+		for _, p := range a.Problems {
+			r.Messages = append(r.Messages, p.Error())
+		}
+		if len(r.Messages) == 0 {
+			r.Messages = append(r.Messages, fmt.Sprintf("row %d is empty", a.Row))
+		}
+		return r
+	}
+	d := c.resolve(a)
+	specs := checkSpecs()
+	prepared := make([]preparedCheck, len(specs))
+	for i, s := range specs {
+		prepared[i] = c.prepare(d, s)
+	}
+	r.Evaluation = c.evaluate(d, d.h, prepared, true)
+	r.Rating = c.rating(d, prepared, r.Checks)
+
+	proposed := math.NaN()
+	if v, ok := d.num("proposed_rated_load"); ok {
+		proposed = v
+	} else if c.opts.RatedLoadFactor > 0 && d.h.RatedLoadKg > 0 {
+		proposed = c.opts.RatedLoadFactor * d.h.RatedLoadKg
+	}
+	if !math.IsNaN(proposed) {
+		e := c.evaluate(d, d.h.WithRatedLoad(proposed), prepared, false)
+		for i := range e.Checks {
+			e.Checks[i].LimitRatedLoadKg = r.Checks[i].LimitRatedLoadKg
+		}
+		r.Proposed = &e
+	}
+	r.Messages = append(r.Messages, d.messages...)
+	r.DefaultsUsed = d.defaults
+	r.Derived = d.derived
+	r.rules = d.rules
+	return r
+}
+
+type preparedCheck struct {
+	spec    checkSpec
+	run     func(calc.Hoist) (calc.Outcome, error)
+	status  Status // StatusPass when runnable; otherwise the status to report
+	message string
+	rule    string
+	source  string
+}
+
+func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
+	p := preparedCheck{spec: s}
+	if s.applicable != nil {
+		if ok, why := s.applicable(d); !ok {
+			p.status, p.message = StatusInfo, "not applicable: "+why
+			return p
+		}
+	}
+	needs := s.needs
+	switch s.id {
+	case "motor-torque", "motor-power", "brake-holding", "motor-accel-torque", "gearbox-torque", "brake-stop", "runaway":
+		needs = join(needs, needsMotorRadius(d))
+	}
+	var missing []string
+	for _, k := range needs {
+		if e, bad := d.bad[k]; bad {
+			p.status, p.message = StatusError, e.Error()
+			return p
+		}
+		if d.missing[k] {
+			missing = append(missing, columnHeader(k))
+		}
+	}
+	if len(missing) > 0 {
+		p.status, p.message = StatusUnchecked, "needs "+strings.Join(missing, ", ")
+		return p
+	}
+	run, rules, err := s.prepare(d)
+	if err != nil {
+		var fe *Error
+		if errors.As(err, &fe) && fe.Kind == Missing {
+			p.status, p.message = StatusUnchecked, fe.Err.Error()
+		} else {
+			p.status, p.message = StatusUnchecked, err.Error()
+		}
+		return p
+	}
+	p.run = run
+	var rs, ss []string
+	for _, r := range rules {
+		rs = append(rs, r.String())
+		ss = append(ss, r.Cite())
+	}
+	p.rule = strings.Join(rs, "; ")
+	p.source = strings.Join(ss, "; ")
+	return p
+}
+
+func columnHeader(key string) string {
+	if c, ok := templates.ColumnByKey(key); ok {
+		return c.Header
+	}
+	return key
+}
+
+// evaluate runs every prepared check at hoist state h.
+func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck, limits bool) Evaluation {
+	e := Evaluation{RatedLoadKg: h.RatedLoadKg, MinMargin: math.NaN(), Status: StatusPass}
+	for _, p := range prepared {
+		cr := CheckResult{ID: p.spec.id, Demand: math.NaN(), Capacity: math.NaN(), Utilisation: math.NaN(),
+			Margin: math.NaN(), LimitRatedLoadKg: math.NaN(), Rule: p.rule, Source: p.source,
+			LoadDependent: p.spec.loadDependent}
+		if p.run == nil {
+			cr.Status, cr.Message = p.status, p.message
+		} else {
+			o, err := p.run(h)
+			if err != nil {
+				cr.Status, cr.Message = StatusError, c.calcError(d, p.spec.id, err).Error()
+			} else {
+				c.fill(&cr, o, p.spec.noBand)
+				if limits && p.spec.loadDependent {
+					cr.LimitRatedLoadKg = c.limitLoad(h, p, o)
+				}
+			}
+		}
+		e.Checks = append(e.Checks, cr)
+		if cr.Status.Worse(e.Status) {
+			e.Status = cr.Status
+		}
+		if cr.Status == StatusPass || cr.Status == StatusMarginal || cr.Status == StatusFail {
+			if !math.IsNaN(cr.Margin) && (math.IsNaN(e.MinMargin) || cr.Margin < e.MinMargin) {
+				e.MinMargin, e.WorstCheck = cr.Margin, cr.ID
+			} else if math.IsNaN(cr.Margin) && cr.Status == StatusFail && e.WorstCheck == "" {
+				e.WorstCheck = cr.ID
+			}
+		}
+	}
+	return e
+}
+
+func (c *Checker) calcError(d *hoistData, op string, err error) *Error {
+	e := &Error{Op: op, Kind: Calc, Asset: d.a.ID, Err: err}
+	var re *calc.RangeError
+	if errors.As(err, &re) {
+		e.Kind = OutOfRange
+		e.Field = re.Field
+		if v := d.a.Get(re.Field); v.State == OK {
+			e.Cell = v.Cell
+		}
+	}
+	return e
+}
+
+func (c *Checker) fill(cr *CheckResult, o calc.Outcome, noBand bool) {
+	cr.Demand, cr.Capacity, cr.Utilisation = o.Demand, o.Capacity, o.Utilisation
+	cr.Unit, cr.Figures, cr.Steps = o.Unit, o.Figures, o.Steps
+	if o.Note != "" {
+		cr.Message = o.Note
+	}
+	switch o.Verdict {
+	case calc.Info:
+		cr.Status = StatusInfo
+		cr.Utilisation = math.NaN()
+	case calc.Fail:
+		cr.Status = StatusFail
+	case calc.Marginal:
+		cr.Status = StatusMarginal
+	default:
+		band := c.opts.MarginalBand
+		if noBand {
+			band = 0
+		}
+		cr.Status = StatusOf(o.Utilisation, band)
+	}
+	if !math.IsNaN(cr.Utilisation) && !math.IsInf(cr.Utilisation, 0) {
+		cr.Margin = 1 - cr.Utilisation
+	}
+}
+
+// limitFunc is the quantity whose root is the check's limiting rated load: utilisation
+// − 1, or for a check without a limit (brake-stop with no distance rule) the margin to
+// being unable to stop: +1 when the brakes cannot stop the load, −1 when they can.
+func limitFunc(p preparedCheck) func(h calc.Hoist) (float64, bool) {
+	return func(h calc.Hoist) (float64, bool) {
+		o, err := p.run(h)
+		if err != nil {
+			return 0, false
+		}
+		if o.Verdict == calc.Fail {
+			return 1, true
+		}
+		if o.Verdict == calc.Info || math.IsNaN(o.Utilisation) {
+			if p.spec.id == "brake-stop" {
+				return -1, true
+			}
+			return 0, false
+		}
+		return o.Utilisation - 1, true
+	}
+}
+
+// maxSearchKg bounds the rated-load search: no drum hoist in a register carries more.
+const maxSearchKg = 1e7
+
+// limitLoad is the rated load at which the check reaches its limit (design.md: closed form
+// where linear, bisection otherwise, floored to 0.1 kg). NaN when the limit is not
+// reached below maxSearchKg or cannot be evaluated; 0 when the check fails at no load.
+func (c *Checker) limitLoad(h calc.Hoist, p preparedCheck, o calc.Outcome) float64 {
+	f := limitFunc(p)
+	f0, ok := f(h.WithRatedLoad(0))
+	if !ok {
+		return math.NaN()
+	}
+	if f0 > 0 {
+		return 0
+	}
+	if p.spec.linear && !math.IsNaN(o.Utilisation) && h.RatedLoadKg > 0 {
+		// Utilisation is affine in the rated load: u(m) = u(0) + m (u(m_L) − u(0)) / m_L.
+		u0, u1 := f0+1, o.Utilisation
+		slope := (u1 - u0) / h.RatedLoadKg
+		if slope <= 0 {
+			return math.NaN()
+		}
+		return floorTenth((1 - u0) / slope)
+	}
+	// Bracket, then bisect to 0.01 kg.
+	lo, hi := 0.0, math.Max(h.RatedLoadKg, 100)
+	for {
+		fh, ok := f(h.WithRatedLoad(hi))
+		if !ok {
+			return math.NaN()
+		}
+		if fh > 0 {
+			break
+		}
+		lo = hi
+		hi *= 2
+		if hi > maxSearchKg {
+			return math.NaN()
+		}
+	}
+	for hi-lo > 0.01 {
+		mid := (lo + hi) / 2
+		fm, ok := f(h.WithRatedLoad(mid))
+		if !ok {
+			return math.NaN()
+		}
+		if fm > 0 {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	return floorTenth(lo)
+}
+
+func floorTenth(kg float64) float64 { return math.Floor(kg*10+1e-9) / 10 }
+
+// rating is the maximum permissible rated load: the smallest limit over the
+// load-dependent checks, null when a load-independent check fails or a load-dependent
+// check could not run, capped by the component WLL.
+func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckResult) Rating {
+	rt := Rating{MaxRatedLoadKg: math.NaN()}
+	var notRun []string
+	for i, cr := range checks {
+		spec := prepared[i].spec
+		if spec.nullsRating && cr.Status == StatusFail {
+			rt.GoverningCheck = cr.ID
+			rt.Note = cr.ID + " fails whatever the load: no rating can be given"
+			return rt
+		}
+		if spec.loadDependent && (cr.Status == StatusError || cr.Status == StatusUnchecked) {
+			notRun = append(notRun, cr.ID)
+		}
+	}
+	if len(notRun) > 0 {
+		rt.Note = "not rated: " + strings.Join(notRun, ", ") + " could not be checked"
+		return rt
+	}
+	for _, cr := range checks {
+		if !cr.LoadDependent || math.IsNaN(cr.LimitRatedLoadKg) {
+			continue
+		}
+		if math.IsNaN(rt.MaxRatedLoadKg) || cr.LimitRatedLoadKg < rt.MaxRatedLoadKg {
+			rt.MaxRatedLoadKg, rt.GoverningCheck = cr.LimitRatedLoadKg, cr.ID
+		}
+	}
+	if wll, ok := d.num("component_wll"); ok && (math.IsNaN(rt.MaxRatedLoadKg) || wll < rt.MaxRatedLoadKg) {
+		mech := rt.MaxRatedLoadKg
+		rt.MaxRatedLoadKg, rt.GoverningCheck = floorTenth(wll), "component-wll"
+		if math.IsNaN(mech) {
+			rt.Note = "capped by the component WLL"
+		} else {
+			rt.Note = fmt.Sprintf("capped by the component WLL; the mechanism alone would allow %.1f kg", mech)
+		}
+	}
+	return rt
+}
+
+// SortedRuleUses turns use counts into the audit list, in table order.
+func SortedRuleUses(t *templates.Table, counts map[string]int, userOrigin string) []RuleUse {
+	out := make([]RuleUse, 0, len(t.Rules))
+	for _, r := range t.Rules {
+		out = append(out, RuleUse{ID: r.ID, Groups: r.Groups, When: r.When, Value: r.Value, Unit: r.Unit,
+			Source: r.Source, Provenance: r.Provenance, Note: r.Note, Origin: r.Origin, Uses: counts[RuleKey(r)]})
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].ID < out[j].ID })
+	return out
+}

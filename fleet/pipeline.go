@@ -1,0 +1,131 @@
+package fleet
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"runtime"
+	"sync/atomic"
+
+	"golang.org/x/sync/errgroup"
+)
+
+// Run reads every row of src, checks it in a bounded pool of workers and writes the
+// results to sink in register order, then the summary. A bad row is data, never a reason
+// to stop: Run returns an error only when the source cannot be read further, the sink
+// fails, or ctx is cancelled (then with ctx's error, after every goroutine has ended).
+//
+// Memory is bounded by the reorder buffer (Options.Buffer results in flight), not by
+// the register: the reader waits for a free slot before reading the next row.
+// progress, when not nil, is incremented once per result written.
+func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, progress *atomic.Int64) (*Summary, error) {
+	opts := c.Options()
+	workers := opts.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	buffer := opts.Buffer
+	if buffer <= 0 {
+		buffer = 64 * workers
+	}
+	info.Workers = workers
+	if err := sink.Begin(src.Header(), info); err != nil {
+		return nil, fmt.Errorf("writing results: %w", err)
+	}
+	summary := NewSummary(opts.TopN)
+	ruleUses := map[string]int{}
+
+	g, ctx := errgroup.WithContext(ctx)
+	slots := make(chan struct{}, buffer) // a slot is held from read until written
+	jobs := make(chan *Asset, workers)
+	done := make(chan *Result, workers)
+
+	g.Go(func() error { // reader
+		defer close(jobs)
+		for index := 0; ; index++ {
+			select {
+			case slots <- struct{}{}:
+			case <-ctx.Done():
+				return ctx.Err()
+			}
+			a, err := src.Next(ctx)
+			if errors.Is(err, io.EOF) {
+				return nil
+			}
+			if err != nil {
+				return err
+			}
+			a.Index = index // output order is read order, whatever the source counted
+			select {
+			case jobs <- a:
+			case <-ctx.Done():
+				return ctx.Err()
+			}
+		}
+	})
+	workersDone := make(chan struct{})
+	var wg errgroup.Group
+	for range workers {
+		wg.Go(func() error {
+			for a := range jobs {
+				r := c.Check(a)
+				select {
+				case done <- r:
+				case <-ctx.Done():
+					return ctx.Err()
+				}
+			}
+			return nil
+		})
+	}
+	g.Go(func() error {
+		err := wg.Wait()
+		close(done)
+		close(workersDone)
+		return err
+	})
+	g.Go(func() error { // collector: reorder and write
+		pending := map[int]*Result{}
+		next := 0
+		for r := range done {
+			pending[r.Asset.Index] = r
+			for {
+				p, ok := pending[next]
+				if !ok {
+					break
+				}
+				delete(pending, next)
+				next++
+				if err := sink.Write(p); err != nil {
+					return fmt.Errorf("writing results: %w", err)
+				}
+				summary.Add(p)
+				for _, rule := range p.rules {
+					ruleUses[RuleKey(rule)]++
+				}
+				p.rules = nil
+				if progress != nil {
+					progress.Add(1)
+				}
+				<-slots
+			}
+		}
+		if len(pending) > 0 && ctx.Err() == nil {
+			return &Error{Kind: Internal, Err: fmt.Errorf("%d results never written (next expected %d)", len(pending), next)}
+		}
+		return nil
+	})
+	if err := g.Wait(); err != nil {
+		<-workersDone
+		sink.Abort()
+		return summary, err
+	}
+	info.Rows = summary.Total
+	info.Rules = SortedRuleUses(opts.Rules, ruleUses, info.RulesFile)
+	if err := sink.End(summary, info); err != nil {
+		sink.Abort()
+		return summary, fmt.Errorf("writing results: %w", err)
+	}
+	return summary, nil
+}

@@ -1,0 +1,31 @@
+package templates
+
+import (
+	"embed"
+	"io/fs"
+	"sort"
+)
+
+//go:embed demo/*.csv
+var demoFS embed.FS
+
+// DemoRegisters returns the invented demo registers (file name → contents), in name
+// order. The scenario is described in demo/README.md.
+func DemoRegisters() ([]string, map[string][]byte, error) {
+	names, err := fs.Glob(demoFS, "demo/*.csv")
+	if err != nil {
+		return nil, nil, err
+	}
+	sort.Strings(names)
+	out := map[string][]byte{}
+	var base []string
+	for _, n := range names {
+		b, err := demoFS.ReadFile(n)
+		if err != nil {
+			return nil, nil, err
+		}
+		out[n[len("demo/"):]] = b
+		base = append(base, n[len("demo/"):])
+	}
+	return base, out, nil
+}
