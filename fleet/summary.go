@@ -15,8 +15,9 @@ type Summary struct {
 	Checks   []CheckCount
 	// Governing counts hoists by governing check (or cap) of their maximum rated load.
 	Governing map[string]int
-	// MarginBins counts hoists by smallest margin (see MarginBinEdges).
-	MarginBins [len(MarginBinEdges) + 1]int
+	// MarginBins counts hoists by smallest margin (see MarginBinEdges); the last bin
+	// holds the hoists with no margin at all (nothing could be checked against a limit).
+	MarginBins [len(MarginBinEdges) + 2]int
 	// Worst are the TopN hoists with the smallest margin (fail first), worst first.
 	Worst []Brief
 	// Overdue are the TopN most overdue inspections; OverdueCount counts them all.
@@ -37,12 +38,11 @@ type Summary struct {
 }
 
 // MarginBinEdges are the upper edges of the smallest-margin histogram bins: margin < 0
-// (fail), 0–0.1, 0.1–0.2, 0.2–0.3, 0.3–0.5, ≥ 0.5; the last bin also holds hoists with no
-// margin.
+// (fail), 0–0.1, 0.1–0.2, 0.2–0.3, 0.3–0.5, ≥ 0.5, then a bin for hoists with no margin.
 var MarginBinEdges = [...]float64{0, 0.1, 0.2, 0.3, 0.5}
 
 // MarginBinLabels names the bins of MarginBins.
-var MarginBinLabels = [...]string{"< 0 (over limit)", "0 – 10 %", "10 – 20 %", "20 – 30 %", "30 – 50 %", "≥ 50 %"}
+var MarginBinLabels = [...]string{"< 0 (over limit)", "0 – 10 %", "10 – 20 %", "20 – 30 %", "30 – 50 %", "≥ 50 %", "no margin (not checked)"}
 
 // SiteCount counts hoists by status at one site.
 type SiteCount struct {
@@ -132,8 +132,9 @@ func (s *Summary) Add(r *Result) {
 	if r.GoverningCheck != "" {
 		s.Governing[r.GoverningCheck]++
 	}
-	bin := len(MarginBinEdges)
+	bin := len(MarginBinEdges) + 1
 	if !math.IsNaN(r.MinMargin) {
+		bin = len(MarginBinEdges)
 		for k, e := range MarginBinEdges {
 			if r.MinMargin < e {
 				bin = k

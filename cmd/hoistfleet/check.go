@@ -1,0 +1,433 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"hash"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+	"sync/atomic"
+	"time"
+
+	"github.com/spf13/pflag"
+
+	"hoistfleet/fleet"
+	"hoistfleet/io/csvout"
+	"hoistfleet/io/jsonout"
+	"hoistfleet/io/register"
+	"hoistfleet/io/rulesfile"
+	"hoistfleet/io/textout"
+	"hoistfleet/io/xlsxout"
+	"hoistfleet/templates"
+)
+
+// checkConfig is what the flags shared by check, explain and demo set.
+type checkConfig struct {
+	rules           []string
+	asOf            string
+	sheet           string
+	marginal        float64
+	workers         int
+	ratedLoadFactor float64
+}
+
+func (c *checkConfig) register(fs *pflag.FlagSet) {
+	fs.StringArrayVar(&c.rules, "rules", nil, "rule profile (iso, us) or a rule file (CSV, or XLSX with --rules-sheet) overriding it; repeat to layer: --rules us --rules ours.csv (default iso)")
+	fs.StringVar(&c.asOf, "as-of", "", "the run's date for inspections and ages, YYYY-MM-DD (default today)")
+	fs.StringVar(&c.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
+	fs.Float64Var(&c.marginal, "marginal", 0.10, "marginal band: utilisation above 1 − band and up to 1 is marginal")
+	fs.IntVar(&c.workers, "workers", 0, "checking workers (default GOMAXPROCS)")
+	fs.Float64Var(&c.ratedLoadFactor, "rated-load-factor", 0, "re-rate every hoist to F × its rated load and check it there too")
+}
+
+// loadRules builds the rule table in force from --rules values.
+func loadRules(values []string) (*templates.Table, string, error) {
+	profile := "iso"
+	var files []string
+	for _, v := range values {
+		if isProfile(v) {
+			profile = v
+			continue
+		}
+		files = append(files, v)
+	}
+	t, err := templates.Profile(profile)
+	if err != nil {
+		return nil, "", usagef("--rules: %v", err)
+	}
+	for _, name := range files {
+		f, err := os.Open(name)
+		if err != nil {
+			return nil, "", usagef("--rules: %v (want %s or a rule file)", err, strings.Join(templates.Profiles(), ", "))
+		}
+		user, err := rulesfile.Read(name, f, "")
+		f.Close()
+		if err != nil {
+			return nil, "", usagef("--rules: %v", err)
+		}
+		t = t.Override(user)
+	}
+	return t, strings.Join(files, ", "), nil
+}
+
+func isProfile(s string) bool {
+	for _, p := range templates.Profiles() {
+		if s == p {
+			return true
+		}
+	}
+	return false
+}
+
+func parseAsOf(s string) (time.Time, error) {
+	if s == "" {
+		y, m, d := time.Now().Date()
+		return time.Date(y, m, d, 0, 0, 0, 0, time.UTC), nil
+	}
+	t, err := time.Parse(time.DateOnly, s)
+	if err != nil {
+		return time.Time{}, usagef("--as-of %q: want a date YYYY-MM-DD", s)
+	}
+	return t, nil
+}
+
+func (c *checkConfig) checker() (*fleet.Checker, *templates.Table, string, time.Time, error) {
+	rules, userFiles, err := loadRules(c.rules)
+	if err != nil {
+		return nil, nil, "", time.Time{}, err
+	}
+	asOf, err := parseAsOf(c.asOf)
+	if err != nil {
+		return nil, nil, "", time.Time{}, err
+	}
+	if !(c.marginal >= 0 && c.marginal < 1) {
+		return nil, nil, "", time.Time{}, usagef("--marginal %g: want a band in [0, 1)", c.marginal)
+	}
+	if c.ratedLoadFactor < 0 {
+		return nil, nil, "", time.Time{}, usagef("--rated-load-factor %g: want a positive factor", c.ratedLoadFactor)
+	}
+	chk, err := fleet.NewChecker(fleet.Options{Rules: rules, MarginalBand: c.marginal, AsOf: asOf,
+		RatedLoadFactor: c.ratedLoadFactor, Workers: c.workers})
+	if err != nil {
+		return nil, nil, "", time.Time{}, usagef("%v", err)
+	}
+	return chk, rules, userFiles, asOf, nil
+}
+
+// input is an opened register: its source, and the hash of the bytes read so far.
+type input struct {
+	src  fleet.Source
+	hash hash.Hash
+	file *os.File
+}
+
+func (in *input) Close() error {
+	err := in.src.Close()
+	if in.file != nil {
+		in.file.Close()
+	}
+	return err
+}
+
+func (in *input) sha256() string { return hex.EncodeToString(in.hash.Sum(nil)) }
+
+// openRegister opens a register file read-only ("-" is standard input, CSV). XLSX is
+// told from CSV by the zip signature, not the name.
+func openRegister(name, sheet string, st Streams) (*input, error) {
+	in := &input{hash: sha256.New()}
+	var r io.Reader
+	display := name
+	if name == "-" {
+		r = st.In
+		display = "stdin"
+	} else {
+		f, err := os.Open(name)
+		if err != nil {
+			return nil, fmt.Errorf("reading the register: %w", err)
+		}
+		if fi, err := f.Stat(); err == nil && fi.IsDir() {
+			f.Close()
+			return nil, fmt.Errorf("reading the register: %s is a directory", name)
+		}
+		in.file = f
+		r = f
+	}
+	br := io.TeeReader(r, in.hash)
+	head := make([]byte, 4)
+	n, err := io.ReadFull(br, head)
+	if err != nil && err != io.ErrUnexpectedEOF && err != io.EOF {
+		in.Close()
+		return nil, fmt.Errorf("reading the register %s: %w", display, err)
+	}
+	full := io.MultiReader(bytes.NewReader(head[:n]), br)
+	if n == 4 && bytes.Equal(head, []byte("PK\x03\x04")) {
+		in.src, err = register.NewXLSX(full, filepath.Base(display), sheet)
+	} else if n >= 4 && bytes.Equal(head, []byte{0xD0, 0xCF, 0x11, 0xE0}) {
+		err = fmt.Errorf("%s is an OLE2 file: a legacy .xls workbook or a password-protected .xlsx; save an unprotected .xlsx or CSV copy", display)
+	} else {
+		if sheet != "" {
+			err = usagef("--sheet %q: %s is a CSV file, it has no sheets", sheet, display)
+		} else {
+			in.src, err = register.NewCSV(full, filepath.Base(display))
+		}
+	}
+	if err != nil {
+		if in.file != nil {
+			in.file.Close()
+		}
+		return nil, err
+	}
+	return in, nil
+}
+
+// output is a file written atomically: a temporary file in the same directory, renamed
+// over the target only when complete.
+type output struct {
+	path string
+	tmp  *os.File
+	w    io.Writer
+}
+
+func createOutput(path string, st Streams) (*output, error) {
+	if path == "-" {
+		return &output{path: "-", w: st.Out}, nil
+	}
+	dir := filepath.Dir(path)
+	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
+	if err != nil {
+		return nil, fmt.Errorf("writing the results: %w", err)
+	}
+	return &output{path: path, tmp: tmp, w: tmp}, nil
+}
+
+func (o *output) commit() error {
+	if o.tmp == nil {
+		return nil
+	}
+	if err := o.tmp.Sync(); err != nil {
+		o.abort()
+		return fmt.Errorf("writing %s: %w", o.path, err)
+	}
+	if err := o.tmp.Close(); err != nil {
+		o.abort()
+		return fmt.Errorf("writing %s: %w", o.path, err)
+	}
+	if err := os.Rename(o.tmp.Name(), o.path); err != nil {
+		os.Remove(o.tmp.Name())
+		return fmt.Errorf("writing %s: %w", o.path, err)
+	}
+	return nil
+}
+
+func (o *output) abort() {
+	if o.tmp != nil {
+		o.tmp.Close()
+		os.Remove(o.tmp.Name())
+	}
+}
+
+// sameFile reports whether two paths name the same existing file.
+func sameFile(a, b string) bool {
+	fa, err1 := os.Stat(a)
+	fb, err2 := os.Stat(b)
+	return err1 == nil && err2 == nil && os.SameFile(fa, fb)
+}
+
+// defaultOutput is REGISTER's name with "-results" and the format's extension, beside it.
+func defaultOutput(register, format string) string {
+	if register == "-" {
+		return "-"
+	}
+	base := strings.TrimSuffix(register, filepath.Ext(register))
+	return base + "-results." + format
+}
+
+func newSink(format string, w io.Writer) fleet.Sink {
+	switch format {
+	case "csv":
+		return csvout.New(w, csvout.Options{})
+	case "jsonl":
+		return jsonout.New(w, jsonout.Options{})
+	}
+	return xlsxout.New(w, xlsxout.Options{})
+}
+
+type checkRun struct {
+	cfg      checkConfig
+	out      string
+	format   string
+	failOn   string
+	quiet    bool
+	topN     int
+	register string
+}
+
+func runCheck(ctx context.Context, args []string, st Streams) error {
+	var c checkRun
+	fs := newFlagSet("check", st)
+	fs.StringVarP(&c.out, "output", "o", "", "results file; - for standard output (default REGISTER-results.FORMAT beside the register)")
+	fs.StringVar(&c.format, "format", "", "xlsx, csv or jsonl (default from the output name, else xlsx)")
+	c.cfg.register(fs)
+	fs.StringVar(&c.failOn, "fail-on", "fail", "exit 1 when a hoist is at or above this status: fail, marginal or never (error counts as fail)")
+	fs.BoolVarP(&c.quiet, "quiet", "q", false, "no summary or progress on the terminal")
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		return usagef("check needs one register file (or - for CSV on standard input), got %d arguments", fs.NArg())
+	}
+	c.register = fs.Arg(0)
+	_, err := c.run(ctx, st)
+	return err
+}
+
+func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) {
+	switch c.failOn {
+	case "fail", "marginal", "never":
+	default:
+		return nil, usagef("--fail-on %q: want fail, marginal or never", c.failOn)
+	}
+	if c.format == "" {
+		switch ext := strings.ToLower(filepath.Ext(c.out)); ext {
+		case ".csv", ".jsonl":
+			c.format = ext[1:]
+		default:
+			c.format = "xlsx"
+		}
+	}
+	switch c.format {
+	case "xlsx", "csv", "jsonl":
+	default:
+		return nil, usagef("--format %q: want xlsx, csv or jsonl", c.format)
+	}
+	if c.out == "" {
+		c.out = defaultOutput(c.register, c.format)
+	}
+	if c.out == "-" && c.format == "xlsx" && c.register == "-" {
+		// allowed: a workbook to stdout
+	}
+	if c.register != "-" && c.out != "-" && (sameFile(c.register, c.out) || filepath.Clean(c.register) == filepath.Clean(c.out)) {
+		return nil, usagef("the output %s is the register itself: hoistfleet never overwrites its input", c.out)
+	}
+	chk, rules, userFiles, asOf, err := c.cfg.checker()
+	if err != nil {
+		return nil, err
+	}
+	in, err := openRegister(c.register, c.cfg.sheet, st)
+	if err != nil {
+		return nil, err
+	}
+	defer in.Close()
+	out, err := createOutput(c.out, st)
+	if err != nil {
+		return nil, err
+	}
+	info := &fleet.RunInfo{Tool: "hoistfleet", Version: version, Command: "hoistfleet check " + c.register,
+		Input: c.register, Sheet: in.src.Header().Sheet, Profile: rules.Profile, RulesFile: userFiles,
+		AsOf: asOf, Started: time.Now(), MarginalBand: c.cfg.marginal, RatedLoadFactor: c.cfg.ratedLoadFactor,
+		Cautions: []string{fleet.Caution}}
+	sink := &hashingSink{Sink: newSink(c.format, out.w), in: in, info: info}
+	var progress atomic.Int64
+	stopProgress := startProgress(st, c.quiet || c.out == "-", &progress)
+	summary, err := fleet.Run(ctx, in.src, sink, chk, info, &progress)
+	stopProgress()
+	if err != nil {
+		out.abort()
+		return summary, err
+	}
+	if err := out.commit(); err != nil {
+		return summary, err
+	}
+	if !c.quiet {
+		w := st.Out
+		if c.out == "-" {
+			w = st.Err
+		}
+		if err := textout.Summary(w, summary, info); err != nil {
+			return summary, err
+		}
+		if c.out != "-" {
+			fmt.Fprintf(w, "\nresults: %s\n", c.out)
+		}
+	}
+	return summary, failOn(summary, c.failOn)
+}
+
+// hashingSink records the input's SHA-256 and the finish time just before the summary
+// and audit are written, when the whole input has been read.
+type hashingSink struct {
+	fleet.Sink
+	in   *input
+	info *fleet.RunInfo
+}
+
+func (s *hashingSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
+	if s.in.file != nil {
+		// Read whatever the reader left unread (XLSX readers read all; CSV stops at EOF).
+		io.Copy(s.in.hash, s.in.file)
+	}
+	info.InputSHA256 = s.in.sha256()
+	info.Finished = time.Now()
+	return s.Sink.End(sum, info)
+}
+
+func failOn(s *fleet.Summary, level string) error {
+	worst := fleet.StatusPass
+	for _, st := range fleet.Statuses {
+		if s.ByStatus[st] > 0 {
+			worst = st
+			break
+		}
+	}
+	switch level {
+	case "never":
+		return nil
+	case "marginal":
+		if worst != fleet.StatusPass {
+			return &findingsError{worst}
+		}
+	default:
+		if worst == fleet.StatusFail || worst == fleet.StatusError {
+			return &findingsError{worst}
+		}
+	}
+	return nil
+}
+
+// startProgress shows "checked N hoists" on stderr once a run has taken more than a
+// second, when stderr is a terminal; it returns the function that clears the line.
+func startProgress(st Streams, quiet bool, n *atomic.Int64) func() {
+	if quiet || !st.ErrIsTTY {
+		return func() {}
+	}
+	done := make(chan struct{})
+	finished := make(chan struct{})
+	go func() {
+		defer close(finished)
+		start := time.Now()
+		tick := time.NewTicker(250 * time.Millisecond)
+		defer tick.Stop()
+		shown := false
+		for {
+			select {
+			case <-done:
+				if shown {
+					fmt.Fprint(st.Err, "\r\033[K")
+				}
+				return
+			case <-tick.C:
+				if el := time.Since(start); el > time.Second {
+					k := n.Load()
+					fmt.Fprintf(st.Err, "\rchecked %d hoists (%.0f/s)", k, float64(k)/el.Seconds())
+					shown = true
+				}
+			}
+		}
+	}()
+	return func() { close(done); <-finished }
+}

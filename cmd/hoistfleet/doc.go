@@ -1,0 +1,116 @@
+// Command hoistfleet checks every hoist in a register of powered drum hoists (electric
+// motor, gearbox, rope drum, holding brake, hook block on one or more parts of line)
+// against published engineering rules and writes a results workbook.
+//
+// Usage:
+//
+//	hoistfleet check REGISTER [-o OUT.xlsx] [--rules iso|us|FILE] [--as-of DATE]
+//	                          [--format xlsx|csv|jsonl] [--workers N] [--sheet NAME]
+//	                          [--marginal 0.10] [--fail-on fail|marginal|never] [--quiet]
+//	                          [--rated-load-factor F]
+//	hoistfleet explain REGISTER --asset ID [--format text|md]   one hoist's calculation record
+//	hoistfleet explain REGISTER --all -o DIR                     every hoist's record, one file each
+//	hoistfleet template [-o FILE] [--units si|us]                a blank register
+//	hoistfleet rules [--rules iso|us|FILE] [--format text|md|csv] the rule table in force
+//	hoistfleet demo [-o DIR]                                     writes the invented demo registers and checks them
+//	hoistfleet help [COMMAND | columns]
+//
+// Exit status: 0 nothing at or above the --fail-on level, 1 some hoist at or above it,
+// 2 usage error, 3 input unreadable or output unwritable.
+//
+// It is a screening calculation on the data given; it does not replace thorough
+// examination by a competent person, the manufacturer's ratings, or local regulations and
+// licensed engineering practice, which always prevail.
+package main
+
+import "hoistfleet/templates"
+
+const usageText = `hoistfleet checks a register of powered drum hoists and writes a results workbook.
+
+Usage:
+  hoistfleet check REGISTER [flags]       check every hoist; write REGISTER-results.xlsx
+  hoistfleet explain REGISTER --asset ID  one hoist's calculation record (--all -o DIR: every hoist)
+  hoistfleet template [-o FILE]           a blank register to fill in (--units us for US customary)
+  hoistfleet rules [--rules iso|us|FILE]  the rule table in force, with every source
+  hoistfleet demo [-o DIR]                write the invented demo registers and check them
+  hoistfleet help COMMAND                 flags and examples of a command
+  hoistfleet help columns                 the register's columns, units and defaults
+
+Examples:
+  hoistfleet demo
+  hoistfleet check site-hoists.xlsx --as-of 2026-12-01
+  hoistfleet check register.csv --rules us --format jsonl -o - | jq .status
+  hoistfleet explain register.xlsx --asset H-014 --format md > H-014.md
+
+Exit status: 0 nothing at or above --fail-on (default fail), 1 some hoist at or above it,
+2 usage error, 3 input unreadable or output unwritable.
+
+CAUTION: a screening calculation on the data given. It does not replace thorough
+examination by a competent person, the manufacturer's ratings, or local regulations and
+licensed engineering practice, which always prevail.
+`
+
+var commandHelp = map[string]string{
+	"check": `hoistfleet check REGISTER [flags]
+
+Reads the register (XLSX or CSV; - reads CSV from standard input), runs every check on
+every hoist and writes the results: an XLSX workbook (Register, Checks, Summary, Audit
+sheets), or long-form CSV, or JSON lines. The input is never modified; the output is
+written to a temporary file and renamed when complete.
+
+Examples:
+  hoistfleet check hoists.xlsx
+  hoistfleet check hoists.xlsx --sheet "Site B" -o site-b-results.xlsx
+  hoistfleet check hoists.csv --rules us --as-of 2026-12-01 --fail-on marginal
+  hoistfleet check hoists.csv --rated-load-factor 1.2        re-rate every hoist by +20 %
+  hoistfleet check hoists.csv --rules iso --rules insurer.csv --format jsonl -o results.jsonl
+`,
+	"explain": `hoistfleet explain REGISTER --asset ID [flags]
+
+Writes one hoist's calculation record: inputs as given and in SI, defaults applied, each
+check's rule and source, the formulas with numbers substituted, results, the rating and
+the cautions, ready to be checked and signed.
+
+Examples:
+  hoistfleet explain hoists.xlsx --asset H-014
+  hoistfleet explain hoists.xlsx --asset H-014 --format md -o H-014.md
+  hoistfleet explain hoists.xlsx --all -o records/
+`,
+	"template": `hoistfleet template [-o FILE] [--units si|us]
+
+Writes a blank register generated from the column schema: headers with units, an input
+message on every header, drop-down lists, number ranges, an example row and a notes
+sheet. -o register.csv writes CSV.
+
+Examples:
+  hoistfleet template -o register.xlsx
+  hoistfleet template --units us -o register-us.xlsx
+  hoistfleet template -o register.csv
+`,
+	"rules": `hoistfleet rules [--rules iso|us|FILE] [--format text|md|csv]
+
+Prints the rule table in force: every threshold and default with the duty groups and
+conditions it covers, its source and the provenance of its value. A rule file (CSV, or
+an XLSX workbook's first sheet, with the same columns) overrides or extends the profile.
+
+Examples:
+  hoistfleet rules
+  hoistfleet rules --rules us --format md
+  hoistfleet rules --rules iso --rules insurer.csv
+`,
+	"demo": `hoistfleet demo [-o DIR]
+
+Writes the invented demo registers (an SI register and a US-customary one, for a
+fictional operator) into DIR (default hoistfleet-demo), checks them as of 2026-12-01 and
+writes their results workbooks beside them.
+
+Examples:
+  hoistfleet demo
+  hoistfleet demo -o /tmp/demo --rules us
+`,
+}
+
+func init() {
+	commandHelp["columns"] = columnsHelp()
+	commandHelp["columns-md"] = templates.ColumnsMarkdown()
+}

@@ -1,0 +1,227 @@
+package register
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"fmt"
+	"io"
+	"strconv"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+
+	"hoistfleet/templates"
+)
+
+const benchRows = 20000
+
+// benchRegister returns a 40-column register (the first 40 schema columns, values inside
+// each column's range) as a header and rows of cells; dates are ISO text in CSV and
+// serials in XLSX.
+func benchRegister(xlsx bool) ([]string, [][]any) {
+	cols := templates.Columns()[:40]
+	header := make([]string, len(cols))
+	for i, c := range cols {
+		header[i] = c.HeaderWithUnit("")
+	}
+	rows := make([][]any, benchRows)
+	for r := range rows {
+		row := make([]any, len(cols))
+		for i, c := range cols {
+			switch c.Kind {
+			case templates.Number, templates.Integer:
+				x := 1.0
+				switch {
+				case c.HasMin && c.HasMax:
+					x = (c.Min + c.Max) / 2
+				case c.HasMin:
+					x = c.Min + 1 + float64(r%7)
+				}
+				if c.Kind == templates.Integer {
+					x = float64(int(x))
+				}
+				row[i] = x
+			case templates.Date:
+				if xlsx {
+					row[i] = 45000 + r%400
+				} else {
+					row[i] = "2023-05-17"
+				}
+			case templates.Enum:
+				row[i] = c.Values[r%len(c.Values)]
+			case templates.Bool:
+				row[i] = "yes"
+			default:
+				row[i] = fmt.Sprintf("%s %d", c.Key, r)
+			}
+		}
+		rows[r] = row
+	}
+	return header, rows
+}
+
+func benchCSV(b *testing.B) []byte {
+	b.Helper()
+	header, rows := benchRegister(false)
+	var buf bytes.Buffer
+	w := csv.NewWriter(&buf)
+	_ = w.Write(header)
+	rec := make([]string, len(header))
+	for _, row := range rows {
+		for i, v := range row {
+			switch x := v.(type) {
+			case float64:
+				rec[i] = strconv.FormatFloat(x, 'g', -1, 64)
+			default:
+				rec[i] = fmt.Sprint(x)
+			}
+		}
+		_ = w.Write(rec)
+	}
+	w.Flush()
+	return buf.Bytes()
+}
+
+func benchXLSX(b *testing.B) []byte {
+	b.Helper()
+	header, rows := benchRegister(true)
+	f := excelize.NewFile()
+	defer f.Close()
+	_ = f.SetSheetDimension("Sheet1", "")
+	sw, err := f.NewStreamWriter("Sheet1")
+	if err != nil {
+		b.Fatal(err)
+	}
+	h := make([]any, len(header))
+	for i, s := range header {
+		h[i] = s
+	}
+	if err := sw.SetRow("A1", h); err != nil {
+		b.Fatal(err)
+	}
+	for r, row := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, r+2)
+		if err := sw.SetRow(cell, row); err != nil {
+			b.Fatal(err)
+		}
+	}
+	if err := sw.Flush(); err != nil {
+		b.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		b.Fatal(err)
+	}
+	return buf.Bytes()
+}
+
+func drain(b *testing.B, r *Reader) {
+	b.Helper()
+	n := 0
+	for {
+		_, err := r.Next(context.Background())
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			b.Fatal(err)
+		}
+		n++
+	}
+	if n != benchRows {
+		b.Fatalf("%d rows", n)
+	}
+}
+
+func BenchmarkReadCSV(b *testing.B) {
+	data := benchCSV(b)
+	b.SetBytes(int64(len(data)))
+	b.ResetTimer()
+	for b.Loop() {
+		r, err := NewCSV(bytes.NewReader(data), "bench.csv")
+		if err != nil {
+			b.Fatal(err)
+		}
+		if len(r.Header().Problems) != 0 {
+			b.Fatal(r.Header().Problems)
+		}
+		drain(b, r)
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*benchRows), "ns/row")
+}
+
+// BenchmarkFloorCSV is the floor: encoding/csv reading every field, no parsing.
+func BenchmarkFloorCSV(b *testing.B) {
+	data := benchCSV(b)
+	b.SetBytes(int64(len(data)))
+	b.ResetTimer()
+	for b.Loop() {
+		cr := csv.NewReader(bytes.NewReader(data))
+		cr.ReuseRecord = true
+		n := 0
+		for {
+			rec, err := cr.Read()
+			if err == io.EOF {
+				break
+			}
+			if err != nil {
+				b.Fatal(err)
+			}
+			n += len(rec)
+		}
+		if n != 40*(benchRows+1) {
+			b.Fatal(n)
+		}
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*benchRows), "ns/row")
+}
+
+func BenchmarkReadXLSX(b *testing.B) {
+	data := benchXLSX(b)
+	b.SetBytes(int64(len(data)))
+	b.ResetTimer()
+	for b.Loop() {
+		r, err := NewXLSX(bytes.NewReader(data), "bench.xlsx", "")
+		if err != nil {
+			b.Fatal(err)
+		}
+		if len(r.Header().Problems) != 0 {
+			b.Fatal(r.Header().Problems)
+		}
+		drain(b, r)
+		_ = r.Close()
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*benchRows), "ns/row")
+}
+
+// BenchmarkFloorXLSX is the floor: excelize's Rows iterator in raw mode reading every cell.
+func BenchmarkFloorXLSX(b *testing.B) {
+	data := benchXLSX(b)
+	b.SetBytes(int64(len(data)))
+	b.ResetTimer()
+	for b.Loop() {
+		f, err := excelize.OpenReader(bytes.NewReader(data), excelize.Options{RawCellValue: true})
+		if err != nil {
+			b.Fatal(err)
+		}
+		rows, err := f.Rows("Sheet1")
+		if err != nil {
+			b.Fatal(err)
+		}
+		n := 0
+		for rows.Next() {
+			cells, err := rows.Columns()
+			if err != nil {
+				b.Fatal(err)
+			}
+			n += len(cells)
+		}
+		_ = rows.Close()
+		_ = f.Close()
+		if n != 40*(benchRows+1) {
+			b.Fatal(n)
+		}
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*benchRows), "ns/row")
+}

@@ -1,0 +1,201 @@
+package register
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"path/filepath"
+	"unicode/utf8"
+
+	"golang.org/x/text/encoding/charmap"
+	"golang.org/x/text/encoding/unicode"
+	"golang.org/x/text/transform"
+
+	"hoistfleet/fleet"
+)
+
+// peekSize is how much of a CSV file is looked at to find its encoding and separator.
+const peekSize = 64 << 10
+
+// NewCSV reads a CSV register from r; name is the file name for messages ("-" or ""
+// for standard input) and, by its base name, the sheet name in cell references
+// ("hoists.csv!F14").
+//
+// Dialects: comma or semicolon separator, whichever is more frequent in the header line
+// outside quotes; with semicolons, a decimal comma ("12,5"); UTF-8 with or without a
+// byte-order mark, UTF-16 LE or BE with a byte-order mark, and Windows-1252 (a field
+// that is not valid UTF-8 is decoded as Windows-1252). Quoting follows RFC 4180
+// (encoding/csv, LazyQuotes off): a record that breaks it is still returned, with the
+// fields read before the fault and the rest Bad.
+//
+// Row numbers are line numbers: the header is normally row 1, and a record is numbered
+// by the line it starts on (blank lines count, as a spreadsheet shows them).
+func NewCSV(r io.Reader, name string) (*Reader, error) {
+	file := displayName(name)
+	text, sep, err := csvStream(r)
+	if err != nil {
+		return nil, fileError(file, err)
+	}
+	cr := newCSVReader(text, sep)
+	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}}
+	rec, err := cr.Read()
+	switch {
+	case err == io.EOF:
+		return nil, fileError(file, errors.New("the file is empty: the first row must hold the column titles"))
+	case err != nil:
+		var pe *csv.ParseError
+		if errors.As(err, &pe) {
+			return nil, fileError(file, fmt.Errorf("the header row cannot be read: %s", (&csvSyntaxError{pe}).message()))
+		}
+		return nil, fileError(file, err)
+	}
+	line, _ := cr.FieldPos(0)
+	titles := decodeFields(append([]string(nil), rec...))
+	if err := rd.buildHeader(file, titles, line); err != nil {
+		return nil, fileError(file, err)
+	}
+	rd.src = &csvSource{r: cr, n: len(titles)}
+	return rd, nil
+}
+
+// displayName is the base name used for messages and cell references.
+func displayName(name string) string {
+	if name == "" || name == "-" {
+		return "stdin"
+	}
+	return filepath.Base(name)
+}
+
+// fileError is an error about the whole file, naming it.
+func fileError(file string, err error) error {
+	return &fleet.Error{Kind: fleet.IO, Err: fmt.Errorf("%s: %w", file, err)}
+}
+
+func newCSVReader(r io.Reader, sep rune) *csv.Reader {
+	cr := csv.NewReader(r)
+	cr.Comma = sep
+	cr.FieldsPerRecord = -1
+	cr.LazyQuotes = false
+	cr.ReuseRecord = true
+	return cr
+}
+
+// csvStream finds the encoding and the separator and returns the text as UTF-8 (except
+// Windows-1252 fields, which decodeFields converts).
+func csvStream(r io.Reader) (io.Reader, rune, error) {
+	br := bufio.NewReaderSize(r, peekSize)
+	head, err := br.Peek(4)
+	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
+		return nil, 0, err
+	}
+	var text *bufio.Reader
+	switch {
+	case bytes.HasPrefix(head, []byte{0xEF, 0xBB, 0xBF}):
+		_, _ = br.Discard(3)
+		text = br
+	case bytes.HasPrefix(head, []byte{0xFF, 0xFE}):
+		text = bufio.NewReaderSize(transform.NewReader(br, unicode.UTF16(unicode.LittleEndian, unicode.ExpectBOM).NewDecoder()), peekSize)
+	case bytes.HasPrefix(head, []byte{0xFE, 0xFF}):
+		text = bufio.NewReaderSize(transform.NewReader(br, unicode.UTF16(unicode.BigEndian, unicode.ExpectBOM).NewDecoder()), peekSize)
+	case bytes.HasPrefix(head, []byte("PK\x03\x04")):
+		return nil, 0, errors.New("this is a zip file (an XLSX workbook?), not a CSV file: read it as XLSX")
+	case bytes.HasPrefix(head, oleMagic[:4]):
+		return nil, 0, errors.New("this is a binary Office file (.xls?), not a CSV file: save it as CSV UTF-8 or XLSX")
+	default:
+		text = br
+	}
+	peek, err := text.Peek(peekSize)
+	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
+		return nil, 0, err
+	}
+	if bytes.IndexByte(peek, 0) >= 0 {
+		return nil, 0, errors.New("the file holds NUL bytes: it is not a text CSV file (UTF-16 without a byte-order mark?): save it as CSV UTF-8")
+	}
+	return text, detectSeparator(peek), nil
+}
+
+// detectSeparator counts commas and semicolons outside double quotes on the first line
+// (the header); semicolons win only when they are more frequent.
+func detectSeparator(b []byte) rune {
+	commas, semis, quoted := 0, 0, false
+	for _, c := range b {
+		switch {
+		case c == '"':
+			quoted = !quoted
+		case quoted:
+		case c == '\n':
+			if commas+semis > 0 {
+				return pick(commas, semis)
+			}
+		case c == ',':
+			commas++
+		case c == ';':
+			semis++
+		}
+	}
+	return pick(commas, semis)
+}
+
+func pick(commas, semis int) rune {
+	if semis > commas {
+		return ';'
+	}
+	return ','
+}
+
+// decodeFields decodes, in place, every field that is not valid UTF-8 as Windows-1252.
+func decodeFields(rec []string) []string {
+	for i, f := range rec {
+		if !utf8.ValidString(f) {
+			if s, err := charmap.Windows1252.NewDecoder().String(f); err == nil {
+				rec[i] = s
+			}
+		}
+	}
+	return rec
+}
+
+// csvSyntaxError is a record encoding/csv cannot read.
+type csvSyntaxError struct{ pe *csv.ParseError }
+
+func (e *csvSyntaxError) message() string {
+	hint := ""
+	switch {
+	case errors.Is(e.pe.Err, csv.ErrBareQuote):
+		hint = `: a field holding a double quote must itself be quoted, with the quote doubled ("24"" drum")`
+	case errors.Is(e.pe.Err, csv.ErrQuote):
+		hint = ": a quoted field must end with a double quote followed by the separator or the end of the line"
+	}
+	return fmt.Sprintf("CSV syntax error at line %d, column %d: %v%s", e.pe.Line, e.pe.Column, e.pe.Err, hint)
+}
+
+// csvSource yields the records after the header.
+type csvSource struct {
+	r *csv.Reader
+	n int // fields in the header
+}
+
+func (s *csvSource) next() (rawRow, error) {
+	rec, err := s.r.Read()
+	if err == io.EOF {
+		return rawRow{}, io.EOF
+	}
+	var pe *csv.ParseError
+	if err != nil && !errors.As(err, &pe) {
+		return rawRow{}, err
+	}
+	cells := decodeFields(append(make([]string, 0, max(len(rec), s.n)), rec...))
+	rr := rawRow{cells: cells, short: true}
+	if pe != nil {
+		rr.syntax = &csvSyntaxError{pe}
+		rr.row = pe.StartLine
+	} else {
+		rr.row, _ = s.r.FieldPos(0)
+	}
+	return rr, nil
+}
+
+func (s *csvSource) close() error { return nil }

@@ -1,0 +1,369 @@
+// Package register reads a hoist register, a CSV file or a sheet of an XLSX workbook
+// with one header row and one hoist a row, and yields its rows as fleet.Assets with every
+// known column converted to SI. It implements fleet.Source.
+//
+// The header is the first row. Each header cell is matched to the column schema
+// (templates.Columns) by its title, ignoring case, spaces and punctuation, against the
+// schema's key, header and synonyms; the unit in brackets at its end is converted with
+// package units, and a column without a unit takes the schema's default unit. For
+// example, with the header
+//
+//	Asset ID,Rated load [lb],Rope diameter (in),Maintenance contractor
+//
+// the row
+//
+//	H-7,4000,0.5,Crane Care Ltd
+//
+// gives Fields["rated_load"].Num = 1814.3695 (kg), Fields["rope_diameter"].Num = 0.0127
+// (m), and passes "Maintenance contractor" through untouched (Column.Key "").
+//
+// Bad input never stops the reader and never drops a row: a cell that cannot be read is
+// a Bad Value whose Err (a *fleet.Error with Cell, Field, Kind and Asset) says where and
+// why, e.g.
+//
+//	Register!F14: asset H-042: "twelve" is not a number in [t]
+//
+// A header problem (an ambiguous unit, a duplicated column) is listed in
+// Header.Problems and makes that column's non-empty cells Bad in every row. Row problems
+// (a short or long row, a duplicated or missing asset id, an empty row) are listed in
+// Asset.Problems. Next returns an error only when the file itself cannot be read further.
+//
+// The reader streams: memory does not grow with the number of rows, except for the set
+// of asset ids seen (to report duplicates).
+package register
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"hoistfleet/fleet"
+	"hoistfleet/io/units"
+)
+
+// rawRow is one row as the file gives it.
+type rawRow struct {
+	cells  []string
+	row    int             // spreadsheet row number (CSV: line of the record's start)
+	syntax *csvSyntaxError // CSV: the record could not be read past field len(cells)
+	merged []*fleet.Error  // XLSX: the row's cells hidden by merged cells above them
+	short  bool            // CSV: any other number of fields than the header's is a shape problem
+}
+
+// rowSource gives the rows after the header. next returns io.EOF after the last row.
+type rowSource interface {
+	next() (rawRow, error)
+	close() error
+}
+
+// Reader reads a register. Build it with NewCSV or NewXLSX; it implements fleet.Source.
+// A Reader is not safe for concurrent use.
+type Reader struct {
+	header *fleet.Header
+	specs  []colSpec
+	d      dialect
+	src    rowSource
+	sheet  string
+	idCol  int            // index of the asset id column, -1 when absent
+	ids    map[string]int // asset id → row where first seen
+	index  int            // next Asset.Index
+
+	// XLSX: trailing blank rows are dropped; a run of blank rows is held back until a
+	// non-blank row shows it is not trailing.
+	dropTrailingBlank bool
+	pendStart, pendN  int     // blank rows read and not yet known to be inside the data
+	emitStart, emitN  int     // blank rows released, still to be returned
+	held              *rawRow // the non-blank row that released them
+	err               error   // sticky: io.EOF or a read error
+}
+
+var _ fleet.Source = (*Reader)(nil)
+
+// Header returns the register's header as read.
+func (r *Reader) Header() *fleet.Header { return r.header }
+
+// Next returns the next row, or io.EOF after the last. A bad cell is a Bad Value in the
+// Asset, not an error; an error means the file cannot be read further. Next checks ctx
+// before reading.
+func (r *Reader) Next(ctx context.Context) (*fleet.Asset, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	if r.emitN > 0 {
+		row := r.emitStart
+		r.emitStart++
+		r.emitN--
+		return r.asset(rawRow{row: row}), nil
+	}
+	if r.held != nil {
+		rr := *r.held
+		r.held = nil
+		return r.asset(rr), nil
+	}
+	if r.err != nil {
+		return nil, r.err
+	}
+	for {
+		rr, err := r.src.next()
+		if err != nil {
+			// At the end, blank rows still pending are the sheet's trailing empty rows.
+			r.err = err
+			return nil, err
+		}
+		if r.dropTrailingBlank && rr.syntax == nil && isBlank(rr.cells) {
+			if r.pendN == 0 {
+				r.pendStart = rr.row
+			}
+			r.pendN++
+			if err := ctx.Err(); err != nil && r.pendN%4096 == 0 {
+				return nil, err
+			}
+			continue
+		}
+		if r.pendN > 0 {
+			r.held = &rr
+			r.emitStart, r.emitN = r.pendStart+1, r.pendN-1
+			row := r.pendStart
+			r.pendN = 0
+			return r.asset(rawRow{row: row}), nil
+		}
+		return r.asset(rr), nil
+	}
+}
+
+// Close releases the file (an XLSX workbook's temporary files).
+func (r *Reader) Close() error {
+	if r.src == nil {
+		return nil
+	}
+	err := r.src.close()
+	r.src = nil
+	return err
+}
+
+func isBlank(cells []string) bool {
+	for _, c := range cells {
+		if strings.TrimSpace(c) != "" {
+			return false
+		}
+	}
+	return true
+}
+
+// asset builds the Asset of one row.
+func (r *Reader) asset(rr rawRow) *fleet.Asset {
+	n := len(r.specs)
+	a := &fleet.Asset{Index: r.index, Row: rr.row, Cells: make([]fleet.Cell, n)}
+	r.index++
+	rowRef := fleet.CellRef{Sheet: r.sheet, Row: rr.row}
+	if rr.syntax == nil && isBlank(rr.cells) {
+		a.Blank = true
+		for i := range a.Cells {
+			if i < len(rr.cells) {
+				a.Cells[i].Text = rr.cells[i]
+			}
+		}
+		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Shape, Cell: rowRef,
+			Err: fmt.Errorf("row %d is empty", rr.row)})
+		return a
+	}
+	if r.idCol >= 0 && r.idCol < len(rr.cells) {
+		a.ID = strings.TrimSpace(rr.cells[r.idCol])
+	}
+	a.Fields = make(map[string]fleet.Value, n)
+	readable := len(rr.cells)
+	if rr.syntax != nil {
+		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Invalid, Asset: a.ID,
+			Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: min(readable+1, max(n, 1))},
+			Err:  &cellError{msg: rr.syntax.message(), kind: ErrSyntax}})
+	}
+	for i := range r.specs {
+		s := &r.specs[i]
+		ref := fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: i + 1}
+		raw := ""
+		if i < len(rr.cells) {
+			raw = rr.cells[i]
+		}
+		if rr.syntax != nil && i >= readable {
+			if s.known {
+				a.Fields[s.col.Key] = fleet.Value{State: fleet.Bad, Cell: ref, Err: &fleet.Error{
+					Kind: fleet.Invalid, Asset: a.ID, Cell: ref, Field: s.col.Key,
+					Err: &cellError{msg: "not read: " + rr.syntax.message(), kind: ErrSyntax}}}
+			}
+			continue
+		}
+		v, c := s.parse(raw, r.d, ref, a.ID)
+		a.Cells[i] = c
+		if s.known {
+			a.Fields[s.col.Key] = v
+		}
+	}
+	for _, p := range rr.merged {
+		p.Asset = a.ID
+		a.Problems = append(a.Problems, p)
+	}
+	// Shape: a CSV record with another number of fields than the header; an XLSX row
+	// with values beyond the header's last column.
+	if rr.syntax == nil {
+		switch {
+		case len(rr.cells) > n && !isBlank(rr.cells[n:]):
+			extra := rr.cells[n:]
+			var shown []string
+			for j, c := range extra {
+				if strings.TrimSpace(c) != "" && len(shown) < 3 {
+					shown = append(shown, fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: n + j + 1}.String()+" "+strconv.Quote(c))
+				}
+			}
+			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Shape, Asset: a.ID,
+				Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: n + 1},
+				Err: fmt.Errorf("row has %d cells, the header %d: cells beyond the header's last column are not read and not passed through (%s)",
+					len(rr.cells), n, strings.Join(shown, ", "))})
+		case len(rr.cells) > n && rr.short:
+			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Shape, Asset: a.ID, Cell: rowRef,
+				Err: fmt.Errorf("row has %d cells, the header %d (the extra cells are empty)", len(rr.cells), n)})
+		case len(rr.cells) < n && rr.short:
+			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Shape, Asset: a.ID, Cell: rowRef,
+				Err: fmt.Errorf("row has %d cells, the header %d: the missing cells are read as empty", len(rr.cells), n)})
+		}
+	}
+	// Identity.
+	switch {
+	case r.idCol < 0:
+		// Reported once in the header.
+	case a.ID == "":
+		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Missing, Field: "asset_id",
+			Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
+			Err:  fmt.Errorf("the asset id is missing")})
+	default:
+		if first, dup := r.ids[a.ID]; dup {
+			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Duplicate, Asset: a.ID, Field: "asset_id",
+				Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
+				Err:  fmt.Errorf("asset id %q is already used in row %d", a.ID, first)})
+		} else {
+			r.ids[a.ID] = rr.row
+		}
+	}
+	return a
+}
+
+// header builds the Header and the column specs from the header row's cells.
+func (r *Reader) buildHeader(file string, titles []string, row int) error {
+	r.header = &fleet.Header{File: file, Sheet: r.sheet}
+	r.idCol = -1
+	r.ids = make(map[string]int)
+	if isBlank(titles) {
+		return fmt.Errorf("row %d, the header row, is empty: the first row must hold the column titles", row)
+	}
+	index := schemaIndex()
+	firstAt := map[string]int{} // key → column index
+	var numeric, nonEmpty, matched int
+	for i, raw := range titles {
+		ref := fleet.CellRef{Sheet: r.sheet, Row: row, Col: i + 1}
+		col := fleet.Column{Index: i, Title: raw, Factor: 1}
+		spec := colSpec{factor: 1}
+		trimmed := strings.TrimSpace(raw)
+		if trimmed != "" {
+			nonEmpty++
+			if isPlainNumber(trimmed) || isISODate(trimmed) {
+				numeric++
+			}
+		}
+		title, unit, splitErr := units.SplitHeader(raw)
+		key, ambiguous := index.match(title)
+		if key == "" && ambiguous == "" && splitErr == nil {
+			// "Notes (free text)": the whole text may be the title.
+			if k, amb := index.match(trimmed); k != "" || amb != "" {
+				key, ambiguous, unit = k, amb, ""
+			}
+		}
+		problem := func(k fleet.Kind, field, format string, args ...any) {
+			r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: k, Cell: ref, Field: field,
+				Err: fmt.Errorf(format, args...)})
+		}
+		switch {
+		case ambiguous != "":
+			problem(fleet.Invalid, "", "%q matches more than one column (%s): it is passed through unread; use the column's own title", raw, ambiguous)
+		case key == "":
+			// Unknown: passed through.
+		case firstAt[key] > 0:
+			sc, _ := index.col(key)
+			first := fleet.CellRef{Sheet: r.sheet, Row: row, Col: firstAt[key]}
+			problem(fleet.Invalid, key, "%q is a second %s column (the first is %s): this copy is passed through unread", raw, sc.Header, first)
+		default:
+			firstAt[key] = i + 1
+			matched++
+			sc, _ := index.col(key)
+			spec.known, spec.col = true, sc
+			col.Key = key
+			spec.setUnit(raw, unit, splitErr, &col)
+			if spec.headerErr != "" {
+				problem(fleet.Invalid, key, "%s", spec.headerErr)
+				spec.headerErr = "header " + ref.String() + " " + spec.headerErr
+			} else if spec.col.Quantity == "" && unit != "" && unit != "-" && unit != "1" {
+				problem(fleet.Invalid, key, "%q: %s takes no unit; %q is ignored", raw, sc.Header, unit)
+			}
+			if key == "asset_id" {
+				r.idCol = i
+			}
+		}
+		r.header.Columns = append(r.header.Columns, col)
+		r.specs = append(r.specs, spec)
+	}
+	rowRef := fleet.CellRef{Sheet: r.sheet, Row: row}
+	if nonEmpty > 0 && (2*numeric > nonEmpty || (matched == 0 && numeric > 0)) {
+		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Invalid, Cell: rowRef,
+			Err: fmt.Errorf("the first row looks like data (%d of its %d cells are numbers or dates), not a header: the first row must hold the column titles", numeric, nonEmpty)})
+	} else if matched == 0 {
+		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Invalid, Cell: rowRef,
+			Err: errors.New("no column title matches the register's columns: is the first row the header?")})
+	}
+	if r.idCol < 0 {
+		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Missing, Cell: rowRef, Field: "asset_id",
+			Err: errors.New("there is no Asset ID column: rows are identified by their row number only")})
+	}
+	return nil
+}
+
+// setUnit resolves the column's unit: the header's, or the schema's default.
+func (s *colSpec) setUnit(raw, unit string, splitErr error, col *fleet.Column) {
+	sc := s.col
+	col.Unit = unit
+	if splitErr != nil {
+		s.headerErr = fmt.Sprintf("%q: %v", raw, strings.TrimPrefix(splitErr.Error(), "header: "+strconv.Quote(strings.TrimSpace(raw))+": "))
+		return
+	}
+	if sc.Quantity == "" {
+		s.minSI, s.maxSI = sc.Min, sc.Max
+		return
+	}
+	u := unit
+	if u == "" {
+		u = sc.Unit
+	}
+	f, err := units.Factor(sc.Quantity, u)
+	if err != nil {
+		s.headerErr = fmt.Sprintf("%q: %v", raw, err)
+		s.unitLabel = u
+		return
+	}
+	s.factor, col.Factor = f, f
+	if u != "1" {
+		s.unitLabel = u
+	}
+	def, err := units.Factor(sc.Quantity, sc.Unit)
+	if err != nil {
+		def = math.NaN() // a schema unit this package does not know: no range check
+	}
+	s.minSI, s.maxSI = sc.Min*def, sc.Max*def
+	if math.IsNaN(def) {
+		s.col.HasMin, s.col.HasMax = false, false
+	}
+}
+
+func isISODate(s string) bool {
+	_, msg := parseDate(s, dialect{})
+	return msg == ""
+}

@@ -1,0 +1,393 @@
+package register
+
+import (
+	"archive/zip"
+	"bufio"
+	"bytes"
+	"encoding/xml"
+	"errors"
+	"fmt"
+	"io"
+	"path"
+	"regexp"
+	"strings"
+
+	"github.com/xuri/excelize/v2"
+
+	"hoistfleet/fleet"
+)
+
+// Limits bound what an XLSX workbook may unzip to, so that a zip bomb or an outsized
+// shared-strings table is refused with a message instead of exhausting memory or disk.
+type Limits struct {
+	MaxUnzipped      int64 // all parts of the workbook, uncompressed
+	MaxSharedStrings int64 // the shared-strings table, uncompressed
+	MaxXMLInMemory   int64 // a larger worksheet or shared-strings part is unzipped to a temporary file
+}
+
+// DefaultLimits allow registers of a few million rows.
+var DefaultLimits = Limits{MaxUnzipped: 2 << 30, MaxSharedStrings: 256 << 20, MaxXMLInMemory: 16 << 20}
+
+// oleMagic starts an OLE2 compound file: an encrypted (password-protected) OOXML
+// workbook, or a legacy binary .xls.
+var oleMagic = []byte{0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1}
+
+// NewXLSX reads the register on a sheet of an XLSX workbook; sheet "" is the first
+// sheet. name is the file name for messages. It uses DefaultLimits.
+//
+// Cells are read raw (excelize's RawCellValue), as stored and not as displayed: a
+// number shown as "12.3" but stored as 12.3456 is read as 12.3456; a formula gives the
+// value last calculated by the spreadsheet program; a date column's date cells arrive as
+// date serials and are converted with the workbook's date system (1900 or 1904). Hidden
+// rows and columns are read like the others. Empty rows after the last non-empty row are
+// dropped; empty rows between data rows are returned, Blank. Merged cells in the header
+// row are an error; merged cells below it are reported in the rows they hide.
+//
+// Close must be called: excelize may keep large sheets in temporary files.
+func NewXLSX(r io.Reader, name, sheet string) (*Reader, error) {
+	return NewXLSXLimits(r, name, sheet, DefaultLimits)
+}
+
+// NewXLSXLimits is NewXLSX with explicit limits.
+func NewXLSXLimits(r io.Reader, name, sheet string, lim Limits) (*Reader, error) {
+	file := displayName(name)
+	b, err := io.ReadAll(io.LimitReader(r, lim.MaxUnzipped+1))
+	if err != nil {
+		return nil, fileError(file, err)
+	}
+	if err := sniffXLSX(b, lim); err != nil {
+		return nil, fileError(file, err)
+	}
+	zr, err := zip.NewReader(bytes.NewReader(b), int64(len(b)))
+	if err != nil {
+		return nil, fileError(file, fmt.Errorf("not a readable XLSX workbook (truncated, or another kind of file): %w", err))
+	}
+	if err := checkParts(zr, lim); err != nil {
+		return nil, fileError(file, err)
+	}
+	f, err := excelize.OpenReader(bytes.NewReader(b), excelize.Options{
+		RawCellValue: true, UnzipSizeLimit: lim.MaxUnzipped, UnzipXMLSizeLimit: min(lim.MaxXMLInMemory, lim.MaxUnzipped)})
+	if err != nil {
+		if f != nil {
+			_ = f.Close()
+		}
+		return nil, fileError(file, fmt.Errorf("not a readable XLSX workbook: %w", err))
+	}
+	rd, err := openSheet(f, zr, file, sheet)
+	if err != nil {
+		_ = f.Close()
+		return nil, fileError(file, err)
+	}
+	return rd, nil
+}
+
+// sniffXLSX refuses what is not a zip file, with the reason when it is recognisable.
+func sniffXLSX(b []byte, lim Limits) error {
+	switch {
+	case int64(len(b)) > lim.MaxUnzipped:
+		return fmt.Errorf("the file is larger than %s: it is not a register this tool can read", size(lim.MaxUnzipped))
+	case len(b) == 0:
+		return errors.New("the file is empty")
+	case bytes.HasPrefix(b, oleMagic):
+		if bytes.Contains(b, utf16le("EncryptionInfo")) || bytes.Contains(b, utf16le("EncryptedPackage")) {
+			return errors.New("the workbook is password-protected: save an unprotected copy")
+		}
+		return errors.New("this is a binary Office file (a legacy .xls workbook?), not XLSX: save it as .xlsx")
+	case !bytes.HasPrefix(b, []byte("PK")):
+		return errors.New("not an XLSX workbook (an XLSX file is a zip archive; is this a CSV or text file?)")
+	}
+	return nil
+}
+
+func utf16le(s string) []byte {
+	out := make([]byte, 0, 2*len(s))
+	for i := 0; i < len(s); i++ {
+		out = append(out, s[i], 0)
+	}
+	return out
+}
+
+func size(n int64) string {
+	if n >= 1<<30 {
+		return fmt.Sprintf("%.3g GiB", float64(n)/(1<<30))
+	}
+	return fmt.Sprintf("%.3g MiB", float64(n)/(1<<20))
+}
+
+// checkParts refuses a workbook whose parts unzip to more than the limits, from the sizes
+// the zip directory declares (archive/zip refuses a part that inflates beyond its
+// declared size).
+func checkParts(zr *zip.Reader, lim Limits) error {
+	var total uint64
+	hasWorkbook := false
+	for _, zf := range zr.File {
+		total += zf.UncompressedSize64
+		name := strings.ToLower(zf.Name)
+		if name == "xl/workbook.xml" {
+			hasWorkbook = true
+		}
+		if name == "xl/sharedstrings.xml" && zf.UncompressedSize64 > uint64(lim.MaxSharedStrings) {
+			return fmt.Errorf("the shared-strings table unzips to %s, more than the %s limit", size(int64(min(zf.UncompressedSize64, 1<<62))), size(lim.MaxSharedStrings))
+		}
+	}
+	if total > uint64(lim.MaxUnzipped) {
+		return fmt.Errorf("the workbook unzips to %s, more than the %s limit (a zip bomb, or not a register)", size(int64(min(total, 1<<62))), size(lim.MaxUnzipped))
+	}
+	if !hasWorkbook {
+		return errors.New("a zip file, but not an XLSX workbook (no xl/workbook.xml)")
+	}
+	return nil
+}
+
+// openSheet selects the sheet, reads the header row and returns the Reader.
+func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string) (*Reader, error) {
+	sheets := f.GetSheetList()
+	if len(sheets) == 0 {
+		return nil, errors.New("the workbook has no sheets")
+	}
+	name := ""
+	if sheet == "" {
+		name = sheets[0]
+	} else {
+		for _, s := range sheets {
+			if strings.EqualFold(s, sheet) {
+				name = s
+				break
+			}
+		}
+		if name == "" {
+			q := make([]string, len(sheets))
+			for i, s := range sheets {
+				q[i] = fmt.Sprintf("%q", s)
+			}
+			return nil, fmt.Errorf("there is no sheet %q: the workbook has %s", sheet, strings.Join(q, ", "))
+		}
+	}
+	props, err := f.GetWorkbookProps()
+	if err != nil {
+		return nil, fmt.Errorf("workbook properties: %w", err)
+	}
+	merges, err := mergedRanges(zr, name)
+	if err != nil {
+		return nil, fmt.Errorf("sheet %q: %w", name, err)
+	}
+	for _, m := range merges {
+		if m.r1 == 1 && (m.c2 > m.c1 || m.r2 > 1) {
+			return nil, fmt.Errorf("sheet %q: the header row has merged cells (%s): unmerge them and give every column its own title in row 1", name, m.ref)
+		}
+	}
+	rows, err := f.Rows(name)
+	if err != nil {
+		return nil, fmt.Errorf("sheet %q: %w", name, err)
+	}
+	src := &xlsxSource{f: f, rows: rows, sheet: name, merges: merges}
+	rd := &Reader{sheet: name, src: src, dropTrailingBlank: true,
+		d: dialect{xlsx: true, date1904: props.Date1904 != nil && *props.Date1904}}
+	titles, row, err := src.read()
+	if err == io.EOF {
+		_ = src.close()
+		return nil, fmt.Errorf("sheet %q is empty: the first row must hold the column titles", name)
+	}
+	if err != nil {
+		_ = src.close()
+		return nil, err
+	}
+	if err := rd.buildHeader(file, titles, row); err != nil {
+		_ = src.close()
+		return nil, fmt.Errorf("sheet %q: %w", name, err)
+	}
+	rd.header.File = file
+	return rd, nil
+}
+
+// xlsxSource yields the rows of a sheet through excelize's streaming row iterator.
+type xlsxSource struct {
+	f      *excelize.File
+	rows   *excelize.Rows
+	sheet  string
+	row    int // rows seen: Rows.Next yields every row number, including absent rows
+	merges []mergeRange
+}
+
+func (s *xlsxSource) read() ([]string, int, error) {
+	if !s.rows.Next() {
+		if err := s.rows.Error(); err != nil {
+			return nil, 0, fmt.Errorf("sheet %q after row %d: %w", s.sheet, s.row, err)
+		}
+		return nil, 0, io.EOF
+	}
+	s.row++
+	cells, err := s.rows.Columns()
+	if err != nil {
+		return nil, 0, fmt.Errorf("sheet %q row %d: %w", s.sheet, s.row, err)
+	}
+	return cells, s.row, nil
+}
+
+func (s *xlsxSource) next() (rawRow, error) {
+	cells, row, err := s.read()
+	if err != nil {
+		return rawRow{}, err
+	}
+	rr := rawRow{cells: cells, row: row}
+	for _, m := range s.merges {
+		if row > m.r1 && row <= m.r2 {
+			rr.merged = append(rr.merged, &fleet.Error{Kind: fleet.Shape,
+				Cell: fleet.CellRef{Sheet: s.sheet, Row: row, Col: m.c1},
+				Err:  fmt.Errorf("the cells are merged (%s): only row %d holds the value; unmerge them and fill every row", m.ref, m.r1)})
+		}
+	}
+	return rr, nil
+}
+
+func (s *xlsxSource) close() error {
+	err := s.rows.Close()
+	if cerr := s.f.Close(); err == nil {
+		err = cerr
+	}
+	return err
+}
+
+// mergeRange is a merged area of a sheet, 1-based and inclusive.
+type mergeRange struct {
+	ref            string
+	r1, c1, r2, c2 int
+}
+
+var mergeRef = regexp.MustCompile(`<(?:\w+:)?mergeCell\b[^>]*?\bref="([A-Za-z]+[0-9]+)(?::([A-Za-z]+[0-9]+))?"`)
+
+// mergedRanges returns the merged cells of the sheet. They are listed after the sheet's
+// data, so the sheet's XML is scanned as bytes (an inflate pass, without XML parsing)
+// up to its <mergeCells> element, which is then read.
+func mergedRanges(zr *zip.Reader, sheet string) ([]mergeRange, error) {
+	part, err := sheetPart(zr, sheet)
+	if err != nil || part == "" {
+		return nil, err
+	}
+	var zf *zip.File
+	for _, f := range zr.File {
+		if strings.EqualFold(f.Name, part) {
+			zf = f
+			break
+		}
+	}
+	if zf == nil {
+		return nil, nil
+	}
+	rc, err := zf.Open()
+	if err != nil {
+		return nil, fmt.Errorf("worksheet %s: %w", part, err)
+	}
+	defer rc.Close()
+	const chunk = 256 << 10
+	br := bufio.NewReaderSize(rc, chunk)
+	var tail []byte // the last bytes of the previous chunk, for a tag split across chunks
+	key := []byte("mergeCell")
+	for {
+		buf, rerr := br.Peek(chunk)
+		n := len(buf)
+		if n == 0 {
+			if rerr == io.EOF || rerr == nil {
+				return nil, nil
+			}
+			return nil, fmt.Errorf("worksheet %s: %w", part, rerr)
+		}
+		win := append(tail[:len(tail):len(tail)], buf...)
+		if i := bytes.Index(win, key); i >= 0 {
+			// The merged cells are at the end of the sheet: read the rest (bounded).
+			_, _ = br.Discard(n)
+			rest, err := io.ReadAll(io.LimitReader(br, 64<<20))
+			if err != nil {
+				return nil, fmt.Errorf("worksheet %s: %w", part, err)
+			}
+			return parseMerges(append(win[max(i-16, 0):], rest...)), nil
+		}
+		tail = append(tail[:0], buf[max(n-16, 0):]...)
+		if _, err := br.Discard(n); err != nil {
+			return nil, err
+		}
+		if rerr == io.EOF {
+			return nil, nil
+		}
+	}
+}
+
+func parseMerges(b []byte) []mergeRange {
+	var out []mergeRange
+	for _, m := range mergeRef.FindAllSubmatch(b, -1) {
+		a, z := string(m[1]), string(m[2])
+		if z == "" {
+			z = a
+		}
+		c1, r1, err1 := excelize.CellNameToCoordinates(a)
+		c2, r2, err2 := excelize.CellNameToCoordinates(z)
+		if err1 != nil || err2 != nil {
+			continue
+		}
+		ref := a
+		if z != a {
+			ref = a + ":" + z
+		}
+		out = append(out, mergeRange{ref: ref, r1: min(r1, r2), c1: min(c1, c2), r2: max(r1, r2), c2: max(c1, c2)})
+	}
+	return out
+}
+
+// sheetPart finds the zip part of a sheet from xl/workbook.xml and its relationships.
+func sheetPart(zr *zip.Reader, sheet string) (string, error) {
+	var wb struct {
+		Sheets []struct {
+			Name  string     `xml:"name,attr"`
+			Attrs []xml.Attr `xml:",any,attr"`
+		} `xml:"sheets>sheet"`
+	}
+	var rels struct {
+		Rel []struct {
+			ID     string `xml:"Id,attr"`
+			Target string `xml:"Target,attr"`
+		} `xml:"Relationship"`
+	}
+	if err := decodePart(zr, "xl/workbook.xml", &wb); err != nil {
+		return "", err
+	}
+	if err := decodePart(zr, "xl/_rels/workbook.xml.rels", &rels); err != nil {
+		return "", err
+	}
+	for _, s := range wb.Sheets {
+		if s.Name != sheet {
+			continue
+		}
+		for _, a := range s.Attrs {
+			if a.Name.Local != "id" {
+				continue
+			}
+			for _, r := range rels.Rel {
+				if r.ID == a.Value {
+					if strings.HasPrefix(r.Target, "/") {
+						return strings.TrimPrefix(r.Target, "/"), nil
+					}
+					return path.Join("xl", r.Target), nil
+				}
+			}
+		}
+	}
+	return "", nil
+}
+
+func decodePart(zr *zip.Reader, name string, v any) error {
+	for _, f := range zr.File {
+		if !strings.EqualFold(f.Name, name) {
+			continue
+		}
+		rc, err := f.Open()
+		if err != nil {
+			return fmt.Errorf("%s: %w", name, err)
+		}
+		defer rc.Close()
+		if err := xml.NewDecoder(io.LimitReader(rc, 64<<20)).Decode(v); err != nil {
+			return fmt.Errorf("%s: %w", name, err)
+		}
+		return nil
+	}
+	return nil
+}

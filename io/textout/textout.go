@@ -1,0 +1,137 @@
+// Package textout prints hoistfleet's short plain-text summary for the terminal: counts
+// by status, by site, the worst hoists with their governing check and maximum rated load,
+// overdue inspections, flags and re-rating changes. It uses no colour and no terminal
+// control codes, so it reads the same in a log file. Columns are aligned with
+// text/tabwriter. The output file's path is printed by the caller.
+package textout
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"hoistfleet/fleet"
+)
+
+// MaxWorst is the most hoists the worst list prints.
+const MaxWorst = 10
+
+// Summary writes the fleet summary s of the run info to w. info may be nil.
+func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
+	if s == nil {
+		return fmt.Errorf("textout: no summary")
+	}
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	p := func(format string, a ...any) { fmt.Fprintf(tw, format, a...) }
+
+	head := fmt.Sprintf("%d hoists checked", s.Total)
+	if s.Total == 1 {
+		head = "1 hoist checked"
+	}
+	var extra []string
+	if info != nil {
+		if !info.AsOf.IsZero() {
+			extra = append(extra, "as of "+info.AsOf.Format("2006-01-02"))
+		}
+		if info.Profile != "" {
+			extra = append(extra, "rules "+info.Profile)
+		}
+		if info.RulesFile != "" {
+			extra = append(extra, "rule file "+info.RulesFile)
+		}
+		if info.MarginalBand > 0 {
+			extra = append(extra, "marginal band "+strconv.FormatFloat(info.MarginalBand*100, 'f', -1, 64)+" %")
+		}
+	}
+	if len(extra) > 0 {
+		head += " (" + strings.Join(extra, ", ") + ")"
+	}
+	p("%s\n", head)
+	for _, st := range fleet.Statuses {
+		if s.Total > 0 {
+			p("  %s\t%d\t%s\n", st, s.ByStatus[st], percent(s.ByStatus[st], s.Total))
+		} else {
+			p("  %s\t%d\n", st, s.ByStatus[st])
+		}
+	}
+
+	if len(s.Sites) > 0 {
+		p("\nBy site\tfail\terror\tunchecked\tmarginal\tpass\ttotal\n")
+		for _, sc := range s.Sites {
+			name := sc.Site
+			if name == "" {
+				name = "(no site)"
+			}
+			total := 0
+			for _, n := range sc.ByStatus {
+				total += n
+			}
+			p("  %s", name)
+			for _, st := range fleet.Statuses {
+				p("\t%d", sc.ByStatus[st])
+			}
+			p("\t%d\n", total)
+		}
+	}
+
+	if len(s.Worst) > 0 {
+		n := min(len(s.Worst), MaxWorst)
+		p("\nWorst hoists\trow\tstatus\tsmallest margin\tworst check\tmax rated load\tgoverned by\n")
+		for _, b := range s.Worst[:n] {
+			p("  %s\t%d\t%s\t%s\t%s\t%s\t%s\n", orDash(b.AssetID), b.Row, b.Status, marginText(b.MinMargin),
+				orDash(b.WorstCheck), kgText(b.MaxRatedLoadKg), orDash(b.GoverningCheck))
+		}
+	}
+
+	p("\nOverdue inspections\t%d\n", s.OverdueCount)
+	if len(s.FlagCounts) > 0 {
+		keys := make([]string, 0, len(s.FlagCounts))
+		for k := range s.FlagCounts {
+			keys = append(keys, k)
+		}
+		sort.Strings(keys)
+		for _, k := range keys {
+			p("Flagged %s\t%d\n", k, s.FlagCounts[k])
+		}
+	}
+	if s.Rerated > 0 {
+		p("Re-rated\t%d\t(%d change verdict)\n", s.Rerated, s.ChangedCount)
+	}
+	p("\nScreening calculation on the data given: it does not replace examination by a competent person.\n")
+	if err := tw.Flush(); err != nil {
+		return fmt.Errorf("textout: %w", err)
+	}
+	return nil
+}
+
+func percent(n, total int) string {
+	if total == 0 {
+		return ""
+	}
+	return strconv.FormatFloat(100*float64(n)/float64(total), 'f', 1, 64) + " %"
+}
+
+func marginText(m float64) string {
+	if math.IsNaN(m) || math.IsInf(m, 0) {
+		return "-"
+	}
+	return strconv.FormatFloat(100*m, 'f', 1, 64) + " %"
+}
+
+func kgText(kg float64) string {
+	if math.IsNaN(kg) || math.IsInf(kg, 0) {
+		return "none"
+	}
+	return strconv.FormatFloat(kg, 'f', 1, 64) + " kg"
+}
+
+func orDash(s string) string {
+	if s == "" {
+		return "-"
+	}
+	return s
+}

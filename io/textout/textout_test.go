@@ -1,0 +1,122 @@
+package textout
+
+import (
+	"bytes"
+	"errors"
+	"math"
+	"os"
+	"testing"
+	"time"
+
+	"hoistfleet/fleet"
+)
+
+func res(row int, id, site string, st fleet.Status, margin, kg float64, gov string, checks ...fleet.CheckResult) *fleet.Result {
+	return &fleet.Result{Asset: &fleet.Asset{Row: row, ID: id, Fields: map[string]fleet.Value{"site": {State: fleet.OK, Text: site}}},
+		Evaluation: fleet.Evaluation{Status: st, MinMargin: margin, WorstCheck: gov, Checks: checks},
+		Rating:     fleet.Rating{MaxRatedLoadKg: kg, GoverningCheck: gov}}
+}
+
+func summary() *fleet.Summary {
+	s := fleet.NewSummary(10)
+	overdue := fleet.CheckResult{ID: "inspection-due", Status: fleet.StatusFail, Demand: 400, Capacity: 365, Unit: "d"}
+	worn := fleet.CheckResult{ID: "rope-wear", Status: fleet.StatusFail}
+	for _, r := range []*fleet.Result{
+		res(2, "H-01", "North", fleet.StatusPass, 0.40, 6480.5, "brake-holding"),
+		res(3, "H-02", "North", fleet.StatusFail, -0.25, math.NaN(), "", overdue, worn),
+		res(4, "H-03", "South yard", fleet.StatusMarginal, 0.05, 1999.9, "motor-torque"),
+		res(5, "H-04", "", fleet.StatusUnchecked, math.NaN(), math.NaN(), ""),
+		res(6, "H-05", "South yard", fleet.StatusFail, -0.5, 800, "rope-design-factor"),
+	} {
+		s.Add(r)
+	}
+	return s
+}
+
+// TestGolden: the expected text is written by hand from the five hoists above: 2 fail
+// (H-05 with margin −50 % ranks before H-02 with −25 %), 1 unchecked, 1 marginal, 1 pass;
+// percentages of 5 hoists.
+func TestGolden(t *testing.T) {
+	var buf bytes.Buffer
+	info := &fleet.RunInfo{AsOf: time.Date(2026, 5, 1, 0, 0, 0, 0, time.UTC), Profile: "iso", MarginalBand: 0.1}
+	if err := Summary(&buf, summary(), info); err != nil {
+		t.Fatal(err)
+	}
+	want := `5 hoists checked (as of 2026-05-01, rules iso, marginal band 10 %)
+  fail       2  40.0 %
+  error      0  0.0 %
+  unchecked  1  20.0 %
+  marginal   1  20.0 %
+  pass       1  20.0 %
+
+By site       fail  error  unchecked  marginal  pass  total
+  North       1     0      0          0         1     2
+  South yard  1     0      0          1         0     2
+  (no site)   0     0      1          0         0     1
+
+Worst hoists  row  status     smallest margin  worst check         max rated load  governed by
+  H-05        6    fail       -50.0 %          rope-design-factor  800.0 kg        rope-design-factor
+  H-02        3    fail       -25.0 %          -                   none            -
+  H-04        5    unchecked  -                -                   none            -
+  H-03        4    marginal   5.0 %            motor-torque        1999.9 kg       motor-torque
+
+Overdue inspections  1
+Flagged rope-wear    1
+
+Screening calculation on the data given: it does not replace examination by a competent person.
+`
+	if got := buf.String(); got != want {
+		t.Errorf("summary:\ngot\n%s\nwant\n%s", got, want)
+	}
+}
+
+func TestEmptyAndErrors(t *testing.T) {
+	var buf bytes.Buffer
+	if err := Summary(&buf, fleet.NewSummary(10), nil); err != nil {
+		t.Fatal(err)
+	}
+	want := `0 hoists checked
+  fail       0
+  error      0
+  unchecked  0
+  marginal   0
+  pass       0
+
+Overdue inspections  0
+
+Screening calculation on the data given: it does not replace examination by a competent person.
+`
+	if buf.String() != want {
+		t.Errorf("empty summary:\n%q\nwant\n%q", buf.String(), want)
+	}
+	if err := Summary(&buf, nil, nil); err == nil {
+		t.Error("nil summary must be an error")
+	}
+	if err := Summary(failWriter{}, summary(), nil); err == nil {
+		t.Error("write error must be returned")
+	}
+}
+
+type failWriter struct{}
+
+func (failWriter) Write(p []byte) (int, error) { return 0, errors.New("closed") }
+
+func ExampleSummary() {
+	s := fleet.NewSummary(10)
+	s.Add(res(2, "H-01", "Dock", fleet.StatusPass, 0.3, 5000, "motor-torque"))
+	_ = Summary(os.Stdout, s, nil)
+	// Output:
+	// 1 hoist checked
+	//   fail       0  0.0 %
+	//   error      0  0.0 %
+	//   unchecked  0  0.0 %
+	//   marginal   0  0.0 %
+	//   pass       1  100.0 %
+	//
+	// By site  fail  error  unchecked  marginal  pass  total
+	//   Dock   0     0      0          0         1     1
+	//
+	// Overdue inspections  0
+	//
+	// Screening calculation on the data given: it does not replace examination by a competent person.
+}

@@ -1,0 +1,118 @@
+package xlsxout
+
+import (
+	"strconv"
+	"time"
+
+	"hoistfleet/fleet"
+)
+
+// writeAudit builds the Audit sheet: cautions first, then the run, header problems and
+// the rules in force.
+func (w *Writer) writeAudit(info *fleet.RunInfo) error {
+	sw := &sheetWriter{f: w.f, sheet: SheetAudit}
+	st := w.st
+	sw.width(1, 1, 26)
+	sw.width(2, 2, 16)
+	sw.width(3, 5, 12)
+	sw.width(6, 6, 40)
+	sw.width(7, 8, 16)
+	sw.width(9, 9, 8)
+	sw.width(10, 10, 40)
+	sw.printWide()
+
+	r := 1
+	sw.str(1, r, "Cautions", st.heading)
+	r++
+	cautions := info.Cautions
+	if len(cautions) == 0 {
+		cautions = []string{fleet.Caution}
+	}
+	for _, c := range cautions {
+		sw.str(1, r, c, st.caution)
+		sw.merge(1, r, 10, r)
+		sw.height(r, float64(16*(1+len(c)/150)))
+		r++
+	}
+	r++
+
+	sw.str(1, r, "Run", st.heading)
+	r++
+	ts := func(t time.Time, layout string) string {
+		if t.IsZero() {
+			return ""
+		}
+		return t.Format(layout)
+	}
+	kv := [][2]string{
+		{"Tool", info.Tool},
+		{"Version", info.Version},
+		{"Command", info.Command},
+		{"Input", info.Input},
+		{"Input SHA-256", info.InputSHA256},
+		{"Sheet", info.Sheet},
+		{"As of", ts(info.AsOf, "2006-01-02")},
+		{"Started", ts(info.Started, time.RFC3339)},
+		{"Finished", ts(info.Finished, time.RFC3339)},
+		{"Rule profile", info.Profile},
+		{"User rules file", info.RulesFile},
+		{"Marginal band", strconv.FormatFloat(info.MarginalBand*100, 'f', -1, 64) + " %"},
+		{"Rated load factor", ""},
+		{"Workers", ""},
+		{"Rows", ""},
+	}
+	if !info.Started.IsZero() && !info.Finished.IsZero() {
+		kv = append(kv, [2]string{"Run time", info.Finished.Sub(info.Started).Round(time.Millisecond).String()})
+	}
+	if info.RulesFile == "" {
+		kv[10][1] = "none"
+	}
+	for _, p := range kv {
+		sw.str(1, r, p[0], st.bold)
+		switch p[0] {
+		case "Rated load factor":
+			if info.RatedLoadFactor > 0 {
+				sw.set(2, r, info.RatedLoadFactor, 0)
+			} else {
+				sw.str(2, r, "none", 0)
+			}
+		case "Workers":
+			sw.set(2, r, info.Workers, 0)
+		case "Rows":
+			sw.set(2, r, info.Rows, 0)
+		default:
+			sw.str(2, r, p[1], 0)
+		}
+		r++
+	}
+	r++
+
+	if w.h != nil && len(w.h.Problems) > 0 {
+		sw.str(1, r, "Header problems", st.heading)
+		r++
+		for _, p := range w.h.Problems {
+			sw.str(1, r, p.Error(), 0)
+			r++
+		}
+		r++
+	}
+
+	sw.str(1, r, "Rules in force", st.heading)
+	r++
+	for i, h := range []string{"Rule", "Value", "Unit", "Groups", "Condition", "Source", "Provenance", "Origin", "Uses", "Note"} {
+		sw.str(1+i, r, h, st.th)
+	}
+	r++
+	for _, u := range info.Rules {
+		for i, v := range []string{u.ID, u.Value, u.Unit, u.Groups, u.When, u.Source, u.Provenance, u.Origin} {
+			sw.str(1+i, r, v, 0)
+		}
+		sw.set(9, r, u.Uses, 0)
+		sw.str(10, r, u.Note, 0)
+		r++
+	}
+	if len(info.Rules) == 0 {
+		sw.str(1, r, "no rules were reported for this run", st.subtitle)
+	}
+	return sw.err
+}
