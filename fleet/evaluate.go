@@ -49,15 +49,19 @@ func NewChecker(opts Options) (*Checker, error) {
 // Options returns the checker's options with defaults applied.
 func (c *Checker) Options() Options { return c.opts }
 
+// utilisationTolerance absorbs floating-point rounding at exactly the limit: a hoist
+// load-tested at exactly 1.1 × its rated load computes 1.0000000000000002.
+const utilisationTolerance = 1e-9
+
 // StatusOf turns a utilisation into pass / marginal / fail with marginal band b:
 // pass u ≤ 1 − b, marginal 1 − b < u ≤ 1, fail u > 1 (design.md "Statuses").
 func StatusOf(u, band float64) Status {
 	switch {
 	case math.IsNaN(u):
 		return StatusError
-	case u > 1:
+	case u > 1+utilisationTolerance:
 		return StatusFail
-	case u > 1-band:
+	case band > 0 && u > 1-band:
 		return StatusMarginal
 	}
 	return StatusPass
@@ -305,6 +309,7 @@ func (d *hoistData) resolveDuty() {
 type checkSpec struct {
 	id    string
 	needs []string // schema keys that must be present (Bad → error, Empty → unchecked)
+	uses  []string // optional keys with defaults: Bad → error, Empty → the default
 	// loadDependent checks enter the maximum permissible rated load; linear ones are
 	// solved in closed form (utilisation affine in the rated load), the others by bracketed
 	// root finding.
@@ -331,6 +336,15 @@ func needsMotorRadius(d *hoistData) []string {
 
 var loadNeeds = []string{"rated_load"}
 
+// reevingUses are the optional inputs of every rope-tension calculation.
+var reevingUses = []string{"hook_block_mass", "parts_of_line", "rope_ends", "sheave_efficiency", "deflection_sheaves", "special_service"}
+
+// driveUses are the optional inputs of the drive-train calculations.
+var driveUses = join(reevingUses, []string{"rope_layers", "gear_efficiency", "gear_backdrive_efficiency", "motor_peak_torque", "acceleration"})
+
+// brakeUses are the optional inputs of the brake calculations.
+var brakeUses = join(driveUses, []string{"brake_location", "brakes", "brake_delay", "control_braking", "lowering_speed"})
+
 func join(lists ...[]string) []string {
 	var out []string
 	for _, l := range lists {
@@ -343,7 +357,7 @@ func join(lists ...[]string) []string {
 func checkSpecs() []checkSpec {
 	ruleOf := func(d *hoistData, id string) (float64, templates.Rule, error) { return d.rule(id) }
 	return []checkSpec{
-		{id: "rope-design-factor", needs: join(loadNeeds, []string{"rope_mbf"}), loadDependent: true, linear: true,
+		{id: "rope-design-factor", needs: join(loadNeeds, []string{"rope_mbf"}), uses: join(reevingUses, []string{"rope_grade", "rope_construction"}), loadDependent: true, linear: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				z, rz, err := ruleOf(d, "rope.design_factor")
 				if err != nil {
@@ -378,7 +392,7 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.SheaveRatio(h, h2) }, []templates.Rule{r}, nil
 			}},
-		{id: "drum-capacity", needs: []string{"drum_diameter", "rope_diameter", "lift_height", "drum_grooves"}, nullsRating: true,
+		{id: "drum-capacity", needs: []string{"drum_diameter", "rope_diameter", "lift_height", "drum_grooves"}, uses: []string{"parts_of_line", "rope_ends", "rope_layers"}, nullsRating: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				w, r, err := ruleOf(d, "drum.dead_wraps")
 				if err != nil {
@@ -386,7 +400,7 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumCapacity(h, w) }, []templates.Rule{r}, nil
 			}},
-		{id: "fleet-angle", needs: []string{"fleet_angle"}, nullsRating: true,
+		{id: "fleet-angle", needs: []string{"fleet_angle"}, uses: []string{"drum_grooved"}, nullsRating: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				id := "fleet_angle.max_grooved"
 				if !d.h.Grooved {
@@ -402,15 +416,15 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, []templates.Rule{r1, r2}, nil
 			}},
-		{id: "motor-torque", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), loadDependent: true, linear: true,
+		{id: "motor-torque", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), uses: driveUses, loadDependent: true, linear: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.MotorTorque, nil, nil
 			}},
-		{id: "motor-power", needs: join(loadNeeds, []string{"hoist_speed", "motor_power"}), loadDependent: true, linear: true,
+		{id: "motor-power", needs: join(loadNeeds, []string{"hoist_speed", "motor_power"}), uses: driveUses, loadDependent: true, linear: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.MotorPower, nil, nil
 			}},
-		{id: "hoist-speed", needs: []string{"motor_speed", "drum_diameter", "gear_ratio", "hoist_speed"},
+		{id: "hoist-speed", needs: []string{"motor_speed", "drum_diameter", "gear_ratio", "hoist_speed"}, uses: []string{"parts_of_line", "rope_ends"},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				tol, r, err := ruleOf(d, "hoist_speed.tolerance")
 				if err != nil {
@@ -418,11 +432,11 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, tol) }, []templates.Rule{r}, nil
 			}},
-		{id: "motor-accel-torque", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), loadDependent: true,
+		{id: "motor-accel-torque", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), uses: driveUses, loadDependent: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.MotorAccelTorque, nil, nil
 			}},
-		{id: "gearbox-torque", needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), loadDependent: true,
+		{id: "gearbox-torque", needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), uses: brakeUses, loadDependent: true,
 			applicable: func(d *hoistData) (bool, string) {
 				if d.missing["gearbox_rated_torque"] {
 					return false, "no gearbox rated torque in the register"
@@ -432,7 +446,7 @@ func checkSpecs() []checkSpec {
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.GearboxTorque, nil, nil
 			}},
-		{id: "brake-holding", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), loadDependent: true, linear: true,
+		{id: "brake-holding", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), uses: brakeUses, loadDependent: true, linear: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				f, r1, err := ruleOf(d, "brake.factor")
 				if err != nil {
@@ -445,7 +459,7 @@ func checkSpecs() []checkSpec {
 				e := each == "yes"
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, []templates.Rule{r1, r2}, nil
 			}},
-		{id: "brake-stop", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), loadDependent: true,
+		{id: "brake-stop", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), uses: join(brakeUses, []string{"rope_mbf"}), loadDependent: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				lim := math.NaN()
 				var rules []templates.Rule
@@ -459,17 +473,17 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, lim) }, rules, nil
 			}},
-		{id: "runaway", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}),
+		{id: "runaway", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), uses: driveUses,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.Runaway, nil, nil
 			}},
-		{id: "shaft-load", needs: join(loadNeeds, []string{"drum_mass"}),
+		{id: "shaft-load", needs: join(loadNeeds, []string{"drum_mass"}), uses: reevingUses,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.ShaftLoad, nil, nil
 			}},
-		{id: "design-life", needs: []string{"operating_hours"}, nullsRating: true,
+		{id: "design-life", needs: []string{"operating_hours"}, uses: []string{"duty_group", "load_spectrum", "spectrum_factor", "usage_records", "commissioned"}, nullsRating: true,
 			prepare: prepareDesignLife},
-		{id: "inspection-due", needs: []string{"last_inspection"},
+		{id: "inspection-due", needs: []string{"last_inspection"}, uses: []string{"service"},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				months, r, err := ruleOf(d, "inspection.interval_months")
 				if err != nil {
@@ -481,7 +495,7 @@ func checkSpecs() []checkSpec {
 					return calc.InspectionDue(last, asOf, int(math.Round(months)))
 				}, []templates.Rule{r}, nil
 			}},
-		{id: "load-test", needs: join(loadNeeds, []string{"test_load"}), noBand: true,
+		{id: "load-test", needs: join(loadNeeds, []string{"test_load"}), uses: []string{"test_type", "proposed_rated_load"}, noBand: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				f, r, err := ruleOf(d, "load_test.factor")
 				if err != nil {
@@ -490,7 +504,7 @@ func checkSpecs() []checkSpec {
 				test, _ := d.num("test_load")
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, []templates.Rule{r}, nil
 			}},
-		{id: "rope-wear", needs: []string{"rope_diameter"}, nullsRating: true,
+		{id: "rope-wear", needs: []string{"rope_diameter"}, uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_reference_diameter", "rope_construction", "rope_fitted"}, nullsRating: true,
 			prepare: prepareRopeWear},
 	}
 }
@@ -531,6 +545,12 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []te
 	in := calc.WearInput{NominalM: d.h.RopeDiameterM, MeasuredM: meas, BrokenWires: -1,
 		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.opts.AsOf}
 	in.ReferenceM, _ = d.num("rope_reference_diameter")
+	if basis, r, err := d.ruleWord("rope_wear.basis"); err == nil && basis == "nominal" {
+		// The profile measures the reduction from nominal (ASME B30.2), whatever
+		// reference diameter the register gives.
+		in.ReferenceM = 0
+		_ = r
+	}
 	if okb {
 		in.BrokenWires = int(bw)
 	}
@@ -625,6 +645,12 @@ func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
 	switch s.id {
 	case "motor-torque", "motor-power", "brake-holding", "motor-accel-torque", "gearbox-torque", "brake-stop", "runaway":
 		needs = join(needs, needsMotorRadius(d))
+	}
+	for _, k := range s.uses {
+		if e, bad := d.bad[k]; bad {
+			p.status, p.message = StatusError, e.Error()
+			return p
+		}
 	}
 	var missing []string
 	for _, k := range needs {
