@@ -176,6 +176,9 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 			case v.State == fleet.Bad:
 				si = "unreadable (see messages)"
 			case v.State != fleet.OK:
+			case c.Quantity == "time" && c.Unit == "h":
+				// Hours columns are shown in hours: the checks that use them work in h.
+				si = Num(v.Num/3600) + " h"
 			case c.Kind == templates.Number || c.Kind == templates.Integer:
 				si = Num(v.Num)
 				if u := siUnit[c.Quantity]; u != "" && u != "1" {
