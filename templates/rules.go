@@ -955,7 +955,9 @@ func rangeText(s ruleSpec) string {
 
 // ProvenanceLabels are the labels of the project's standards notes. "memory" is
 // followed by a confidence: "memory, medium".
-var ProvenanceLabels = [...]string{"seen", "law", "computed", "memory", "common practice, no published source"}
+// "owner's criterion" marks a value a rule file's owner (an insurer, a jurisdiction, the
+// operator) sets as their own acceptance criterion, with no published source behind it.
+var ProvenanceLabels = [...]string{"seen", "law", "computed", "memory", "common practice, no published source", "owner's criterion"}
 
 // Confidences are the confidences a "memory" label may carry.
 var Confidences = [...]string{"high", "medium-high", "medium", "low-medium", "low"}
@@ -963,10 +965,10 @@ var Confidences = [...]string{"high", "medium-high", "medium", "low-medium", "lo
 func normProvenance(p string) (string, error) {
 	t := strings.ToLower(strings.Join(strings.Fields(p), " "))
 	switch t {
-	case "seen", "law", "computed", "common practice, no published source":
+	case "seen", "law", "computed", "common practice, no published source", "owner's criterion":
 		return t, nil
 	case "":
-		return "", fmt.Errorf("empty, expected one of seen, law, computed, memory with a confidence (memory, medium), common practice, no published source")
+		return "", fmt.Errorf("empty, expected one of seen, law, computed, memory with a confidence (memory, medium), common practice, no published source, owner's criterion")
 	}
 	if conf, ok := strings.CutPrefix(t, "memory"); ok {
 		conf = strings.TrimSpace(strings.TrimLeft(strings.TrimSpace(conf), ",:"))

@@ -163,5 +163,29 @@ func runDemo(ctx context.Context, args []string, st Streams) error {
 			fmt.Fprintln(st.Out)
 		}
 	}
+	// The same SI register against the operator's insurer's own acceptance criteria: a
+	// user rule file layered over the ISO profile.
+	rules, err := templates.DemoInsurerRules()
+	if err != nil {
+		return fmt.Errorf("demo: %w", err)
+	}
+	rulesPath := filepath.Join(dir, "insurer-rules.csv")
+	if err := os.WriteFile(rulesPath, rules, 0o644); err != nil {
+		return fmt.Errorf("demo: %w", err)
+	}
+	if len(c.cfg.rules) == 0 && len(names) > 0 {
+		run := c
+		run.cfg.rules = []string{"iso", rulesPath}
+		run.register = filepath.Join(dir, names[0])
+		run.failOn = "never"
+		run.format = "xlsx"
+		run.out = strings.TrimSuffix(run.register, ".csv") + "-insurer-results.xlsx"
+		if !c.quiet {
+			fmt.Fprintf(st.Out, "== %s (rules iso + %s, as of %s)\n", run.register, rulesPath, c.cfg.asOf)
+		}
+		if _, err := run.run(ctx, st); err != nil {
+			return err
+		}
+	}
 	return worst
 }

@@ -51,6 +51,7 @@ type colSpec struct {
 	unitLabel string           // unit in messages ("t", "%"), "" for none
 	minSI     float64
 	maxSI     float64
+	enumKeys  []string // normalized col.Values
 	headerErr string // non-empty: the column's header is unusable; every non-empty cell is Bad
 }
 
@@ -115,7 +116,7 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 				return bad(fleet.Invalid, ErrNotAllowed, "%q is a number: the load spectrum is a class L1 to L4; for a factor km use the Spectrum factor column", text)
 			}
 		}
-		val, ok := matchEnum(s.col, text)
+		val, ok := s.matchEnum(text)
 		if !ok {
 			return bad(fleet.Invalid, ErrNotAllowed, "%q is not one of %s", text, strings.Join(s.col.Values, ", "))
 		}
@@ -181,12 +182,21 @@ var (
 func parseNumber(t string, d dialect) (x float64, hint string, ok bool) {
 	s := t
 	hasComma, hasPoint := strings.Contains(s, ","), strings.Contains(s, ".")
+	// The common case first: a plain number with a decimal point, and no point that may
+	// be a thousands separator.
+	if !hasComma && (!d.decimalComma || !hasPoint || !thousandsPoint.MatchString(s)) && numberSyntax(s) {
+		x, err := strconv.ParseFloat(s, 64)
+		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+			return 0, "", false
+		}
+		return x, "", true
+	}
 	switch {
 	case strings.HasPrefix(s, "#"):
 		return 0, ": the cell holds a spreadsheet error", false
 	case strings.ContainsAny(s, " \u00a0'_") && isDigits(strings.NewReplacer(" ", "", "\u00a0", "", "'", "", "_", "").Replace(s)):
 		return 0, ": write it without thousands separators", false
-	case numberWithUnit.MatchString(s) && !numberSyntax(s):
+	case numberWithUnit.MatchString(s):
 		return 0, ": write the number only; the unit belongs in the header", false
 	case d.decimalComma && hasComma && hasPoint:
 		return 0, ": write it without thousands separators", false
@@ -195,7 +205,7 @@ func parseNumber(t string, d dialect) (x float64, hint string, ok bool) {
 			return 0, ": write it without thousands separators", false
 		}
 		s = strings.Replace(s, ",", ".", 1)
-	case d.decimalComma && thousandsPoint.MatchString(s):
+	case d.decimalComma && hasPoint && thousandsPoint.MatchString(s):
 		return 0, ": the point may be a thousands separator or a decimal point; write it without thousands separators (1250) or with a decimal comma (1,25)", false
 	case hasComma && thousandsComma.MatchString(s):
 		return 0, ": write it without thousands separators", false
@@ -323,9 +333,14 @@ func parseDate(t string, d dialect) (time.Time, string) {
 
 // matchEnum finds the schema's spelling of an enum value, ignoring case, spaces and
 // punctuation. A duty group may carry its system's name: "ISO M5", "FEM 1Am".
-func matchEnum(col templates.Column, text string) (string, bool) {
+func (s *colSpec) matchEnum(text string) (string, bool) {
+	if s.enumKeys == nil {
+		for _, v := range s.col.Values {
+			s.enumKeys = append(s.enumKeys, units.Normalize(v))
+		}
+	}
 	n := units.Normalize(text)
-	if col.Key == "duty_group" {
+	if s.col.Key == "duty_group" {
 		for _, p := range []string{"iso4301", "iso", "fem9511", "fem"} {
 			if m, ok := strings.CutPrefix(n, p); ok && m != "" {
 				n = m
@@ -333,9 +348,9 @@ func matchEnum(col templates.Column, text string) (string, bool) {
 			}
 		}
 	}
-	for _, v := range col.Values {
-		if units.Normalize(v) == n {
-			return v, true
+	for i, k := range s.enumKeys {
+		if k == n {
+			return s.col.Values[i], true
 		}
 	}
 	return "", false

@@ -118,8 +118,10 @@ func (r *Reader) Next(ctx context.Context) (*fleet.Asset, error) {
 				r.pendStart = rr.row
 			}
 			r.pendN++
-			if err := ctx.Err(); err != nil && r.pendN%4096 == 0 {
-				return nil, err
+			if r.pendN%4096 == 0 {
+				if err := ctx.Err(); err != nil {
+					return nil, err
+				}
 			}
 			continue
 		}
