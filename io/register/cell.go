@@ -52,7 +52,7 @@ type colSpec struct {
 	minSI     float64
 	maxSI     float64
 	enumKeys  []string // normalized col.Values
-	headerErr string // non-empty: the column's header is unusable; every non-empty cell is Bad
+	headerErr string   // non-empty: the column's header is unusable; every non-empty cell is Bad
 }
 
 // parse reads one cell of the column: the Value in SI for a known column and the Cell
