@@ -520,3 +520,11 @@ func TestNextHonoursContext(t *testing.T) {
 		t.Errorf("Next: %v", err)
 	}
 }
+
+// Every header spelling in the schema names one column only (templates/columns.csv):
+// a collision would make a header ambiguous.
+func TestSchemaNamesUnique(t *testing.T) {
+	if amb := schemaIndex().ambiguous; len(amb) != 0 {
+		t.Errorf("schema names claimed by several columns: %v", amb)
+	}
+}
