@@ -156,6 +156,9 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 		}
 		d.scope.Attrs[k.attr] = v
 	}
+	if sp := d.scope.Attrs["special"]; sp != "none" && !c.hasCondition("special="+sp) {
+		d.messages = append(d.messages, fmt.Sprintf("special service %q: the %s rules have no stricter row for it, so the ordinary rules were applied; supply a rule file with rows for special=%s", sp, c.opts.Rules.Profile, sp))
+	}
 	if cat := calc.RopeCategory(d.text("rope_construction")); cat != "" {
 		d.scope.Attrs["rope"] = cat
 	}
@@ -216,6 +219,16 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 	}
 	d.h = h
 	return d
+}
+
+// hasCondition reports whether any rule row in force has the condition cond.
+func (c *Checker) hasCondition(cond string) bool {
+	for _, r := range c.opts.Rules.Rules {
+		if strings.Contains(strings.ToLower(r.When), cond) {
+			return true
+		}
+	}
+	return false
 }
 
 // numDefault returns the field, or def when empty (reporting the default when text is
@@ -718,7 +731,11 @@ func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck,
 		if cr.Status.Worse(e.Status) {
 			e.Status = cr.Status
 		}
-		if cr.Status == StatusPass || cr.Status == StatusMarginal || cr.Status == StatusFail {
+		// A check judged without the marginal band (load-test) can pass at margin 0: it
+		// would outrank a genuinely marginal check, so it does not set the smallest margin
+		// unless it fails.
+		counts := !p.spec.noBand || cr.Status == StatusFail
+		if counts && (cr.Status == StatusPass || cr.Status == StatusMarginal || cr.Status == StatusFail) {
 			if !math.IsNaN(cr.Margin) && (math.IsNaN(e.MinMargin) || cr.Margin < e.MinMargin) {
 				e.MinMargin, e.WorstCheck = cr.Margin, cr.ID
 			} else if math.IsNaN(cr.Margin) && cr.Status == StatusFail && e.WorstCheck == "" {
@@ -796,16 +813,22 @@ const maxSearchKg = 1e7
 // limitLoad is the rated load at which the check reaches its limit (design.md: closed form
 // where linear, bisection otherwise, floored to 0.1 kg). NaN when the limit is not
 // reached below maxSearchKg or cannot be evaluated; 0 when the check fails at no load.
+//
+// The search starts from the hoist's own rated load: a check that passes there is
+// followed upwards to the load where it stops passing, one that fails there downwards.
+// Not every check is monotonic in the load over the whole range (with a drum brake the
+// rotor's share of an emergency stop is largest for the lightest load), so the bracket
+// around the actual rating is the one that matters.
 func (c *Checker) limitLoad(h calc.Hoist, p preparedCheck, o calc.Outcome) float64 {
 	f := limitFunc(p)
-	f0, ok := f(h.WithRatedLoad(0))
-	if !ok {
-		return math.NaN()
-	}
-	if f0 > 0 {
-		return 0
-	}
 	if p.spec.linear && !math.IsNaN(o.Utilisation) && h.RatedLoadKg > 0 {
+		f0, ok := f(h.WithRatedLoad(0))
+		if !ok {
+			return math.NaN()
+		}
+		if f0 > 0 {
+			return 0
+		}
 		// Utilisation is affine in the rated load: u(m) = u(0) + m (u(m_L) − u(0)) / m_L.
 		u0, u1 := f0+1, o.Utilisation
 		slope := (u1 - u0) / h.RatedLoadKg
@@ -814,21 +837,38 @@ func (c *Checker) limitLoad(h calc.Hoist, p preparedCheck, o calc.Outcome) float
 		}
 		return floorTenth((1 - u0) / slope)
 	}
-	// Bracket, then bisect to 0.01 kg.
-	lo, hi := 0.0, math.Max(h.RatedLoadKg, 100)
-	for {
-		fh, ok := f(h.WithRatedLoad(hi))
+	fr, ok := f(h)
+	if !ok {
+		return math.NaN()
+	}
+	var lo, hi float64
+	if fr <= 0 {
+		// Passes at the rated load: bracket upwards.
+		lo, hi = h.RatedLoadKg, math.Max(2*h.RatedLoadKg, 100)
+		for {
+			fh, ok := f(h.WithRatedLoad(hi))
+			if !ok {
+				return math.NaN()
+			}
+			if fh > 0 {
+				break
+			}
+			lo = hi
+			hi *= 2
+			if hi > maxSearchKg {
+				return math.NaN()
+			}
+		}
+	} else {
+		// Fails at the rated load: the limit lies below it, if anywhere.
+		f0, ok := f(h.WithRatedLoad(0))
 		if !ok {
 			return math.NaN()
 		}
-		if fh > 0 {
-			break
+		if f0 > 0 {
+			return 0
 		}
-		lo = hi
-		hi *= 2
-		if hi > maxSearchKg {
-			return math.NaN()
-		}
+		lo, hi = 0, h.RatedLoadKg
 	}
 	for hi-lo > 0.01 {
 		mid := (lo + hi) / 2
@@ -875,6 +915,9 @@ func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckR
 		if math.IsNaN(rt.MaxRatedLoadKg) || cr.LimitRatedLoadKg < rt.MaxRatedLoadKg {
 			rt.MaxRatedLoadKg, rt.GoverningCheck = cr.LimitRatedLoadKg, cr.ID
 		}
+	}
+	if rt.MaxRatedLoadKg == 0 {
+		rt.Note = rt.GoverningCheck + " fails even with no rated load on the hook"
 	}
 	if wll, ok := d.num("component_wll"); ok && (math.IsNaN(rt.MaxRatedLoadKg) || wll < rt.MaxRatedLoadKg) {
 		mech := rt.MaxRatedLoadKg

@@ -32,6 +32,10 @@ type Summary struct {
 	Rerated      int
 	Changed      []Brief
 	ChangedCount int
+	// Problems are the first TopN located input messages (bad cells, duplicated ids,
+	// short rows), "asset: message"; ProblemCount counts them all.
+	Problems     []string
+	ProblemCount int
 
 	siteIndex  map[string]int
 	checkIndex map[string]int
@@ -131,6 +135,12 @@ func (s *Summary) Add(r *Result) {
 	}
 	if r.GoverningCheck != "" {
 		s.Governing[r.GoverningCheck]++
+	}
+	for _, m := range r.Messages {
+		s.ProblemCount++
+		if len(s.Problems) < s.TopN {
+			s.Problems = append(s.Problems, m)
+		}
 	}
 	bin := len(MarginBinEdges) + 1
 	if !math.IsNaN(r.MinMargin) {

@@ -202,6 +202,11 @@ func createOutput(path string, st Streams) (*output, error) {
 	if err != nil {
 		return nil, fmt.Errorf("writing the results: %w", err)
 	}
+	if err := tmp.Chmod(0o644); err != nil { // CreateTemp makes 0600: colleagues must read results
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return nil, fmt.Errorf("writing the results: %w", err)
+	}
 	return &output{path: path, tmp: tmp, w: tmp}, nil
 }
 

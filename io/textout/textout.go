@@ -87,6 +87,22 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		}
 	}
 
+	if s.ProblemCount > 0 {
+		if err := tw.Flush(); err != nil {
+			return fmt.Errorf("textout: %w", err)
+		}
+		p("\nInput problems: %d (each affects only its hoist's checks)\n", s.ProblemCount)
+		n := min(len(s.Problems), MaxWorst)
+		for _, m := range s.Problems[:n] {
+			p("  %s\n", m)
+		}
+		if s.ProblemCount > n {
+			p("  … %d more: see the Messages column of the results\n", s.ProblemCount-n)
+		}
+		if err := tw.Flush(); err != nil {
+			return fmt.Errorf("textout: %w", err)
+		}
+	}
 	p("\nOverdue inspections\t%d\n", s.OverdueCount)
 	if len(s.FlagCounts) > 0 {
 		keys := make([]string, 0, len(s.FlagCounts))
