@@ -179,6 +179,8 @@ func RopeWear(in WearInput) (Outcome, error) {
 	case hasDia && hasBW:
 		u = math.Max(uD, uBW)
 		if uBW > uD {
+			// Report what governs, so that utilisation = demand / capacity.
+			demand, capacity, unit = float64(in.BrokenWires), float64(in.MaxBrokenWires), "1"
 			notes = append(notes, fmt.Sprintf("broken wires govern (%d of %d in one lay)", in.BrokenWires, in.MaxBrokenWires))
 		}
 	case hasDia:

@@ -132,7 +132,9 @@ func TestRopeWear(t *testing.T) {
 		// Broken wires against the B30.2 / B30.16 12 in one lay (standards.md, seen):
 		// 9 of 12 = 0.75 outweighs a diameter at 0.5 of its band.
 		{"broken wires govern", calc.WearInput{NominalM: 0.5 * inch, MeasuredM: (0.5 - 1.0/64) * inch, MaxReductionM: b302Half, BrokenWires: 9, MaxBrokenWires: 12},
-			inch / 64, inch / 32, "m", 0.75, 0.5, 0.75, 0.5 * inch, "broken wires govern"},
+			// When broken wires govern, demand and capacity are the counts (9 of 12) so that
+			// utilisation = demand / capacity still holds.
+			9, 12, "1", 0.75, 0.5, 0.75, 0.5 * inch, "broken wires govern"},
 		// Diameter governs over 3 of 12 broken wires.
 		{"diameter governs", calc.WearInput{NominalM: 0.5 * inch, MeasuredM: (0.5 - 1.0/64) * inch, MaxReductionM: b302Half, BrokenWires: 3, MaxBrokenWires: 12},
 			inch / 64, inch / 32, "m", 0.5, 0.5, 0.25, 0.5 * inch, ""},

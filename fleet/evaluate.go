@@ -370,7 +370,7 @@ func join(lists ...[]string) []string {
 func checkSpecs() []checkSpec {
 	ruleOf := func(d *hoistData, id string) (float64, templates.Rule, error) { return d.rule(id) }
 	return []checkSpec{
-		{id: "rope-design-factor", needs: join(loadNeeds, []string{"rope_mbf"}), uses: join(reevingUses, []string{"rope_grade", "rope_construction"}), loadDependent: true, linear: true,
+		{id: "rope-design-factor", needs: join(loadNeeds, []string{"rope_mbf"}), uses: join(reevingUses, []string{"rope_grade", "rope_construction", "duty_group"}), loadDependent: true, linear: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				z, rz, err := ruleOf(d, "rope.design_factor")
 				if err != nil {
@@ -383,7 +383,7 @@ func checkSpecs() []checkSpec {
 				static := basis == "static"
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, z, static) }, []templates.Rule{rz, rb}, nil
 			}},
-		{id: "drum-ratio", needs: []string{"drum_diameter", "rope_diameter"}, nullsRating: true,
+		{id: "drum-ratio", needs: []string{"drum_diameter", "rope_diameter"}, uses: []string{"duty_group"}, nullsRating: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				h1, r, err := ruleOf(d, "drum.h1")
 				if err != nil {
@@ -391,7 +391,7 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumRatio(h, h1) }, []templates.Rule{r}, nil
 			}},
-		{id: "sheave-ratio", needs: []string{"sheave_diameter", "rope_diameter"}, nullsRating: true,
+		{id: "sheave-ratio", needs: []string{"sheave_diameter", "rope_diameter"}, uses: []string{"duty_group"}, nullsRating: true,
 			applicable: func(d *hoistData) (bool, string) {
 				if d.h.Parts <= d.h.RopeEnds && d.h.DeflectionSheaves == 0 && d.missing["sheave_diameter"] {
 					return false, "no running sheaves (single part per rope end, no deflection sheaves)"
@@ -615,6 +615,12 @@ func (c *Checker) Check(a *Asset) *Result {
 		prepared[i] = c.prepare(d, s)
 	}
 	r.Evaluation = c.evaluate(d, d.h, prepared, true)
+	if hs := r.Check("hoist-speed"); hs != nil && hs.Status == StatusFail {
+		if vc := figure(hs.Figures, "calculated_speed_m_s"); !math.IsNaN(vc) {
+			d.messages = append(d.messages, fmt.Sprintf("the declared hoist speed %.3g m/min disagrees with the drive's %.3g m/min (motor speed, gear ratio, drum, reeving): motor-power, brake-stop and runaway use the declared speed, so check the register before trusting them",
+				d.h.HoistSpeedMS*60, vc*60))
+		}
+	}
 	r.Rating = c.rating(d, prepared, r.Checks)
 
 	proposed := math.NaN()
@@ -698,6 +704,15 @@ func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
 	p.rule = strings.Join(rs, "; ")
 	p.source = strings.Join(ss, "; ")
 	return p
+}
+
+func figure(fs []calc.Figure, name string) float64 {
+	for _, f := range fs {
+		if f.Name == name {
+			return f.Value
+		}
+	}
+	return math.NaN()
 }
 
 func columnHeader(key string) string {

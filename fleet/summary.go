@@ -1,8 +1,10 @@
 package fleet
 
 import (
+	"fmt"
 	"math"
 	"sort"
+	"strings"
 )
 
 // Summary is the fleet-level picture, accumulated one result at a time so that a
@@ -73,7 +75,14 @@ type Brief struct {
 	Reason         string  // for Flags and Overdue: what is wrong, in words
 	Days           float64 // for Overdue: days overdue
 	NewStatus      Status  // for Changed: status at the proposed load
+	// Mechanical is true when the hoist's status comes from an engineering check (rope,
+	// drum, motor, brake, gearbox, life, wear) rather than only from records or data
+	// consistency (inspection-due, load-test, hoist-speed); the worst list puts these first.
+	Mechanical bool
 }
+
+// recordChecks are checks about records and data consistency, not the mechanism itself.
+var recordChecks = map[string]bool{"inspection-due": true, "load-test": true, "hoist-speed": true}
 
 // NewSummary returns an empty summary keeping topN hoists in each list.
 func NewSummary(topN int) *Summary {
@@ -139,6 +148,9 @@ func (s *Summary) Add(r *Result) {
 	for _, m := range r.Messages {
 		s.ProblemCount++
 		if len(s.Problems) < s.TopN {
+			if r.Asset.ID == "" || !strings.Contains(m, "asset "+r.Asset.ID) {
+				m = fmt.Sprintf("row %d, asset %s: %s", r.Asset.Row, r.Asset.ID, m)
+			}
 			s.Problems = append(s.Problems, m)
 		}
 	}
@@ -154,6 +166,12 @@ func (s *Summary) Add(r *Result) {
 	}
 	s.MarginBins[bin]++
 	if r.Status != StatusPass {
+		for _, c := range r.Checks {
+			if c.Status == r.Status && !recordChecks[c.ID] {
+				b.Mechanical = true
+				break
+			}
+		}
 		s.Worst = insertTop(s.Worst, b, s.TopN, worse)
 	}
 	if r.Proposed != nil {
@@ -169,10 +187,15 @@ func (s *Summary) Add(r *Result) {
 	}
 }
 
-// worse orders hoists for the worst list: higher status first, then smaller margin.
+// worse orders hoists for the worst list: higher status first, then those whose status
+// comes from the mechanism before those whose status comes only from records, then smaller
+// margin.
 func worse(x, y Brief) bool {
 	if x.Status != y.Status {
 		return x.Status.Worse(y.Status)
+	}
+	if x.Mechanical != y.Mechanical {
+		return x.Mechanical
 	}
 	mx, my := x.MinMargin, y.MinMargin
 	if math.IsNaN(mx) {

@@ -209,7 +209,7 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 		p.bullets(r.Messages)
 	}
 
-	p.heading(2, fmt.Sprintf("2. Checks at the rated load %s", kg(r.RatedLoadKg)))
+	p.heading(2, fmt.Sprintf("2. Checks at the rated load %s%s", kg(r.RatedLoadKg), inRegisterUnit(r.RatedLoadKg, h)))
 	for i := range r.Checks {
 		p.check(i+1, &r.Checks[i])
 	}
@@ -217,7 +217,7 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 	p.heading(2, "3. Verdict and rating")
 	p.line("Overall status: %s. Smallest margin: %s (%s).", r.Status, pct(r.MinMargin), orDash(r.WorstCheck))
 	if !math.IsNaN(r.MaxRatedLoadKg) {
-		p.line("Maximum permissible rated load on the data given: %s, governed by %s.", kg(r.MaxRatedLoadKg), r.GoverningCheck)
+		p.line("Maximum permissible rated load on the data given: %s%s, governed by %s.", kg(r.MaxRatedLoadKg), inRegisterUnit(r.MaxRatedLoadKg, h), r.GoverningCheck)
 	} else {
 		p.line("Maximum permissible rated load: not given.")
 	}
@@ -275,6 +275,11 @@ func (p *printer) check(n int, c *fleet.CheckResult) {
 				unit = " " + s.Unit
 			}
 			lhs := s.Symbol + " = " + s.Formula
+			if math.IsNaN(s.Value) && s.Numbers != "" {
+				// A step whose result is not a number (a date) carries it in Numbers.
+				p.line("  %s\n      = %s", lhs, s.Numbers)
+				continue
+			}
 			if s.Numbers != "" && s.Numbers != s.Formula {
 				lhs += "\n      = " + s.Numbers
 			}
@@ -318,6 +323,17 @@ func (p *printer) caution() {
 		return
 	}
 	p.line("CAUTION: %s\n", fleet.Caution)
+}
+
+// inRegisterUnit is " (2.5 t)": a mass in the unit of the register's rated-load column,
+// or "" when that unit is kg or unknown.
+func inRegisterUnit(kgValue float64, h *fleet.Header) string {
+	for _, c := range h.Columns {
+		if c.Key == "rated_load" && c.Unit != "" && c.Unit != "kg" && c.Factor > 0 {
+			return " (" + Num(kgValue/c.Factor) + " " + c.Unit + ")"
+		}
+	}
+	return ""
 }
 
 func userRules(info *fleet.RunInfo) string {
