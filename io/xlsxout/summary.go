@@ -146,8 +146,10 @@ func (w *Writer) top(list []fleet.Brief) []fleet.Brief {
 func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	sw := &sheetWriter{f: w.f, sheet: SheetSummary}
 	st := w.st
-	sw.width(1, 1, 24)
-	sw.width(2, 5, 13)
+	sw.width(1, 1, 30) // site names in the by-site table
+	sw.width(2, 2, 11)
+	sw.width(3, 3, 30) // site names in the hoist lists
+	sw.width(4, 5, 13)
 	sw.width(6, 8, 19)
 	sw.width(9, 9, 3)
 	sw.printWide()
@@ -260,7 +262,6 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 			Fill: solid(Palette[fleet.StatusInfo].Chart)}},
 		Legend:    excelize.ChartLegend{Position: "none"},
 		Dimension: excelize.ChartDimension{Width: 560, Height: 260}, YAxis: excelize.ChartAxis{MajorGridLines: true}})
-	sw.str(3, first, "no margin (unchecked, error) counts in the last bin", st.subtitle)
 	r++
 
 	// Governing checks.
