@@ -32,6 +32,11 @@ const StandardGravity = 9.80665
 type Hoist struct {
 	G float64 // acceleration of gravity [m/s²]
 
+	// SkipRecord asks the checks not to build Outcome.Steps, the calculation record: the
+	// numbers are the same, only the text is not made. Root-finding and bulk runs set it;
+	// the calculation record (explain) leaves it false.
+	SkipRecord bool
+
 	RatedLoadKg       float64 // m_L, rated load on the hook [kg]
 	HookBlockKg       float64 // m_H, reeved bottom block and hook [kg]
 	Parts             int     // n, parts of line carrying the hook block
