@@ -332,6 +332,9 @@ type checkSpec struct {
 	// noBand: pass up to utilisation 1, no marginal band (a load test at exactly the
 	// required test load covers the rating).
 	noBand bool
+	// rule and source describe the limit of a check that has no rule-table row (the limit
+	// is the register's own rating of the component).
+	rule, source string
 	// applicable reports whether the check applies at all (false → info "not applicable").
 	applicable func(d *hoistData) (bool, string)
 	// prepare looks up rules and returns the function to evaluate at any hoist state,
@@ -429,15 +432,15 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, []templates.Rule{r1, r2}, nil
 			}},
-		{id: "motor-torque", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), uses: driveUses, loadDependent: true, linear: true,
+		{id: "motor-torque", rule: "steady hoisting torque ≤ rated motor torque M_r = P / ω_m", source: "motor rating from the register; statics of the drive train (textbook)", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), uses: driveUses, loadDependent: true, linear: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.MotorTorque, nil, nil
 			}},
-		{id: "motor-power", needs: join(loadNeeds, []string{"hoist_speed", "motor_power"}), uses: driveUses, loadDependent: true, linear: true,
+		{id: "motor-power", rule: "steady hoisting power ≤ rated motor power P", source: "motor rating from the register; P = m g v / η (textbook identity)", needs: join(loadNeeds, []string{"hoist_speed", "motor_power"}), uses: driveUses, loadDependent: true, linear: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.MotorPower, nil, nil
 			}},
-		{id: "hoist-speed", needs: []string{"motor_speed", "drum_diameter", "gear_ratio", "hoist_speed"}, uses: []string{"parts_of_line", "rope_ends"},
+		{id: "hoist-speed", nullsRating: true, needs: []string{"motor_speed", "drum_diameter", "gear_ratio", "hoist_speed"}, uses: []string{"parts_of_line", "rope_ends"},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				tol, r, err := ruleOf(d, "hoist_speed.tolerance")
 				if err != nil {
@@ -445,11 +448,11 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, tol) }, []templates.Rule{r}, nil
 			}},
-		{id: "motor-accel-torque", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), uses: driveUses, loadDependent: true,
+		{id: "motor-accel-torque", rule: "accelerating torque ≤ peak motor torque p M_r", source: "Newton's second law for load, drum and rotor; peak torque ratio from the register or the rule default", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), uses: driveUses, loadDependent: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.MotorAccelTorque, nil, nil
 			}},
-		{id: "gearbox-torque", needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), uses: brakeUses, loadDependent: true,
+		{id: "gearbox-torque", rule: "largest drum-shaft torque ≤ gearbox rated output torque", source: "gear unit rating from the register; Newton's second law", needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), uses: brakeUses, loadDependent: true,
 			applicable: func(d *hoistData) (bool, string) {
 				if d.missing["gearbox_rated_torque"] {
 					return false, "no gearbox rated torque in the register"
@@ -486,11 +489,11 @@ func checkSpecs() []checkSpec {
 				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, lim) }, rules, nil
 			}},
-		{id: "runaway", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), uses: driveUses,
+		{id: "runaway", rule: "information: no limit", source: "Newton's second law (brake released, motor unpowered)", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), uses: driveUses,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.Runaway, nil, nil
 			}},
-		{id: "shaft-load", needs: join(loadNeeds, []string{"drum_mass"}), uses: reevingUses,
+		{id: "shaft-load", rule: "information: no limit", source: "statics: drum weight plus rope pull", needs: join(loadNeeds, []string{"drum_mass"}), uses: reevingUses,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
 				return calc.ShaftLoad, nil, nil
 			}},
@@ -703,6 +706,12 @@ func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
 	}
 	p.rule = strings.Join(rs, "; ")
 	p.source = strings.Join(ss, "; ")
+	if p.rule == "" {
+		p.rule, p.source = s.rule, s.source
+	}
+	if s.id == "brake-stop" && len(rules) == 0 {
+		p.rule, p.source = "information: no stopping-distance limit in the rules in force; fails only when the brakes cannot stop the load", "Newton's second law (emergency stop while lowering)"
+	}
 	return p
 }
 
@@ -752,13 +761,36 @@ func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck,
 		counts := !p.spec.noBand || cr.Status == StatusFail
 		if counts && (cr.Status == StatusPass || cr.Status == StatusMarginal || cr.Status == StatusFail) {
 			if !math.IsNaN(cr.Margin) && (math.IsNaN(e.MinMargin) || cr.Margin < e.MinMargin) {
-				e.MinMargin, e.WorstCheck = cr.Margin, cr.ID
-			} else if math.IsNaN(cr.Margin) && cr.Status == StatusFail && e.WorstCheck == "" {
-				e.WorstCheck = cr.ID
+				e.MinMargin = cr.Margin
 			}
 		}
 	}
+	e.WorstCheck = worstCheck(e.Checks)
 	return e
+}
+
+// worstCheck names the check behind the hoist's verdict: among the pass / marginal / fail
+// checks of the worst status, the one with the smallest margin (a fleet angle below its
+// minimum is marginal with a large margin, so the status comes first). A failing check
+// without a margin (brakes that cannot stop) counts as the smallest.
+func worstCheck(checks []CheckResult) string {
+	worst, best, bestMargin := StatusPass, "", math.Inf(1)
+	for _, c := range checks {
+		if c.Status != StatusPass && c.Status != StatusMarginal && c.Status != StatusFail {
+			continue
+		}
+		if c.ID == "load-test" && c.Status != StatusFail {
+			continue // judged without the band: a pass at margin 0 is not a near miss
+		}
+		m := c.Margin
+		if math.IsNaN(m) {
+			m = math.Inf(-1)
+		}
+		if c.Status.Worse(worst) || (c.Status == worst && (best == "" || m < bestMargin)) {
+			worst, best, bestMargin = c.Status, c.ID, m
+		}
+	}
+	return best
 }
 
 func (c *Checker) calcError(d *hoistData, op string, err error) *Error {

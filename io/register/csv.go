@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"strings"
 	"unicode/utf8"
 
 	"golang.org/x/text/encoding/charmap"
@@ -31,8 +32,9 @@ const peekSize = 64 << 10
 // (encoding/csv, LazyQuotes off): a record that breaks it is still returned, with the
 // fields read before the fault and the rest Bad.
 //
-// Row numbers are line numbers: the header is normally row 1, and a record is numbered
-// by the line it starts on (blank lines count, as a spreadsheet shows them).
+// Row numbers are spreadsheet rows, as a spreadsheet program opening the file shows them:
+// the header is row 1, each record is one row (a quoted field may span several lines),
+// and blank lines between records count as empty rows.
 func NewCSV(r io.Reader, name string) (*Reader, error) {
 	file := displayName(name)
 	text, sep, err := csvStream(r)
@@ -57,7 +59,7 @@ func NewCSV(r io.Reader, name string) (*Reader, error) {
 	if err := rd.buildHeader(file, titles, line); err != nil {
 		return nil, fileError(file, err)
 	}
-	rd.src = &csvSource{r: cr, n: len(titles)}
+	rd.src = &csvSource{r: cr, n: len(titles), row: 1, lastLine: recordEndLine(cr, rec)}
 	return rd, nil
 }
 
@@ -174,8 +176,20 @@ func (e *csvSyntaxError) message() string {
 
 // csvSource yields the records after the header.
 type csvSource struct {
-	r *csv.Reader
-	n int // fields in the header
+	r        *csv.Reader
+	n        int // fields in the header
+	row      int // spreadsheet row of the last record returned
+	lastLine int // file line on which the last record ended
+}
+
+// recordEndLine is the file line on which the record just read ends: the line its last
+// field starts on, plus the line breaks inside that (quoted) field.
+func recordEndLine(r *csv.Reader, rec []string) int {
+	if len(rec) == 0 {
+		return 0
+	}
+	line, _ := r.FieldPos(len(rec) - 1)
+	return line + strings.Count(rec[len(rec)-1], "\n")
 }
 
 func (s *csvSource) next() (rawRow, error) {
@@ -189,12 +203,19 @@ func (s *csvSource) next() (rawRow, error) {
 	}
 	cells := decodeFields(append(make([]string, 0, max(len(rec), s.n)), rec...))
 	rr := rawRow{cells: cells, short: true}
+	var start, end int
 	if pe != nil {
 		rr.syntax = &csvSyntaxError{pe}
-		rr.row = pe.StartLine
+		start, end = pe.StartLine, pe.Line
 	} else {
-		rr.row, _ = s.r.FieldPos(0)
+		start, _ = s.r.FieldPos(0)
+		end = recordEndLine(s.r, rec)
 	}
+	// Blank lines between records (encoding/csv skips them) are empty spreadsheet rows.
+	blanks := max(start-s.lastLine-1, 0)
+	s.row += 1 + blanks
+	s.lastLine = end
+	rr.row = s.row
 	return rr, nil
 }
 
