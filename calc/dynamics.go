@@ -192,35 +192,41 @@ func Runaway(h Hoist) (Outcome, error) {
 		return Outcome{}, fmt.Errorf("calc.Runaway: %w", &RangeError{Field: "lift_height", Msg: fmt.Sprintf("lift height must be ≥ 0 (got %g m)", h.LiftHeightM)})
 	}
 
+	rec := !h.SkipRecord
 	out := Outcome{
 		Demand: math.NaN(), Capacity: math.NaN(), Utilisation: math.NaN(),
 		Unit: "m/s2", Verdict: Info,
 	}
-	lossTxt := fmt.Sprintf("η_RD = %s, η_gb = %s", dynNum(t.etaRD), dynNum(t.etaGB))
-	out.Steps = append(out.Steps,
-		Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"},
-		Step{Symbol: "η_l", Formula: "η_RD η_gb", Numbers: dynNum(t.etaRD) + " × " + dynNum(t.etaGB), Value: t.etaL, Unit: "1"},
-	)
+	if rec {
+		out.Steps = append(out.Steps,
+			Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"},
+			Step{Symbol: "η_l", Formula: "η_RD η_gb", Numbers: dynNum(t.etaRD) + " × " + dynNum(t.etaGB), Value: t.etaL, Unit: "1"},
+		)
+	}
 
 	best := 0
 	accels := make([]float64, len(t.radii))
 	for k, r := range t.radii {
-		tag := " (" + t.radiusName(k) + ")"
 		accels[k] = t.runawayAccel(r)
 		if t.selfLocking() {
-			out.Steps = append(out.Steps, Step{Symbol: "a_ff" + tag, Formula: "0: self-locking (η_gb ≤ 0)",
-				Numbers: "η_gb = " + dynNum(t.etaGB) + " ≤ 0", Value: 0, Unit: "m/s2"})
+			if rec {
+				out.Steps = append(out.Steps, Step{Symbol: "a_ff (" + t.radiusName(k) + ")", Formula: "0: self-locking (η_gb ≤ 0)",
+					Numbers: "η_gb = " + dynNum(t.etaGB) + " ≤ 0", Value: 0, Unit: "m/s2"})
+			}
 			continue
 		}
-		meq := t.runawayMass(r)
-		out.Steps = append(out.Steps,
-			Step{Symbol: "m_eq" + tag, Formula: "m + (n_e/r)² (I_d/η_RD + i² J_m/η_l)",
-				Numbers: fmt.Sprintf("%s + (%s/%s)² (%s/%s + %s² × %s/%s)", dynNum(t.m), dynNum(t.ne), dynNum(r),
-					dynNum(t.id), dynNum(t.etaRD), dynNum(t.i), dynNum(t.jm), dynNum(t.etaL)),
-				Value: meq, Unit: "kg"},
-			Step{Symbol: "a_ff" + tag, Formula: "m g / m_eq",
-				Numbers: fmt.Sprintf("%s × %s / %s", dynNum(t.m), dynNum(t.g), dynNum(meq)), Value: accels[k], Unit: "m/s2"},
-		)
+		if rec {
+			tag := " (" + t.radiusName(k) + ")"
+			meq := t.runawayMass(r)
+			out.Steps = append(out.Steps,
+				Step{Symbol: "m_eq" + tag, Formula: "m + (n_e/r)² (I_d/η_RD + i² J_m/η_l)",
+					Numbers: fmt.Sprintf("%s + (%s/%s)² (%s/%s + %s² × %s/%s)", dynNum(t.m), dynNum(t.ne), dynNum(r),
+						dynNum(t.id), dynNum(t.etaRD), dynNum(t.i), dynNum(t.jm), dynNum(t.etaL)),
+					Value: meq, Unit: "kg"},
+				Step{Symbol: "a_ff" + tag, Formula: "m g / m_eq",
+					Numbers: fmt.Sprintf("%s × %s / %s", dynNum(t.m), dynNum(t.g), dynNum(meq)), Value: accels[k], Unit: "m/s2"},
+			)
+		}
 		if accels[k] > accels[best] {
 			best = k
 		}
@@ -242,12 +248,14 @@ func Runaway(h Hoist) (Outcome, error) {
 		fallV = math.Sqrt(2 * a * H)
 		fallE = 0.5 * t.m * fallV * fallV
 	}
-	out.Steps = append(out.Steps,
-		Step{Symbol: "α_d", Formula: "a_ff n_e / r", Numbers: fmt.Sprintf("%s × %s / %s", dynNum(a), dynNum(t.ne), dynNum(r)), Value: alpha, Unit: "rad/s2"},
-		Step{Symbol: "T", Formula: "m (g − a_ff) / n", Numbers: fmt.Sprintf("%s × (%s − %s) / %s", dynNum(t.m), dynNum(t.g), dynNum(a), dynNum(t.n)), Value: tension, Unit: "N"},
-		Step{Symbol: "t_v", Formula: "v / a_ff (v = rated hoisting speed)", Numbers: fmt.Sprintf("%s / %s", dynNum(v), dynNum(a)), Value: timeV, Unit: "s"},
-	)
-	if H > 0 {
+	if rec {
+		out.Steps = append(out.Steps,
+			Step{Symbol: "α_d", Formula: "a_ff n_e / r", Numbers: fmt.Sprintf("%s × %s / %s", dynNum(a), dynNum(t.ne), dynNum(r)), Value: alpha, Unit: "rad/s2"},
+			Step{Symbol: "T", Formula: "m (g − a_ff) / n", Numbers: fmt.Sprintf("%s × (%s − %s) / %s", dynNum(t.m), dynNum(t.g), dynNum(a), dynNum(t.n)), Value: tension, Unit: "N"},
+			Step{Symbol: "t_v", Formula: "v / a_ff (v = rated hoisting speed)", Numbers: fmt.Sprintf("%s / %s", dynNum(v), dynNum(a)), Value: timeV, Unit: "s"},
+		)
+	}
+	if rec && H > 0 {
 		out.Steps = append(out.Steps,
 			Step{Symbol: "v_H", Formula: "√(2 a_ff H)", Numbers: fmt.Sprintf("√(2 × %s × %s)", dynNum(a), dynNum(H)), Value: fallV, Unit: "m/s"},
 			Step{Symbol: "E_H", Formula: "½ m v_H²", Numbers: fmt.Sprintf("0.5 × %s × %s²", dynNum(t.m), dynNum(fallV)), Value: fallE, Unit: "J"},
@@ -266,6 +274,7 @@ func Runaway(h Hoist) (Outcome, error) {
 	case t.selfLocking():
 		out.Note = fmt.Sprintf("self-locking gear train (η_gb = %s ≤ 0): the load cannot drive the train, no runaway", dynNum(t.etaGB))
 	default:
+		lossTxt := fmt.Sprintf("η_RD = %s, η_gb = %s", dynNum(t.etaRD), dynNum(t.etaGB))
 		out.Note = fmt.Sprintf("runaway evaluated at the %s (larger acceleration); %s; time to reach the rated hoisting speed", t.radiusWords(best), lossTxt)
 	}
 	if H <= 0 {
@@ -365,15 +374,18 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 	}
 	lock := t.selfLocking()
 
+	rec := !h.SkipRecord
 	out := Outcome{Capacity: limit, Unit: "m"}
 	brakeWhere := "motor-shaft"
 	if h.BrakeOnDrum {
 		brakeWhere = "drum"
 	}
-	out.Steps = append(out.Steps,
-		Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"},
-		Step{Symbol: "v", Formula: "rated lowering speed (hoisting speed where none is given)", Numbers: dynNum(v), Value: v, Unit: "m/s"},
-	)
+	if rec {
+		out.Steps = append(out.Steps,
+			Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"},
+			Step{Symbol: "v", Formula: "rated lowering speed (hoisting speed where none is given)", Numbers: dynNum(v), Value: v, Unit: "m/s"},
+		)
+	}
 	// bound is the train used for the braking phase: a self-locking train is bounded by
 	// a lossless back-driving gearbox (see the doc comment).
 	bt := t
@@ -381,7 +393,7 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 		bt.etaGB = 1
 		bt.etaL = bt.etaRD
 	}
-	if !h.BrakeOnDrum {
+	if rec && !h.BrakeOnDrum {
 		if lock {
 			out.Steps = append(out.Steps, Step{Symbol: "η_l(η_gb=1)", Formula: "η_RD (bound: lossless back-driving)", Numbers: dynNum(bt.etaRD), Value: bt.etaL, Unit: "1"})
 		} else {
@@ -391,13 +403,17 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 
 	res := make([]dynStopAt, len(t.radii))
 	for k, r := range t.radii {
-		tag := " (" + t.radiusName(k) + ")"
+		tag := ""
+		if rec {
+			tag = " (" + t.radiusName(k) + ")"
+		}
 		x := dynStopAt{r: r}
 		kk := t.ne / r
 		x.aff = t.runawayAccel(r)
-		if lock {
+		switch {
+		case rec && lock:
 			out.Steps = append(out.Steps, Step{Symbol: "a_ff" + tag, Formula: "0: self-locking, no runaway", Numbers: "η_gb = " + dynNum(t.etaGB) + " ≤ 0", Value: 0, Unit: "m/s2"})
-		} else {
+		case rec:
 			out.Steps = append(out.Steps,
 				Step{Symbol: "m_eq" + tag, Formula: "m + (n_e/r)² (I_d/η_RD + i² J_m/η_l)",
 					Numbers: fmt.Sprintf("%s + (%s/%s)² (%s/%s + %s² × %s/%s)", dynNum(t.m), dynNum(t.ne), dynNum(r), dynNum(t.id), dynNum(t.etaRD), dynNum(t.i), dynNum(t.jm), dynNum(t.etaL)),
@@ -408,44 +424,53 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 			x.fb = nb * mb * kk
 			x.meq = t.m + kk*kk*(t.id+t.etaG*t.i*t.i*t.jm)/t.etaRD
 			x.ab = (x.fb/t.etaRD - t.m*t.g) / x.meq
-			out.Steps = append(out.Steps,
-				Step{Symbol: "F_b" + tag, Formula: "N_b M_b n_e / r", Numbers: fmt.Sprintf("%s × %s × %s / %s", dynNum(nb), dynNum(mb), dynNum(t.ne), dynNum(r)), Value: x.fb, Unit: "N"},
-				Step{Symbol: "m_eq,d" + tag, Formula: "m + (n_e/r)² (I_d + η_g i² J_m) / η_RD",
-					Numbers: fmt.Sprintf("%s + (%s/%s)² (%s + %s × %s² × %s) / %s", dynNum(t.m), dynNum(t.ne), dynNum(r), dynNum(t.id), dynNum(t.etaG), dynNum(t.i), dynNum(t.jm), dynNum(t.etaRD)),
-					Value:   x.meq, Unit: "kg"},
-				Step{Symbol: "a_b" + tag, Formula: "(F_b/η_RD − m g) / m_eq,d",
-					Numbers: fmt.Sprintf("(%s/%s − %s × %s) / %s", dynNum(x.fb), dynNum(t.etaRD), dynNum(t.m), dynNum(t.g), dynNum(x.meq)), Value: x.ab, Unit: "m/s2"})
+			if rec {
+				out.Steps = append(out.Steps,
+					Step{Symbol: "F_b" + tag, Formula: "N_b M_b n_e / r", Numbers: fmt.Sprintf("%s × %s × %s / %s", dynNum(nb), dynNum(mb), dynNum(t.ne), dynNum(r)), Value: x.fb, Unit: "N"},
+					Step{Symbol: "m_eq,d" + tag, Formula: "m + (n_e/r)² (I_d + η_g i² J_m) / η_RD",
+						Numbers: fmt.Sprintf("%s + (%s/%s)² (%s + %s × %s² × %s) / %s", dynNum(t.m), dynNum(t.ne), dynNum(r), dynNum(t.id), dynNum(t.etaG), dynNum(t.i), dynNum(t.jm), dynNum(t.etaRD)),
+						Value:   x.meq, Unit: "kg"},
+					Step{Symbol: "a_b" + tag, Formula: "(F_b/η_RD − m g) / m_eq,d",
+						Numbers: fmt.Sprintf("(%s/%s − %s × %s) / %s", dynNum(x.fb), dynNum(t.etaRD), dynNum(t.m), dynNum(t.g), dynNum(x.meq)), Value: x.ab, Unit: "m/s2"})
+			}
 		} else {
 			x.fb = nb * mb * t.i * kk
 			x.meq = bt.runawayMass(r)
 			x.ab = (x.fb/bt.etaL - t.m*t.g) / x.meq
-			meqName, etaLName := "m_eq", "η_l"
-			if lock {
-				meqName, etaLName = "m_eq(η_gb=1)", "η_l(η_gb=1)"
-				out.Steps = append(out.Steps, Step{Symbol: meqName + tag, Formula: "m + (n_e/r)² (I_d + i² J_m)/η_RD  (bound: lossless back-driving)",
-					Numbers: fmt.Sprintf("%s + (%s/%s)² (%s + %s² × %s)/%s", dynNum(t.m), dynNum(t.ne), dynNum(r), dynNum(t.id), dynNum(t.i), dynNum(t.jm), dynNum(t.etaRD)), Value: x.meq, Unit: "kg"})
+			if rec {
+				meqName, etaLName := "m_eq", "η_l"
+				if lock {
+					meqName, etaLName = "m_eq(η_gb=1)", "η_l(η_gb=1)"
+					out.Steps = append(out.Steps, Step{Symbol: meqName + tag, Formula: "m + (n_e/r)² (I_d + i² J_m)/η_RD  (bound: lossless back-driving)",
+						Numbers: fmt.Sprintf("%s + (%s/%s)² (%s + %s² × %s)/%s", dynNum(t.m), dynNum(t.ne), dynNum(r), dynNum(t.id), dynNum(t.i), dynNum(t.jm), dynNum(t.etaRD)), Value: x.meq, Unit: "kg"})
+				}
+				out.Steps = append(out.Steps,
+					Step{Symbol: "F_b" + tag, Formula: "N_b M_b i n_e / r", Numbers: fmt.Sprintf("%s × %s × %s × %s / %s", dynNum(nb), dynNum(mb), dynNum(t.i), dynNum(t.ne), dynNum(r)), Value: x.fb, Unit: "N"},
+					Step{Symbol: "a_b" + tag, Formula: "(F_b/" + etaLName + " − m g) / " + meqName,
+						Numbers: fmt.Sprintf("(%s/%s − %s × %s) / %s", dynNum(x.fb), dynNum(bt.etaL), dynNum(t.m), dynNum(t.g), dynNum(x.meq)), Value: x.ab, Unit: "m/s2"})
 			}
-			out.Steps = append(out.Steps,
-				Step{Symbol: "F_b" + tag, Formula: "N_b M_b i n_e / r", Numbers: fmt.Sprintf("%s × %s × %s × %s / %s", dynNum(nb), dynNum(mb), dynNum(t.i), dynNum(t.ne), dynNum(r)), Value: x.fb, Unit: "N"},
-				Step{Symbol: "a_b" + tag, Formula: "(F_b/" + etaLName + " − m g) / " + meqName,
-					Numbers: fmt.Sprintf("(%s/%s − %s × %s) / %s", dynNum(x.fb), dynNum(bt.etaL), dynNum(t.m), dynNum(t.g), dynNum(x.meq)), Value: x.ab, Unit: "m/s2"})
 		}
 		x.v1 = v + x.aff*ts
 		x.s1 = v*ts + 0.5*x.aff*ts*ts
-		out.Steps = append(out.Steps,
-			Step{Symbol: "v_1" + tag, Formula: "v + a_ff t_s", Numbers: fmt.Sprintf("%s + %s × %s", dynNum(v), dynNum(x.aff), dynNum(ts)), Value: x.v1, Unit: "m/s"},
-			Step{Symbol: "s_1" + tag, Formula: "v t_s + ½ a_ff t_s²", Numbers: fmt.Sprintf("%s × %s + 0.5 × %s × %s²", dynNum(v), dynNum(ts), dynNum(x.aff), dynNum(ts)), Value: x.s1, Unit: "m"})
+		if rec {
+			out.Steps = append(out.Steps,
+				Step{Symbol: "v_1" + tag, Formula: "v + a_ff t_s", Numbers: fmt.Sprintf("%s + %s × %s", dynNum(v), dynNum(x.aff), dynNum(ts)), Value: x.v1, Unit: "m/s"},
+				Step{Symbol: "s_1" + tag, Formula: "v t_s + ½ a_ff t_s²", Numbers: fmt.Sprintf("%s × %s + 0.5 × %s × %s²", dynNum(v), dynNum(ts), dynNum(x.aff), dynNum(ts)), Value: x.s1, Unit: "m"})
+		}
 		x.canStop = x.ab > 0
 		x.s2, x.s, x.time = math.NaN(), math.NaN(), math.NaN()
 		if x.canStop {
 			x.s2 = x.v1 * x.v1 / (2 * x.ab)
 			x.s = x.s1 + x.s2
 			x.time = ts + x.v1/x.ab
+		}
+		switch {
+		case rec && x.canStop:
 			out.Steps = append(out.Steps,
 				Step{Symbol: "s_2" + tag, Formula: "v_1² / (2 a_b)", Numbers: fmt.Sprintf("%s² / (2 × %s)", dynNum(x.v1), dynNum(x.ab)), Value: x.s2, Unit: "m"},
 				Step{Symbol: "s" + tag, Formula: "s_1 + s_2", Numbers: dynNum(x.s1) + " + " + dynNum(x.s2), Value: x.s, Unit: "m"},
 				Step{Symbol: "t" + tag, Formula: "t_s + v_1 / a_b", Numbers: fmt.Sprintf("%s + %s / %s", dynNum(ts), dynNum(x.v1), dynNum(x.ab)), Value: x.time, Unit: "s"})
-		} else {
+		case rec:
 			out.Steps = append(out.Steps, Step{Symbol: "s" + tag, Formula: "none: a_b ≤ 0, the brakes cannot decelerate the load", Numbers: "a_b = " + dynNum(x.ab) + " ≤ 0", Value: math.NaN(), Unit: "m"})
 		}
 		x.peakT = t.m * (t.g + x.ab) / (t.n * t.etaR)
@@ -468,11 +493,13 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 		}
 	}
 	g := res[best]
-	tag := " (" + t.radiusName(best) + ")"
-	out.Steps = append(out.Steps, Step{Symbol: "T_peak" + tag, Formula: "m (g + a_b) / (n η_R)",
-		Numbers: fmt.Sprintf("%s × (%s + %s) / (%s × %s)", dynNum(t.m), dynNum(t.g), dynNum(g.ab), dynNum(t.n), dynNum(t.etaR)), Value: g.peakT, Unit: "N"})
-	if h.RopeMBFN > 0 {
-		out.Steps = append(out.Steps, Step{Symbol: "Z_peak" + tag, Formula: "MBF / T_peak", Numbers: dynNum(h.RopeMBFN) + " / " + dynNum(g.peakT), Value: g.dfc, Unit: "1"})
+	if rec {
+		tag := " (" + t.radiusName(best) + ")"
+		out.Steps = append(out.Steps, Step{Symbol: "T_peak" + tag, Formula: "m (g + a_b) / (n η_R)",
+			Numbers: fmt.Sprintf("%s × (%s + %s) / (%s × %s)", dynNum(t.m), dynNum(t.g), dynNum(g.ab), dynNum(t.n), dynNum(t.etaR)), Value: g.peakT, Unit: "N"})
+		if h.RopeMBFN > 0 {
+			out.Steps = append(out.Steps, Step{Symbol: "Z_peak" + tag, Formula: "MBF / T_peak", Numbers: dynNum(h.RopeMBFN) + " / " + dynNum(g.peakT), Value: g.dfc, Unit: "1"})
+		}
 	}
 	out.Demand = g.s
 	out.Utilisation = g.s / limit

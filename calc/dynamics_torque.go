@@ -54,16 +54,18 @@ func MotorAccelTorque(h Hoist) (Outcome, error) {
 	mr := h.MotorRatedTorqueNm()
 	peak := h.PeakTorqueRatio * mr
 
+	rec := !h.SkipRecord
 	out := Outcome{Unit: "N m", Verdict: ByUtilisation}
-	out.Steps = append(out.Steps,
-		Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"},
-		Step{Symbol: "η_RD", Formula: "η_R η_s^k", Numbers: dynNum(t.etaR) + " × " + dynNum(t.etaRD/t.etaR), Value: t.etaRD, Unit: "1"},
-	)
+	if rec {
+		out.Steps = append(out.Steps,
+			Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"},
+			Step{Symbol: "η_RD", Formula: "η_R η_s^k", Numbers: dynNum(t.etaR) + " × " + dynNum(t.etaRD/t.etaR), Value: t.etaRD, Unit: "1"},
+		)
+	}
 	type at struct{ alpha, tl, td, tr, total float64 }
 	res := make([]at, len(t.radii))
 	best := 0
 	for k, r := range t.radii {
-		tag := " (" + t.radiusName(k) + ")"
 		x := at{}
 		x.alpha = a * t.ne / r
 		x.tl = t.e * t.m * (t.g + a) * r / (t.n * t.etaRD) / (t.i * t.etaG)
@@ -71,24 +73,29 @@ func MotorAccelTorque(h Hoist) (Outcome, error) {
 		x.tr = t.jm * t.i * x.alpha
 		x.total = x.tl + x.td + x.tr
 		res[k] = x
-		out.Steps = append(out.Steps,
-			Step{Symbol: "α_d" + tag, Formula: "a n_e / r", Numbers: fmt.Sprintf("%s × %s / %s", dynNum(a), dynNum(t.ne), dynNum(r)), Value: x.alpha, Unit: "rad/s2"},
-			Step{Symbol: "T_L" + tag, Formula: "e m (g + a) r / (n η_RD) / (i η_g)",
-				Numbers: fmt.Sprintf("%s × %s × (%s + %s) × %s / (%s × %s) / (%s × %s)", dynNum(t.e), dynNum(t.m), dynNum(t.g), dynNum(a), dynNum(r), dynNum(t.n), dynNum(t.etaRD), dynNum(t.i), dynNum(t.etaG)),
-				Value:   x.tl, Unit: "N m"},
-			Step{Symbol: "T_D" + tag, Formula: "I_d α_d / (i η_g)", Numbers: fmt.Sprintf("%s × %s / (%s × %s)", dynNum(t.id), dynNum(x.alpha), dynNum(t.i), dynNum(t.etaG)), Value: x.td, Unit: "N m"},
-			Step{Symbol: "T_R" + tag, Formula: "J_m i α_d", Numbers: fmt.Sprintf("%s × %s × %s", dynNum(t.jm), dynNum(t.i), dynNum(x.alpha)), Value: x.tr, Unit: "N m"},
-			Step{Symbol: "T" + tag, Formula: "T_L + T_D + T_R", Numbers: fmt.Sprintf("%s + %s + %s", dynNum(x.tl), dynNum(x.td), dynNum(x.tr)), Value: x.total, Unit: "N m"},
-		)
+		if rec {
+			tag := " (" + t.radiusName(k) + ")"
+			out.Steps = append(out.Steps,
+				Step{Symbol: "α_d" + tag, Formula: "a n_e / r", Numbers: fmt.Sprintf("%s × %s / %s", dynNum(a), dynNum(t.ne), dynNum(r)), Value: x.alpha, Unit: "rad/s2"},
+				Step{Symbol: "T_L" + tag, Formula: "e m (g + a) r / (n η_RD) / (i η_g)",
+					Numbers: fmt.Sprintf("%s × %s × (%s + %s) × %s / (%s × %s) / (%s × %s)", dynNum(t.e), dynNum(t.m), dynNum(t.g), dynNum(a), dynNum(r), dynNum(t.n), dynNum(t.etaRD), dynNum(t.i), dynNum(t.etaG)),
+					Value:   x.tl, Unit: "N m"},
+				Step{Symbol: "T_D" + tag, Formula: "I_d α_d / (i η_g)", Numbers: fmt.Sprintf("%s × %s / (%s × %s)", dynNum(t.id), dynNum(x.alpha), dynNum(t.i), dynNum(t.etaG)), Value: x.td, Unit: "N m"},
+				Step{Symbol: "T_R" + tag, Formula: "J_m i α_d", Numbers: fmt.Sprintf("%s × %s × %s", dynNum(t.jm), dynNum(t.i), dynNum(x.alpha)), Value: x.tr, Unit: "N m"},
+				Step{Symbol: "T" + tag, Formula: "T_L + T_D + T_R", Numbers: fmt.Sprintf("%s + %s + %s", dynNum(x.tl), dynNum(x.td), dynNum(x.tr)), Value: x.total, Unit: "N m"},
+			)
+		}
 		if x.total > res[best].total {
 			best = k
 		}
 	}
-	out.Steps = append(out.Steps,
-		Step{Symbol: "ω_m", Formula: "2π N / 60", Numbers: fmt.Sprintf("2π × %s / 60", dynNum(h.MotorSpeedRPM)), Value: wm, Unit: "rad/s"},
-		Step{Symbol: "M_r", Formula: "P / ω_m", Numbers: dynNum(h.MotorPowerW) + " / " + dynNum(wm), Value: mr, Unit: "N m"},
-		Step{Symbol: "M_peak", Formula: "p M_r", Numbers: dynNum(h.PeakTorqueRatio) + " × " + dynNum(mr), Value: peak, Unit: "N m"},
-	)
+	if rec {
+		out.Steps = append(out.Steps,
+			Step{Symbol: "ω_m", Formula: "2π N / 60", Numbers: fmt.Sprintf("2π × %s / 60", dynNum(h.MotorSpeedRPM)), Value: wm, Unit: "rad/s"},
+			Step{Symbol: "M_r", Formula: "P / ω_m", Numbers: dynNum(h.MotorPowerW) + " / " + dynNum(wm), Value: mr, Unit: "N m"},
+			Step{Symbol: "M_peak", Formula: "p M_r", Numbers: dynNum(h.PeakTorqueRatio) + " × " + dynNum(mr), Value: peak, Unit: "N m"},
+		)
+	}
 	g := res[best]
 	out.Demand = g.total
 	out.Capacity = peak
@@ -160,16 +167,20 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 	a := h.AccelMS2
 	nb := float64(h.Brakes)
 	mb := h.BrakeTorqueNm
+	rec := !h.SkipRecord
 	out := Outcome{Unit: "N m", Verdict: ByUtilisation, Capacity: h.GearboxRatedTorqueNm}
-	out.Steps = append(out.Steps, Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"})
+	if rec {
+		out.Steps = append(out.Steps, Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"})
+	}
 
 	acc, accK := math.Inf(-1), 0
 	for k, r := range t.radii {
-		tag := " (" + t.radiusName(k) + ")"
 		v := t.e*t.m*(t.g+a)*r/(t.n*t.etaRD) + t.id*a*t.ne/r
-		out.Steps = append(out.Steps, Step{Symbol: "T_acc" + tag, Formula: "e m (g + a) r / (n η_RD) + I_d a n_e / r",
-			Numbers: fmt.Sprintf("%s × %s × (%s + %s) × %s / (%s × %s) + %s × %s × %s / %s", dynNum(t.e), dynNum(t.m), dynNum(t.g), dynNum(a), dynNum(r), dynNum(t.n), dynNum(t.etaRD), dynNum(t.id), dynNum(a), dynNum(t.ne), dynNum(r)),
-			Value:   v, Unit: "N m"})
+		if rec {
+			out.Steps = append(out.Steps, Step{Symbol: "T_acc (" + t.radiusName(k) + ")", Formula: "e m (g + a) r / (n η_RD) + I_d a n_e / r",
+				Numbers: fmt.Sprintf("%s × %s × (%s + %s) × %s / (%s × %s) + %s × %s × %s / %s", dynNum(t.e), dynNum(t.m), dynNum(t.g), dynNum(a), dynNum(r), dynNum(t.n), dynNum(t.etaRD), dynNum(t.id), dynNum(a), dynNum(t.ne), dynNum(r)),
+				Value:   v, Unit: "N m"})
+		}
 		if v > acc {
 			acc, accK = v, k
 		}
@@ -180,26 +191,37 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 	switch {
 	case !h.BrakeOnDrum && t.selfLocking():
 		stopWhy = fmt.Sprintf("self-locking gear train (η_gb = %s): the stop torque depends on the train's elasticity and is not computed", dynNum(t.etaGB))
-		out.Steps = append(out.Steps, Step{Symbol: "T_stop", Formula: "not computed: self-locking gear locks on power loss", Numbers: "η_gb = " + dynNum(t.etaGB) + " ≤ 0", Value: math.NaN(), Unit: "N m"})
+		if rec {
+			out.Steps = append(out.Steps, Step{Symbol: "T_stop", Formula: "not computed: self-locking gear locks on power loss", Numbers: "η_gb = " + dynNum(t.etaGB) + " ≤ 0", Value: math.NaN(), Unit: "N m"})
+		}
 	case !h.BrakeOnDrum:
 		stop = nb * mb * t.i / t.etaGB
-		out.Steps = append(out.Steps, Step{Symbol: "T_stop", Formula: "N_b M_b i / η_gb (motor-shaft brake, upper bound)",
-			Numbers: fmt.Sprintf("%s × %s × %s / %s", dynNum(nb), dynNum(mb), dynNum(t.i), dynNum(t.etaGB)), Value: stop, Unit: "N m"})
+		if rec {
+			out.Steps = append(out.Steps, Step{Symbol: "T_stop", Formula: "N_b M_b i / η_gb (motor-shaft brake, upper bound)",
+				Numbers: fmt.Sprintf("%s × %s × %s / %s", dynNum(nb), dynNum(mb), dynNum(t.i), dynNum(t.etaGB)), Value: stop, Unit: "N m"})
+		}
 	default:
 		for k, r := range t.radii {
-			tag := " (" + t.radiusName(k) + ")"
+			tag := ""
+			if rec {
+				tag = " (" + t.radiusName(k) + ")"
+			}
 			kk := t.ne / r
 			fb := nb * mb * kk
 			meq := t.m + kk*kk*(t.id+t.etaG*t.i*t.i*t.jm)/t.etaRD
 			ab := (fb/t.etaRD - t.m*t.g) / meq
-			out.Steps = append(out.Steps, Step{Symbol: "a_b" + tag, Formula: "(N_b M_b n_e / r / η_RD − m g) / (m + (n_e/r)² (I_d + η_g i² J_m)/η_RD)",
-				Numbers: fmt.Sprintf("(%s × %s × %s / %s / %s − %s × %s) / %s", dynNum(nb), dynNum(mb), dynNum(t.ne), dynNum(r), dynNum(t.etaRD), dynNum(t.m), dynNum(t.g), dynNum(meq)), Value: ab, Unit: "m/s2"})
+			if rec {
+				out.Steps = append(out.Steps, Step{Symbol: "a_b" + tag, Formula: "(N_b M_b n_e / r / η_RD − m g) / (m + (n_e/r)² (I_d + η_g i² J_m)/η_RD)",
+					Numbers: fmt.Sprintf("(%s × %s × %s / %s / %s − %s × %s) / %s", dynNum(nb), dynNum(mb), dynNum(t.ne), dynNum(r), dynNum(t.etaRD), dynNum(t.m), dynNum(t.g), dynNum(meq)), Value: ab, Unit: "m/s2"})
+			}
 			if !(ab > 0) {
 				continue
 			}
 			v := t.etaG * t.i * t.i * t.jm * ab * kk
-			out.Steps = append(out.Steps, Step{Symbol: "T_stop" + tag, Formula: "η_g i² J_m a_b n_e / r (drum brake: rotor deceleration torque)",
-				Numbers: fmt.Sprintf("%s × %s² × %s × %s × %s / %s", dynNum(t.etaG), dynNum(t.i), dynNum(t.jm), dynNum(ab), dynNum(t.ne), dynNum(r)), Value: v, Unit: "N m"})
+			if rec {
+				out.Steps = append(out.Steps, Step{Symbol: "T_stop" + tag, Formula: "η_g i² J_m a_b n_e / r (drum brake: rotor deceleration torque)",
+					Numbers: fmt.Sprintf("%s × %s² × %s × %s × %s / %s", dynNum(t.etaG), dynNum(t.i), dynNum(t.jm), dynNum(ab), dynNum(t.ne), dynNum(r)), Value: v, Unit: "N m"})
+			}
 			if stopK < 0 || v > stop {
 				stop, stopK = v, k
 			}
@@ -270,12 +292,14 @@ func ShaftLoad(h Hoist) (Outcome, error) {
 	pull := e * f
 	gd := h.DrumMassKg * h.G
 	out := Outcome{Demand: math.NaN(), Capacity: math.NaN(), Utilisation: math.NaN(), Unit: "N", Verdict: Info}
-	out.Steps = []Step{
-		{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: m, Unit: "kg"},
-		{Symbol: "F", Formula: "m g / (n η_RD)", Numbers: fmt.Sprintf("%s × %s / (%s × %s)", dynNum(m), dynNum(h.G), dynNum(n), dynNum(etaRD)), Value: f, Unit: "N"},
-		{Symbol: "F_rope", Formula: "e F", Numbers: dynNum(e) + " × " + dynNum(f), Value: pull, Unit: "N"},
-		{Symbol: "G_d", Formula: "m_d g", Numbers: dynNum(h.DrumMassKg) + " × " + dynNum(h.G), Value: gd, Unit: "N"},
-		{Symbol: "F_shaft", Formula: "G_d + e F (colinear: upper bound)", Numbers: dynNum(gd) + " + " + dynNum(pull), Value: gd + pull, Unit: "N"},
+	if !h.SkipRecord {
+		out.Steps = []Step{
+			{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: m, Unit: "kg"},
+			{Symbol: "F", Formula: "m g / (n η_RD)", Numbers: fmt.Sprintf("%s × %s / (%s × %s)", dynNum(m), dynNum(h.G), dynNum(n), dynNum(etaRD)), Value: f, Unit: "N"},
+			{Symbol: "F_rope", Formula: "e F", Numbers: dynNum(e) + " × " + dynNum(f), Value: pull, Unit: "N"},
+			{Symbol: "G_d", Formula: "m_d g", Numbers: dynNum(h.DrumMassKg) + " × " + dynNum(h.G), Value: gd, Unit: "N"},
+			{Symbol: "F_shaft", Formula: "G_d + e F (colinear: upper bound)", Numbers: dynNum(gd) + " + " + dynNum(pull), Value: gd + pull, Unit: "N"},
+		}
 	}
 	out.Figures = []Figure{
 		{Name: "drum_weight_n", Value: gd, Unit: "N"},

@@ -84,8 +84,7 @@ func recHoists() map[string]calc.Hoist {
 	worm := calc.Hoist{
 		G: calc.StandardGravity, RatedLoadKg: 2000, HookBlockKg: 40, Parts: 1, RopeEnds: 1, SheaveEff: 1,
 		RopeDiameterM: 0.012,
-		DrumDiameterM: 0.250, Layers: 3, FleetAngleDeg: 1.5,
-		DrumInertiaKgM2: 1.5,
+		DrumDiameterM: 0.250, Layers: 3, FleetAngleDeg: 1.5, DrumInertiaKgM2: 1.5,
 		GearRatio: 50, GearEff: 0.6, GearBackEff: -0.2, GearboxRatedTorqueNm: 3000,
 		MotorPowerW: 7500, MotorSpeedRPM: 1440, PeakTorqueRatio: 2, MotorInertiaKgM2: 0.03,
 		BrakeTorqueNm: 40, Brakes: 2, BrakeDelayS: 0.15,

@@ -52,17 +52,14 @@ func RopeDesignFactor(h Hoist, zRequired float64, staticBasis bool) (Outcome, er
 	if err := stRule("required design factor", zRequired); err != nil {
 		return Outcome{}, err
 	}
+	rec := !h.SkipRecord
 	f, etaR, etaD, steps := stTension(h)
 	w := h.WeightN()
 	n := float64(h.Parts)
 	static := w / n
-	steps = append(steps, stStep("F_0", "W / n", "%s / %s", static, "N", w, n))
 	fz := f
 	if staticBasis {
 		fz = static
-		steps = append(steps, stStep("F_Z", "F_0 (static basis, no efficiency)", "%s", fz, "N", static))
-	} else {
-		steps = append(steps, stStep("F_Z", "F (hoisting tension, ISO 4308-1 basis)", "%s", fz, "N", f))
 	}
 	mbf := h.RopeMBFN
 	z := math.Inf(1)
@@ -70,10 +67,18 @@ func RopeDesignFactor(h Hoist, zRequired float64, staticBasis bool) (Outcome, er
 		z = mbf / fz
 	}
 	u := zRequired * fz / mbf
-	steps = append(steps,
-		stStep("Z_act", "MBF / F_Z", "%s / %s", z, "1", mbf, fz),
-		stStep("u", "Z F_Z / MBF", "%s × %s / %s", u, "1", zRequired, fz, mbf),
-	)
+	if rec {
+		steps = append(steps, stStep("F_0", "W / n", "%s / %s", static, "N", w, n))
+		if staticBasis {
+			steps = append(steps, stStep("F_Z", "F_0 (static basis, no efficiency)", "%s", fz, "N", static))
+		} else {
+			steps = append(steps, stStep("F_Z", "F (hoisting tension, ISO 4308-1 basis)", "%s", fz, "N", f))
+		}
+		steps = append(steps,
+			stStep("Z_act", "MBF / F_Z", "%s / %s", z, "1", mbf, fz),
+			stStep("u", "Z F_Z / MBF", "%s × %s / %s", u, "1", zRequired, fz, mbf),
+		)
+	}
 	o := Outcome{
 		Demand:      zRequired,
 		Capacity:    z,

@@ -52,7 +52,7 @@ func stDiameterRatio(h Hoist, required, dia float64, field, what, sym, reqSym, f
 	}
 	ratio := dia / h.RopeDiameterM
 	u := required / ratio
-	return Outcome{
+	o := Outcome{
 		Demand:      required,
 		Capacity:    ratio,
 		Unit:        "1",
@@ -62,11 +62,14 @@ func stDiameterRatio(h Hoist, required, dia float64, field, what, sym, reqSym, f
 			{Name: figure, Value: ratio, Unit: "1"},
 			{Name: "required_ratio", Value: required, Unit: "1"},
 		},
-		Steps: []Step{
+	}
+	if !h.SkipRecord {
+		o.Steps = []Step{
 			stStep(sym+"/d", sym+" / d", "%s / %s", ratio, "1", dia, h.RopeDiameterM),
 			stStep("u", reqSym+" / ("+sym+"/d)", "%s / %s", u, "1", required, ratio),
-		},
-	}, nil
+		}
+	}
+	return o, nil
 }
 
 // DrumCapacity checks that the rope wound per rope end fits the drum's grooves and
@@ -113,6 +116,7 @@ func DrumCapacity(h Hoist, minDeadWraps float64) (Outcome, error) {
 		return Outcome{}, &RangeError{Field: "", Msg: fmt.Sprintf("rule value minimum dead wraps must be zero or more (got %s): check the rule table", stGot(minDeadWraps))}
 	}
 
+	rec := !h.SkipRecord
 	ne := h.PartsPerEnd()
 	d := h.DrumDiameterM
 	g := h.Grooves
@@ -121,13 +125,16 @@ func DrumCapacity(h Hoist, minDeadWraps float64) (Outcome, error) {
 	dead := minDeadWraps * turn1
 	demand := lift + dead
 
-	steps := []Step{
-		stStep("n_e", "n / e", "%s / %s", ne, "1", float64(h.Parts), float64(h.RopeEnds)),
-		stStep("πD", "π D", "π × %s", turn1, "m", d),
-		stStep("L_lift", "H n_e", "%s × %s", lift, "m", h.LiftHeightM, ne),
-		stStep("L_dead", "w_min π D", "%s × %s", dead, "m", minDeadWraps, turn1),
-		stStep("L_req", "H n_e + w_min π D", "%s + %s", demand, "m", lift, dead),
-		stStep("C_1", "G π D", "%s × %s", g*turn1, "m", g, turn1),
+	var steps []Step
+	if rec {
+		steps = []Step{
+			stStep("n_e", "n / e", "%s / %s", ne, "1", float64(h.Parts), float64(h.RopeEnds)),
+			stStep("πD", "π D", "π × %s", turn1, "m", d),
+			stStep("L_lift", "H n_e", "%s × %s", lift, "m", h.LiftHeightM, ne),
+			stStep("L_dead", "w_min π D", "%s × %s", dead, "m", minDeadWraps, turn1),
+			stStep("L_req", "H n_e + w_min π D", "%s + %s", demand, "m", lift, dead),
+			stStep("C_1", "G π D", "%s × %s", g*turn1, "m", g, turn1),
+		}
 	}
 	capacity := g * turn1
 	layerCap := []float64{g * turn1}
@@ -138,16 +145,20 @@ func DrumCapacity(h Hoist, minDeadWraps float64) (Outcome, error) {
 		capacity += cj
 		layerCap = append(layerCap, cj)
 		layerDia = append(layerDia, dj)
-		steps = append(steps,
-			stStep(fmt.Sprintf("D_%d", j), "D + (j − 1) √3 d", "%s + (%s − 1) × 1.73205 × %s", dj, "m", d, float64(j), h.RopeDiameterM),
-			stStep(fmt.Sprintf("C_%d", j), "G π D_j", "%s × π × %s", cj, "m", g, dj),
-		)
+		if rec {
+			steps = append(steps,
+				stStep(fmt.Sprintf("D_%d", j), "D + (j − 1) √3 d", "%s + (%s − 1) × 1.73205 × %s", dj, "m", d, float64(j), h.RopeDiameterM),
+				stStep(fmt.Sprintf("C_%d", j), "G π D_j", "%s × π × %s", cj, "m", g, dj),
+			)
+		}
 	}
-	if h.Layers > 1 {
+	if rec && h.Layers > 1 {
 		steps = append(steps, Step{Symbol: "C", Formula: "Σ C_j", Numbers: stSumText(layerCap), Value: capacity, Unit: "m"})
 	}
 	u := demand / capacity
-	steps = append(steps, stStep("u", "L_req / C", "%s / %s", u, "1", demand, capacity))
+	if rec {
+		steps = append(steps, stStep("u", "L_req / C", "%s / %s", u, "1", demand, capacity))
+	}
 
 	// Turns left at the lowest hook: the length the drum can still hold, laid from the
 	// first layer outwards.
@@ -166,13 +177,15 @@ func DrumCapacity(h Hoist, minDeadWraps float64) (Outcome, error) {
 			rem -= cj
 		}
 	}
-	steps = append(steps, Step{
-		Symbol:  "w_left",
-		Formula: "(C − H n_e) in turns, first layer first",
-		Numbers: fmt.Sprintf("(%s − %s) m laid from layer 1", stNum(capacity), stNum(lift)),
-		Value:   wraps,
-		Unit:    "turns",
-	})
+	if rec {
+		steps = append(steps, Step{
+			Symbol:  "w_left",
+			Formula: "(C − H n_e) in turns, first layer first",
+			Numbers: fmt.Sprintf("(%s − %s) m laid from layer 1", stNum(capacity), stNum(lift)),
+			Value:   wraps,
+			Unit:    "turns",
+		})
+	}
 
 	note := ""
 	needed, ok := stLayersNeeded(demand, g, d, h.RopeDiameterM)
@@ -264,10 +277,6 @@ func FleetAngle(h Hoist, maxDeg, minDeg float64) (Outcome, error) {
 	}
 	theta := h.FleetAngleDeg
 	u := theta / maxDeg
-	drum := "plain"
-	if h.Grooved {
-		drum = "grooved"
-	}
 	o := Outcome{
 		Demand:      theta,
 		Capacity:    maxDeg,
@@ -279,10 +288,16 @@ func FleetAngle(h Hoist, maxDeg, minDeg float64) (Outcome, error) {
 			{Name: "max_fleet_angle_deg", Value: maxDeg, Unit: "deg"},
 			{Name: "min_fleet_angle_deg", Value: minDeg, Unit: "deg"},
 		},
-		Steps: []Step{
+	}
+	if !h.SkipRecord {
+		drum := "plain"
+		if h.Grooved {
+			drum = "grooved"
+		}
+		o.Steps = []Step{
 			{Symbol: "θ_max", Formula: "limit for a " + drum + " drum (rules)", Numbers: stNum(maxDeg), Value: maxDeg, Unit: "deg"},
 			stStep("u", "θ / θ_max", "%s / %s", u, "1", theta, maxDeg),
-		},
+		}
 	}
 	if theta < minDeg {
 		o.Verdict = Marginal
@@ -315,6 +330,7 @@ func MotorTorque(h Hoist) (Outcome, error) {
 	if err := stCheckMotor(h); err != nil {
 		return Outcome{}, err
 	}
+	rec := !h.SkipRecord
 	f, etaR, _, steps := stTension(h)
 	steps = append(steps, stRadiusSteps(h)...)
 	e := float64(h.RopeEnds)
@@ -324,22 +340,26 @@ func MotorTorque(h Hoist) (Outcome, error) {
 		lbl := stRadiusLabel(k)
 		md := e * f * r
 		mm := md / (i * etaG)
-		steps = append(steps,
-			stStep("M_d("+lbl+")", "e F "+lbl, "%s × %s × %s", md, "N m", e, f, r),
-			stStep("M("+lbl+")", "M_d("+lbl+") / (i η_g)", "%s / (%s × %s)", mm, "N m", md, i, etaG),
-		)
+		if rec {
+			steps = append(steps,
+				stStep("M_d("+lbl+")", "e F "+lbl, "%s × %s × %s", md, "N m", e, f, r),
+				stStep("M("+lbl+")", "M_d("+lbl+") / (i η_g)", "%s / (%s × %s)", mm, "N m", md, i, etaG),
+			)
+		}
 		if mm > best {
 			best, bestIdx, bestR = mm, k, r
 		}
 	}
 	omega := h.MotorAngularSpeed()
 	mr := h.MotorRatedTorqueNm()
-	steps = append(steps,
-		stStep("ω_m", "2π N / 60", "2π × %s / 60", omega, "rad/s", h.MotorSpeedRPM),
-		stStep("M_r", "P / ω_m", "%s / %s", mr, "N m", h.MotorPowerW, omega),
-	)
 	u := best / mr
-	steps = append(steps, stStep("u", "M / M_r", "%s / %s", u, "1", best, mr))
+	if rec {
+		steps = append(steps,
+			stStep("ω_m", "2π N / 60", "2π × %s / 60", omega, "rad/s", h.MotorSpeedRPM),
+			stStep("M_r", "P / ω_m", "%s / %s", mr, "N m", h.MotorPowerW, omega),
+			stStep("u", "M / M_r", "%s / %s", u, "1", best, mr),
+		)
+	}
 	o := Outcome{
 		Demand:      best,
 		Capacity:    mr,
@@ -407,29 +427,37 @@ func MotorPower(h Hoist) (Outcome, error) {
 	v := h.HoistSpeedMS
 	etaRD := h.RopeSystemEff()
 	etaH := etaRD * h.GearEff
-	steps := []Step{
-		stStep("m", "m_L + m_H", "%s + %s", h.MassKg(), "kg", h.RatedLoadKg, h.HookBlockKg),
-		stStep("W", "m g", "%s × %s", w, "N", h.MassKg(), h.G),
-		stStep("η_RD", "η_R η_s^k", "%s × %s^%s", etaRD, "1", h.ReevingEff(), h.SheaveEff, float64(h.DeflectionSheaves)),
-		stStep("η_h", "η_RD η_g", "%s × %s", etaH, "1", etaRD, h.GearEff),
+	rec := !h.SkipRecord
+	var steps []Step
+	if rec {
+		steps = []Step{
+			stStep("m", "m_L + m_H", "%s + %s", h.MassKg(), "kg", h.RatedLoadKg, h.HookBlockKg),
+			stStep("W", "m g", "%s × %s", w, "N", h.MassKg(), h.G),
+			stStep("η_RD", "η_R η_s^k", "%s × %s^%s", etaRD, "1", h.ReevingEff(), h.SheaveEff, float64(h.DeflectionSheaves)),
+			stStep("η_h", "η_RD η_g", "%s × %s", etaH, "1", etaRD, h.GearEff),
+		}
+		steps = append(steps, stRadiusSteps(h)...)
 	}
-	steps = append(steps, stRadiusSteps(h)...)
 	r1 := h.FirstLayerRadiusM()
 	best, bestIdx, bestV := -1.0, 0, 0.0
 	for k, r := range h.Radii() {
 		lbl := stRadiusLabel(k)
 		vr := v * r / r1
 		p := w * vr / etaH
-		if k > 0 {
+		if rec && k > 0 {
 			steps = append(steps, stStep("v("+lbl+")", "v "+lbl+" / r_1", "%s × %s / %s", vr, "m/s", v, r, r1))
 		}
-		steps = append(steps, stStep("P("+lbl+")", "W v ("+lbl+"/r_1) / η_h", "%s × %s / %s", p, "W", w, vr, etaH))
+		if rec {
+			steps = append(steps, stStep("P("+lbl+")", "W v ("+lbl+"/r_1) / η_h", "%s × %s / %s", p, "W", w, vr, etaH))
+		}
 		if p > best {
 			best, bestIdx, bestV = p, k, vr
 		}
 	}
 	u := best / h.MotorPowerW
-	steps = append(steps, stStep("u", "P_req / P", "%s / %s", u, "1", best, h.MotorPowerW))
+	if rec {
+		steps = append(steps, stStep("u", "P_req / P", "%s / %s", u, "1", best, h.MotorPowerW))
+	}
 	o := Outcome{
 		Demand:      best,
 		Capacity:    h.MotorPowerW,
@@ -503,14 +531,16 @@ func HoistSpeed(h Hoist, tolerance float64) (Outcome, error) {
 			{Name: "declared_speed_m_s", Value: v, Unit: "m/s"},
 			{Name: "speed_deviation", Value: dev, Unit: "1"},
 		},
-		Steps: []Step{
+	}
+	if !h.SkipRecord {
+		o.Steps = []Step{
 			stStep("ω_m", "2π N / 60", "2π × %s / 60", omega, "rad/s", h.MotorSpeedRPM),
 			stStep("r_1", "D / 2", "%s / 2", r1, "m", h.DrumDiameterM),
 			stStep("n_e", "n / e", "%s / %s", ne, "1", float64(h.Parts), float64(h.RopeEnds)),
 			stStep("v_calc", "ω_m r_1 / (i n_e)", "%s × %s / (%s × %s)", vc, "m/s", omega, r1, h.GearRatio, ne),
 			stStep("Δ", "|v_calc − v| / v", "|%s − %s| / %s", demand, "1", vc, v, v),
 			stStep("u", "Δ / tolerance", "%s / %s", u, "1", demand, tolerance),
-		},
+		}
 	}
 	if h.Layers > 1 {
 		o.Note = "speeds are compared on the first layer"
@@ -565,6 +595,7 @@ func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
 		return Outcome{}, err
 	}
 
+	rec := !h.SkipRecord
 	f, _, _, steps := stTension(h)
 	steps = append(steps, stRadiusSteps(h)...)
 	e := float64(h.RopeEnds)
@@ -573,10 +604,13 @@ func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
 		lbl := stRadiusLabel(k)
 		md := e * f * r
 		mh := md
-		if h.BrakeOnDrum {
-			steps = append(steps, stStep("M_h("+lbl+")", "e F "+lbl, "%s × %s × %s", md, "N m", e, f, r))
-		} else {
+		if !h.BrakeOnDrum {
 			mh = md / (h.GearRatio * h.GearEff)
+		}
+		switch {
+		case rec && h.BrakeOnDrum:
+			steps = append(steps, stStep("M_h("+lbl+")", "e F "+lbl, "%s × %s × %s", md, "N m", e, f, r))
+		case rec:
 			steps = append(steps,
 				stStep("M_d("+lbl+")", "e F "+lbl, "%s × %s × %s", md, "N m", e, f, r),
 				stStep("M_h("+lbl+")", "M_d("+lbl+") / (i η_g)", "%s / (%s × %s)", mh, "N m", md, h.GearRatio, h.GearEff),
@@ -587,16 +621,20 @@ func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
 		}
 	}
 	demand := factor * best
-	steps = append(steps, stStep("M_req", "f_b M_h", "%s × %s", demand, "N m", factor, best))
 	capacity := float64(h.Brakes) * h.BrakeTorqueNm
 	if each {
 		capacity = h.BrakeTorqueNm
-		steps = append(steps, stStep("M_cap", "M_b (each brake alone)", "%s", capacity, "N m", h.BrakeTorqueNm))
-	} else {
-		steps = append(steps, stStep("M_cap", "N_b M_b", "%s × %s", capacity, "N m", float64(h.Brakes), h.BrakeTorqueNm))
 	}
 	u := demand / capacity
-	steps = append(steps, stStep("u", "M_req / M_cap", "%s / %s", u, "1", demand, capacity))
+	if rec {
+		steps = append(steps, stStep("M_req", "f_b M_h", "%s × %s", demand, "N m", factor, best))
+		if each {
+			steps = append(steps, stStep("M_cap", "M_b (each brake alone)", "%s", capacity, "N m", h.BrakeTorqueNm))
+		} else {
+			steps = append(steps, stStep("M_cap", "N_b M_b", "%s × %s", capacity, "N m", float64(h.Brakes), h.BrakeTorqueNm))
+		}
+		steps = append(steps, stStep("u", "M_req / M_cap", "%s / %s", u, "1", demand, capacity))
+	}
 
 	where := "motor shaft"
 	if h.BrakeOnDrum {

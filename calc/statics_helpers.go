@@ -157,8 +157,8 @@ func stRule(what string, x float64) error {
 }
 
 // stTension computes the hoisting tension at the drum per rope end,
-// F = W / (n η_R η_D), with the steps that lead to it. h must have passed
-// stCheckLoad and CheckReeving.
+// F = W / (n η_R η_D), with the steps that lead to it (nil when h.SkipRecord). h must
+// have passed stCheckLoad and CheckReeving.
 func stTension(h Hoist) (f float64, etaR, etaD float64, steps []Step) {
 	m := h.MassKg()
 	w := h.WeightN()
@@ -169,6 +169,9 @@ func stTension(h Hoist) (f float64, etaR, etaD float64, steps []Step) {
 	etaRD := etaR * etaD
 	n := float64(h.Parts)
 	f = w / (n * etaRD)
+	if h.SkipRecord {
+		return f, etaR, etaD, nil
+	}
 
 	steps = append(steps,
 		stStep("m", "m_L + m_H", "%s + %s", m, "kg", h.RatedLoadKg, h.HookBlockKg),
@@ -198,8 +201,12 @@ func stRadiusLabel(i int) string {
 	return "r_L"
 }
 
-// stRadiusSteps returns the steps that give r_1 and, with more than one layer, r_L.
+// stRadiusSteps returns the steps that give r_1 and, with more than one layer, r_L
+// (nil when h.SkipRecord).
 func stRadiusSteps(h Hoist) []Step {
+	if h.SkipRecord {
+		return nil
+	}
 	steps := []Step{stStep("r_1", "D / 2", "%s / 2", h.FirstLayerRadiusM(), "m", h.DrumDiameterM)}
 	if h.Layers > 1 {
 		steps = append(steps, stStep("r_L", "D/2 + (L − 1)(√3/2) d", "%s/2 + (%s − 1) × 0.866025 × %s",

@@ -97,6 +97,11 @@ func parseAsOf(s string) (time.Time, error) {
 }
 
 func (c *checkConfig) checker() (*fleet.Checker, *templates.Table, string, time.Time, error) {
+	return c.checkerRecord(false)
+}
+
+// checkerRecord builds the checker; record keeps the calculation record (explain).
+func (c *checkConfig) checkerRecord(record bool) (*fleet.Checker, *templates.Table, string, time.Time, error) {
 	rules, userFiles, err := loadRules(c.rules)
 	if err != nil {
 		return nil, nil, "", time.Time{}, err
@@ -112,7 +117,7 @@ func (c *checkConfig) checker() (*fleet.Checker, *templates.Table, string, time.
 		return nil, nil, "", time.Time{}, usagef("--rated-load-factor %g: want a positive factor", c.ratedLoadFactor)
 	}
 	chk, err := fleet.NewChecker(fleet.Options{Rules: rules, MarginalBand: c.marginal, AsOf: asOf,
-		RatedLoadFactor: c.ratedLoadFactor, Workers: c.workers})
+		RatedLoadFactor: c.ratedLoadFactor, Workers: c.workers, Record: record})
 	if err != nil {
 		return nil, nil, "", time.Time{}, usagef("%v", err)
 	}

@@ -50,7 +50,7 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	if all && out == "" {
 		return usagef("explain --all needs -o DIR, the folder for the records")
 	}
-	chk, rules, userFiles, asOf, err := cfg.checker()
+	chk, rules, userFiles, asOf, err := cfg.checkerRecord(true)
 	if err != nil {
 		return err
 	}
