@@ -88,7 +88,8 @@ func Columns() []Column {
 
 // ColumnByKey returns the column with that key.
 func ColumnByKey(key string) (Column, bool) {
-	for _, c := range Columns() {
+	Columns() // loads the schema
+	for _, c := range schema {
 		if c.Key == key {
 			return c, true
 		}
