@@ -91,8 +91,8 @@ type hoistData struct {
 	// closedLimit is handed from a check's prepare to its preparedCheck: the limiting
 	// rated load in closed form, when the check has one.
 	closedLimit func(h calc.Hoist) float64
-	ruleErr  map[string]error // rule lookups that failed, by rule id
-	opts     *Options
+	ruleErr     map[string]error // rule lookups that failed, by rule id
+	opts        *Options
 }
 
 func (d *hoistData) num(key string) (float64, bool) {
@@ -660,11 +660,11 @@ type preparedCheck struct {
 	spec checkSpec
 	// closedLimit, when set, gives the check's limiting rated load in closed form.
 	closedLimit func(h calc.Hoist) float64
-	run     func(calc.Hoist) (calc.Outcome, error)
-	status  Status // StatusPass when runnable; otherwise the status to report
-	message string
-	rule    string
-	source  string
+	run         func(calc.Hoist) (calc.Outcome, error)
+	status      Status // StatusPass when runnable; otherwise the status to report
+	message     string
+	rule        string
+	source      string
 }
 
 func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
