@@ -82,6 +82,9 @@ type Writer struct {
 	nCols    int     // all Register columns
 	regRow   int     // last Register row written
 	chkRow   int     // last Checks row written
+	chkSheet string  // the Checks sheet being written: "Checks", then "Checks 2", … when full
+	chkN     int     // how many Checks sheets so far
+	maxRows  int     // rows a sheet may hold; 0: the spreadsheet limit (tests set less)
 	row      []any   // reused row buffer
 	done     bool
 	err      error
@@ -137,7 +140,8 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	if err := w.beginRegister(); err != nil {
 		return err
 	}
-	return w.beginChecks()
+	w.chkN = 1
+	return w.beginChecks(SheetChecks)
 }
 
 // ratedUnit returns the rated-load column's unit and the factor from kg to it
@@ -232,12 +236,13 @@ func (w *Writer) beginRegister() error {
 	return nil
 }
 
-func (w *Writer) beginChecks() error {
+func (w *Writer) beginChecks(sheet string) error {
 	f := w.f
-	if err := f.SetSheetDimension(SheetChecks, ""); err != nil {
+	w.chkSheet = sheet
+	if err := f.SetSheetDimension(sheet, ""); err != nil {
 		return w.fail("%w", err)
 	}
-	sw, err := f.NewStreamWriter(SheetChecks)
+	sw, err := f.NewStreamWriter(sheet)
 	if err != nil {
 		return w.fail("checks: %w", err)
 	}
@@ -276,6 +281,21 @@ func (w *Writer) Write(r *fleet.Result) error {
 	if v := r.Asset.Get("site"); v.State == fleet.OK {
 		site = v.Text
 	}
+	// A hoist's check rows stay on one sheet: when they would pass the spreadsheet's row
+	// limit (1 048 576), the long form continues on "Checks 2", "Checks 3", …
+	need := len(r.Checks)
+	if r.Proposed != nil {
+		need += len(r.Proposed.Checks)
+	}
+	limit := w.maxRows
+	if limit == 0 {
+		limit = excelize.TotalRows
+	}
+	if w.chkRow+need > limit {
+		if err := w.rollChecks(); err != nil {
+			return err
+		}
+	}
 	first := 0
 	if len(r.Checks) > 0 {
 		first = w.chkRow + 1
@@ -292,6 +312,31 @@ func (w *Writer) Write(r *fleet.Result) error {
 		}
 	}
 	return w.writeRegister(r, first)
+}
+
+// finishChecks sets the filter of the Checks sheet being written and flushes it.
+func (w *Writer) finishChecks() error {
+	lastCol, _ := excelize.ColumnNumberToName(len(ChecksColumns))
+	if err := w.f.AutoFilter(w.chkSheet, "A1:"+lastCol+strconv.Itoa(max(w.chkRow, 2)), nil); err != nil {
+		return w.fail("checks filter: %w", err)
+	}
+	if err := w.chk.Flush(); err != nil {
+		return w.fail("checks: %w", err)
+	}
+	return nil
+}
+
+// rollChecks closes the full Checks sheet and starts the next one.
+func (w *Writer) rollChecks() error {
+	if err := w.finishChecks(); err != nil {
+		return err
+	}
+	w.chkN++
+	name := SheetChecks + " " + strconv.Itoa(w.chkN)
+	if _, err := w.f.NewSheet(name); err != nil {
+		return w.fail("checks: %w", err)
+	}
+	return w.beginChecks(name)
 }
 
 func (w *Writer) writeChecks(r *fleet.Result, site, lc string, cs []fleet.CheckResult) error {
@@ -334,7 +379,7 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 	si := statusIndex(r.Status)
 	link := any(nil)
 	if firstCheck > 0 {
-		link = excelize.Cell{Formula: `HYPERLINK("#'` + SheetChecks + `'!A` + strconv.Itoa(firstCheck) + `","details")`,
+		link = excelize.Cell{Formula: `HYPERLINK("#'` + w.chkSheet + `'!A` + strconv.Itoa(firstCheck) + `","details")`,
 			Value: "details", StyleID: st.link}
 	}
 	w.row = append(w.row,
@@ -484,15 +529,16 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if err := f.AutoFilter(SheetRegister, "A1:"+lastCol+strconv.Itoa(max(w.regRow, 2)), nil); err != nil {
 		return w.fail("register filter: %w", err)
 	}
-	lastCol, _ = excelize.ColumnNumberToName(len(ChecksColumns))
-	if err := f.AutoFilter(SheetChecks, "A1:"+lastCol+strconv.Itoa(max(w.chkRow, 2)), nil); err != nil {
-		return w.fail("checks filter: %w", err)
-	}
 	if err := w.reg.Flush(); err != nil {
 		return w.fail("register: %w", err)
 	}
-	if err := w.chk.Flush(); err != nil {
-		return w.fail("checks: %w", err)
+	if err := w.finishChecks(); err != nil {
+		return err
+	}
+	for k := 2; k <= w.chkN; k++ { // continuation sheets go after the first, before Audit
+		if err := f.MoveSheet(SheetChecks+" "+strconv.Itoa(k), SheetAudit); err != nil {
+			return w.fail("checks: %w", err)
+		}
 	}
 	if err := w.writeSummary(s, info); err != nil {
 		return w.fail("summary: %w", err)
