@@ -127,7 +127,8 @@ func dynAccelInput(h Hoist) error {
 //	accelerating the load:  T_acc = e m (g + a) r / (n η_RD) + I_d a n_e / r
 //	emergency stop, motor-shaft brake: T_stop = N_b M_b i / η_gb
 //	emergency stop, drum brake:        T_stop = η_g i² J_m α_b,  α_b = a_b n_e / r,
-//	                                   a_b = (F_b/η_RD − m g)/m_eq,d as in BrakeStop
+//	                                   a_b = (F_b/η_RD − m_H g)/m_eq,d as in BrakeStop,
+//	                                   with the empty hook (m = m_H)
 //	Demand = max(T_acc, T_stop),  Capacity = gearbox rated output torque
 //
 // Symbols as in MotorAccelTorque and BrakeStop. Sources: Newton's second law for the load
@@ -140,7 +141,9 @@ func dynAccelInput(h Hoist) error {
 // this is an upper bound (design.md). Drum brake: the brake stops the drum directly and
 // the gearbox output carries only the torque that decelerates the rotor, passed forward
 // from the rotor to the drum: η_g i² J_m α_b, at the braking deceleration of BrakeStop
-// (its larger value over the radii). A drum brake that cannot stop the load (a_b ≤ 0 at
+// (its larger value over the radii) with the empty hook: the brake acts whatever the hook
+// carries, and the lighter the load the harder it stops and the more torque the rotor
+// puts through the gearbox, so the empty hook is the worst case. A drum brake that cannot stop the load (a_b ≤ 0 at
 // every radius: see brake-stop) gives no stop torque (NaN, said in the Note).
 //
 // Self-locking train (η_gb ≤ 0) with a motor-shaft brake: the gear locks on power loss
@@ -208,11 +211,15 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 			}
 			kk := t.ne / r
 			fb := nb * mb * kk
-			meq := t.m + kk*kk*(t.id+t.etaG*t.i*t.i*t.jm)/t.etaRD
-			ab := (fb/t.etaRD - t.m*t.g) / meq
+			mStop := h.HookBlockKg // the empty hook: the worst case for the gearbox (doc above)
+			meq := mStop + kk*kk*(t.id+t.etaG*t.i*t.i*t.jm)/t.etaRD
+			ab := 0.0
+			if meq > 0 {
+				ab = (fb/t.etaRD - mStop*t.g) / meq
+			}
 			if rec {
-				out.Steps = append(out.Steps, Step{Symbol: "a_b" + tag, Formula: "(N_b M_b n_e / r / η_RD − m g) / (m + (n_e/r)² (I_d + η_g i² J_m)/η_RD)",
-					Numbers: fmt.Sprintf("(%s × %s × %s / %s / %s − %s × %s) / %s", dynNum(nb), dynNum(mb), dynNum(t.ne), dynNum(r), dynNum(t.etaRD), dynNum(t.m), dynNum(t.g), dynNum(meq)), Value: ab, Unit: "m/s2"})
+				out.Steps = append(out.Steps, Step{Symbol: "a_b,0" + tag, Formula: "(N_b M_b n_e / r / η_RD − m_H g) / (m_H + (n_e/r)² (I_d + η_g i² J_m)/η_RD), empty hook",
+					Numbers: fmt.Sprintf("(%s × %s × %s / %s / %s − %s × %s) / %s", dynNum(nb), dynNum(mb), dynNum(t.ne), dynNum(r), dynNum(t.etaRD), dynNum(mStop), dynNum(t.g), dynNum(meq)), Value: ab, Unit: "m/s2"})
 			}
 			if !(ab > 0) {
 				continue

@@ -245,7 +245,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 				Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
 				Err:  fmt.Errorf("asset id %q is already used in row %d", a.ID, first)})
 		} else {
-			r.ids[a.ID] = rr.row
+			r.ids[strings.Clone(a.ID)] = rr.row // a clone: the id is a substring of the whole record, which the map would keep alive
 		}
 	}
 	return a
