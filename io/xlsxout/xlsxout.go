@@ -30,6 +30,8 @@
 package xlsxout
 
 import (
+	"archive/zip"
+	"compress/flate"
 	"fmt"
 	"io"
 	"math"
@@ -117,7 +119,9 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	if err := f.SetSheetName("Sheet1", SheetSummary); err != nil {
 		return w.fail("%w", err)
 	}
-	for _, s := range []string{SheetRegister, SheetChecks, SheetAudit} {
+	// Audit is created in End, after any continuation sheets of Checks: excelize cannot
+	// move sheets once streamed sheets have spilled to temporary files.
+	for _, s := range []string{SheetRegister, SheetChecks} {
 		if _, err := f.NewSheet(s); err != nil {
 			return w.fail("sheet %s: %w", s, err)
 		}
@@ -535,10 +539,8 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if err := w.finishChecks(); err != nil {
 		return err
 	}
-	for k := 2; k <= w.chkN; k++ { // continuation sheets go after the first, before Audit
-		if err := f.MoveSheet(SheetChecks+" "+strconv.Itoa(k), SheetAudit); err != nil {
-			return w.fail("checks: %w", err)
-		}
+	if _, err := f.NewSheet(SheetAudit); err != nil { // after every Checks sheet
+		return w.fail("sheet %s: %w", SheetAudit, err)
 	}
 	if err := w.writeSummary(s, info); err != nil {
 		return w.fail("summary: %w", err)
@@ -546,7 +548,16 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if err := w.writeAudit(info); err != nil {
 		return w.fail("audit: %w", err)
 	}
-	if err := f.Write(w.out); err != nil {
+	// excelize assembles the whole zip in a bytes.Buffer before writing it out, which for
+	// a register of a million hoists is gigabytes. A zip writer of our own, handed to
+	// excelize through SetZipWriter, writes every part straight to w.out instead (the
+	// buffer excelize passes is left empty), with the fastest deflate level.
+	zw := zip.NewWriter(w.out)
+	zw.RegisterCompressor(zip.Deflate, func(out io.Writer) (io.WriteCloser, error) {
+		return flate.NewWriter(out, flate.BestSpeed)
+	})
+	f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return zw })
+	if err := f.Write(io.Discard); err != nil {
 		return w.fail("write: %w", err)
 	}
 	if err := f.Close(); err != nil {
