@@ -571,11 +571,10 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []te
 	in := calc.WearInput{NominalM: d.h.RopeDiameterM, MeasuredM: meas, BrokenWires: -1,
 		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.opts.AsOf}
 	in.ReferenceM, _ = d.num("rope_reference_diameter")
-	if basis, r, err := d.ruleWord("rope_wear.basis"); err == nil && basis == "nominal" {
+	if basis, _, err := d.ruleWord("rope_wear.basis"); err == nil && basis == "nominal" {
 		// The profile measures the reduction from nominal (ASME B30.2), whatever
 		// reference diameter the register gives.
 		in.ReferenceM = 0
-		_ = r
 	}
 	if okb {
 		in.BrokenWires = int(bw)

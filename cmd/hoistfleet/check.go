@@ -318,9 +318,6 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 	if c.out == "" {
 		c.out = defaultOutput(c.register, c.format)
 	}
-	if c.out == "-" && c.format == "xlsx" && c.register == "-" {
-		// allowed: a workbook to stdout
-	}
 	if c.register != "-" && c.out != "-" && (sameFile(c.register, c.out) || filepath.Clean(c.register) == filepath.Clean(c.out)) {
 		return nil, usagef("the output %s is the register itself: hoistfleet never overwrites its input", c.out)
 	}
