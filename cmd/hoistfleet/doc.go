@@ -102,7 +102,9 @@ Examples:
 
 Writes the invented demo registers (an SI register and a US-customary one, for a
 fictional operator) into DIR (default hoistfleet-demo), checks them as of 2026-12-01 and
-writes their results workbooks beside them.
+writes their results workbooks beside them; the SI register is also checked against the
+operator's insurer's rule file (insurer-rules.csv), which adds a stopping-distance limit.
+It exits 0: the demo's failures are there on purpose.
 
 Examples:
   hoistfleet demo
