@@ -171,7 +171,13 @@ func openRegister(name, sheet string, st Streams) (*input, error) {
 	}
 	full := io.MultiReader(bytes.NewReader(head[:n]), br)
 	if n == 4 && bytes.Equal(head, []byte("PK\x03\x04")) {
-		in.src, err = register.NewXLSX(full, filepath.Base(display), sheet)
+		if in.file != nil {
+			// From the path: excelize reads the zip with random access instead of a
+			// copy of the whole file in memory. The hash reads the file at the end.
+			in.src, err = register.NewXLSXFile(name, sheet)
+		} else {
+			in.src, err = register.NewXLSX(full, filepath.Base(display), sheet)
+		}
 	} else if n >= 4 && bytes.Equal(head, []byte{0xD0, 0xCF, 0x11, 0xE0}) {
 		err = fmt.Errorf("%s is an OLE2 file: a legacy .xls workbook or a password-protected .xlsx; save an unprotected .xlsx or CSV copy", display)
 	} else {
