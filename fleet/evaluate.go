@@ -147,7 +147,9 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 				e = &Error{Kind: Invalid, Cell: v.Cell, Field: col.Key, Asset: a.ID, Err: fmt.Errorf("unreadable value %q", v.Raw)}
 			}
 			d.bad[col.Key] = e
-			d.messages = append(d.messages, e.Error())
+			if e.Kind != HeaderProblem { // said once, with the header, not on every row
+				d.messages = append(d.messages, e.Error())
+			}
 		}
 	}
 	d.resolveDuty()

@@ -34,6 +34,12 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		return nil, fmt.Errorf("writing results: %w", err)
 	}
 	summary := NewSummary(opts.TopN)
+	for _, p := range src.Header().Problems { // header problems first, once
+		summary.ProblemCount++
+		if len(summary.Problems) < summary.TopN {
+			summary.Problems = append(summary.Problems, p.Error())
+		}
+	}
 	ruleUses := map[string]int{}
 
 	g, ctx := errgroup.WithContext(ctx)

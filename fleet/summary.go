@@ -148,7 +148,10 @@ func (s *Summary) Add(r *Result) {
 	for _, m := range r.Messages {
 		s.ProblemCount++
 		if len(s.Problems) < s.TopN {
-			if r.Asset.ID == "" || !strings.Contains(m, "asset "+r.Asset.ID) {
+			switch {
+			case r.Asset.ID == "" && !strings.Contains(m, "!"):
+				m = fmt.Sprintf("row %d: %s", r.Asset.Row, m)
+			case r.Asset.ID != "" && !strings.Contains(m, "asset "+r.Asset.ID):
 				m = fmt.Sprintf("row %d, asset %s: %s", r.Asset.Row, r.Asset.ID, m)
 			}
 			s.Problems = append(s.Problems, m)

@@ -78,9 +78,10 @@ const (
 	Internal        // a broken invariant: a bug
 	Duplicate       // a duplicated asset id
 	Shape           // a row of a different shape, an empty row
+	HeaderProblem   // a cell unusable because its column's header is (an unknown unit, say)
 )
 
-var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape"}
+var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape", "header problem"}
 
 func (k Kind) String() string {
 	if int(k) < len(kindNames) {

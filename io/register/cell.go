@@ -77,7 +77,7 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 		return v, c
 	}
 	if s.headerErr != "" {
-		return bad(fleet.Invalid, ErrUnit, "%s", s.headerErr)
+		return bad(fleet.HeaderProblem, ErrUnit, "%s", s.headerErr)
 	}
 	switch kind {
 	case templates.Number, templates.Integer:
