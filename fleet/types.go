@@ -69,16 +69,16 @@ type Kind int
 
 // Error kinds. New kinds go at the end.
 const (
-	Other      Kind = iota
-	Invalid         // a cell that cannot be read as what its column holds
-	Missing         // a required value is absent
-	OutOfRange      // a value outside its column's range or a formula's validity
-	Calc            // a calculation could not be completed
-	IO              // a file could not be read or written
-	Internal        // a broken invariant: a bug
-	Duplicate       // a duplicated asset id
-	Shape           // a row of a different shape, an empty row
-	HeaderProblem   // a cell unusable because its column's header is (an unknown unit, say)
+	Other         Kind = iota
+	Invalid            // a cell that cannot be read as what its column holds
+	Missing            // a required value is absent
+	OutOfRange         // a value outside its column's range or a formula's validity
+	Calc               // a calculation could not be completed
+	IO                 // a file could not be read or written
+	Internal           // a broken invariant: a bug
+	Duplicate          // a duplicated asset id
+	Shape              // a row of a different shape, an empty row
+	HeaderProblem      // a cell unusable because its column's header is (an unknown unit, say)
 )
 
 var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape", "header problem"}
