@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 	"time"
@@ -716,7 +717,9 @@ func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
 	var rs, ss []string
 	for _, r := range rules {
 		rs = append(rs, r.String())
-		ss = append(ss, r.Cite())
+		if cite := r.Cite(); !slices.Contains(ss, cite) { // two rules of one table share a source
+			ss = append(ss, cite)
+		}
 	}
 	p.rule = strings.Join(rs, "; ")
 	p.source = strings.Join(ss, "; ")

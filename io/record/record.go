@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -153,7 +154,11 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 		id = "(no asset id)"
 	}
 	p.heading(1, fmt.Sprintf("Calculation record: hoist %s", id))
-	p.line("Register %s, sheet %s, row %d. Rules: %s%s. As of %s. %s %s.", info.Input, h.Sheet, a.Row, info.Profile,
+	sheet := ""
+	if h.Sheet != "" && h.Sheet != filepath.Base(info.Input) { // a CSV register has no sheet
+		sheet = ", sheet " + h.Sheet
+	}
+	p.line("Register %s%s, row %d. Rules: %s%s. As of %s. %s %s.", info.Input, sheet, a.Row, info.Profile,
 		userRules(info), info.AsOf.Format("2006-01-02"), info.Tool, info.Version)
 	p.line("")
 	p.caution()
@@ -257,12 +262,16 @@ func (p *printer) check(n int, c *fleet.CheckResult) {
 		title += fmt.Sprintf(" (utilisation %s, margin %s)", Num(c.Utilisation), pct(c.Margin))
 	}
 	p.heading(3, title)
+	item := "" // Markdown joins consecutive lines into one paragraph: make them items
+	if p.md {
+		item = "- "
+	}
 	if c.Rule != "" {
-		p.line("Rule: %s", c.Rule)
-		p.line("Source: %s", c.Source)
+		p.line("%sRule: %s", item, c.Rule)
+		p.line("%sSource: %s", item, c.Source)
 	}
 	if c.Message != "" {
-		p.line("Note: %s", c.Message)
+		p.line("%sNote: %s", item, c.Message)
 	}
 	if len(c.Steps) > 0 {
 		p.line("")
