@@ -19,11 +19,11 @@ import (
 // inspection: normal service yearly, heavy semiannually, severe quarterly; standards.md,
 // seen). Dates are read as calendar dates in their own location; no clock is read.
 //
-// Months are added as Go's time.AddDate adds them: the day of the month is kept and a day
-// that the target month lacks rolls over into the next month. So 2026-01-31 + 1 month is
-// 2026-03-03 (February 2026 has 28 days), 2024-01-31 + 1 month is 2024-03-02 (leap year),
-// and 2024-02-29 + 12 months is 2025-03-01. Months of the same length, and any start on
-// or before the 28th, give the same day of the month.
+// Months are calendar months: the day of the month is kept, and a day the target month
+// lacks becomes its last day (the earlier date, so never a longer interval than the
+// calendar gives). So 2026-01-31 + 1 month is 2026-02-28, 2024-01-31 + 1 month is
+// 2024-02-29 (leap year), and 2024-02-29 + 12 months is 2025-02-28. Any start on or before
+// the 28th gives the same day of the month.
 //
 // Figures: next_due (Text, ISO date), days_overdue (asOf − next due, ≥ 0), days_to_due
 // (next due − asOf, ≥ 0), days_since_last, interval_days.
@@ -43,7 +43,7 @@ func InspectionDue(last, asOf time.Time, intervalMonths int) (Outcome, error) {
 	if a.Before(l) {
 		return Outcome{}, &RangeError{Field: "last_inspection", Msg: fmt.Sprintf("last inspection %s is after the as-of date %s", lifeISO(l), lifeISO(a))}
 	}
-	next := l.AddDate(0, intervalMonths, 0)
+	next := addMonthsClamped(l, intervalMonths)
 	since := lifeDaysBetween(l, a)
 	interval := lifeDaysBetween(l, next)
 	overdue := max(0, lifeDaysBetween(next, a))
@@ -124,4 +124,13 @@ func LoadTest(ratedKg, testKg, testFactor float64) (Outcome, error) {
 		o.Note = fmt.Sprintf("the last test covers %s kg: a new load test is needed for %s kg", dutyNum(covered), dutyNum(ratedKg))
 	}
 	return o, nil
+}
+
+// addMonthsClamped adds n calendar months to the date d, keeping the day of the month or,
+// where the target month is shorter, taking its last day.
+func addMonthsClamped(d time.Time, n int) time.Time {
+	y, m, day := d.Date()
+	first := time.Date(y, m+time.Month(n), 1, 0, 0, 0, 0, d.Location())
+	last := first.AddDate(0, 1, -1).Day()
+	return time.Date(first.Year(), first.Month(), min(day, last), 0, 0, 0, 0, d.Location())
 }

@@ -25,14 +25,15 @@ func TestInspectionDueCalendar(t *testing.T) {
 		{"yearly, no leap day", date(2025, 3, 1), 12, "2026-03-01", 365},
 		{"yearly across 2024-02-29", date(2023, 3, 1), 12, "2024-03-01", 366},
 		{"yearly to the day before a leap day", date(2023, 2, 28), 12, "2024-02-28", 365},
-		// Month end rolls over: 31 January + 1 month is "31 February" = 3 March 2026.
-		{"Jan 31 + 1 month", date(2026, 1, 31), 1, "2026-03-03", 31},
-		// In a leap year "31 February" = 2 March.
-		{"Jan 31 + 1 month, leap year", date(2024, 1, 31), 1, "2024-03-02", 31},
-		// A leap day + 12 months is "29 February 2025" = 1 March 2025.
-		{"leap day + 12 months", date(2024, 2, 29), 12, "2025-03-01", 366},
-		{"Aug 31 + 6 months", date(2026, 8, 31), 6, "2027-03-03", 30 + 31 + 30 + 31 + 31 + 28 + 3},
-		{"Dec 31 semiannual into a leap year", date(2023, 12, 31), 6, "2024-07-01", 31 + 29 + 31 + 30 + 31 + 30 + 1},
+		// Month end is clamped to the shorter month's last day: 31 January + 1 month is
+		// 28 February 2026 (the earlier, stricter due date).
+		{"Jan 31 + 1 month", date(2026, 1, 31), 1, "2026-02-28", 28},
+		// In a leap year, 29 February.
+		{"Jan 31 + 1 month, leap year", date(2024, 1, 31), 1, "2024-02-29", 29},
+		// A leap day + 12 months is 28 February 2025.
+		{"leap day + 12 months", date(2024, 2, 29), 12, "2025-02-28", 365},
+		{"Aug 31 + 6 months", date(2026, 8, 31), 6, "2027-02-28", 30 + 31 + 30 + 31 + 31 + 28},
+		{"Dec 31 semiannual into a leap year", date(2023, 12, 31), 6, "2024-06-30", 31 + 29 + 31 + 30 + 31 + 30},
 	}
 	for _, tt := range tests {
 		o, err := calc.InspectionDue(tt.last, tt.last, tt.months)

@@ -60,8 +60,8 @@ func ExampleDeriveDuty() {
 	// running time 2·N·H·T/(V·60) = 2.66667 h/day × 250 days a year × 10 years = 6666.67 h → T6; km 0.25 → L2; ISO 4301-1 T6/L2 → M6
 }
 
-// An inspection on a one-month interval last done on 31 January: the due date
-// rolls over the short February.
+// An inspection on a one-month interval last done on 31 January: the due date is the
+// last day of the short February.
 func ExampleInspectionDue() {
 	last := time.Date(2026, 1, 31, 0, 0, 0, 0, time.UTC)
 	asOf := time.Date(2026, 3, 10, 0, 0, 0, 0, time.UTC)
@@ -73,8 +73,8 @@ func ExampleInspectionDue() {
 	fmt.Printf("%.0f of %.0f %s, u = %.3f\n", o.Demand, o.Capacity, o.Unit, o.Utilisation)
 	fmt.Println(o.Note)
 	// Output:
-	// 38 of 31 d, u = 1.226
-	// periodic inspection overdue by 7 days (due 2026-03-03)
+	// 38 of 28 d, u = 1.357
+	// periodic inspection overdue by 10 days (due 2026-02-28)
 }
 
 // A 1/2 in rope under the ASME B30.2-2005 diameter table, with broken wires counted.
