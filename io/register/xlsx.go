@@ -215,7 +215,7 @@ func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string) (*Reader, e
 	if err != nil {
 		return nil, fmt.Errorf("workbook properties: %w", err)
 	}
-	merges, err := mergedRanges(zr, name)
+	merges, formulas, err := scanSheet(zr, name)
 	if err != nil {
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
 	}
@@ -245,6 +245,15 @@ func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string) (*Reader, e
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
 	}
 	rd.header.File = file
+	if formulas.n > 0 {
+		more := ""
+		if formulas.n > len(formulas.first) {
+			more = ", …"
+		}
+		rd.header.Problems = append(rd.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: fleet.CellRef{Sheet: name},
+			Err: fmt.Errorf("%d cells hold formulas (%s%s): the values the spreadsheet last calculated and saved were used; a formula it never calculated reads as empty",
+				formulas.n, strings.Join(formulas.first, ", "), more)})
+	}
 	return rd, nil
 }
 
@@ -307,10 +316,55 @@ var mergeRef = regexp.MustCompile(`<(?:\w+:)?mergeCell\b[^>]*?\bref="([A-Za-z]+[
 // mergedRanges returns the merged cells of the sheet. They are listed after the sheet's
 // data, so the sheet's XML is scanned as bytes (an inflate pass, without XML parsing)
 // up to its <mergeCells> element, which is then read.
+// formulaCells counts the cells of a sheet that hold a formula, and keeps the first few
+// references, found by the same pass over the sheet XML that looks for merged cells.
+type formulaCells struct {
+	n     int
+	first []string
+}
+
+// maxFormulaRefs is how many formula cells a message names.
+const maxFormulaRefs = 5
+
+// scan counts the formula elements (<f> or <f …>) that start in win at or after from,
+// and notes the reference of the cell each belongs to when the window holds it.
+func (fc *formulaCells) scan(win []byte, from int) {
+	for _, pat := range [][]byte{[]byte("<f>"), []byte("<f ")} {
+		for i := 0; ; {
+			j := bytes.Index(win[i:], pat)
+			if j < 0 {
+				break
+			}
+			at := i + j
+			i = at + len(pat)
+			if at < from {
+				continue
+			}
+			fc.n++
+			if len(fc.first) < maxFormulaRefs {
+				if k := bytes.LastIndex(win[:at], []byte(`<c r="`)); k >= 0 {
+					ref := win[k+len(`<c r="`):]
+					if e := bytes.IndexByte(ref, '"'); e > 0 && e < 12 {
+						fc.first = append(fc.first, string(ref[:e]))
+					}
+				}
+			}
+		}
+	}
+}
+
 func mergedRanges(zr *zip.Reader, sheet string) ([]mergeRange, error) {
+	m, _, err := scanSheet(zr, sheet)
+	return m, err
+}
+
+// scanSheet streams the sheet's XML once for its merged cells (stored after the data) and
+// its formula cells.
+func scanSheet(zr *zip.Reader, sheet string) ([]mergeRange, formulaCells, error) {
+	var fc formulaCells
 	part, err := sheetPart(zr, sheet)
 	if err != nil || part == "" {
-		return nil, err
+		return nil, fc, err
 	}
 	var zf *zip.File
 	for _, f := range zr.File {
@@ -320,11 +374,11 @@ func mergedRanges(zr *zip.Reader, sheet string) ([]mergeRange, error) {
 		}
 	}
 	if zf == nil {
-		return nil, nil
+		return nil, fc, nil
 	}
 	rc, err := zf.Open()
 	if err != nil {
-		return nil, fmt.Errorf("worksheet %s: %w", part, err)
+		return nil, fc, fmt.Errorf("worksheet %s: %w", part, err)
 	}
 	defer rc.Close()
 	const chunk = 256 << 10
@@ -336,26 +390,33 @@ func mergedRanges(zr *zip.Reader, sheet string) ([]mergeRange, error) {
 		n := len(buf)
 		if n == 0 {
 			if rerr == io.EOF || rerr == nil {
-				return nil, nil
+				return nil, fc, nil
 			}
-			return nil, fmt.Errorf("worksheet %s: %w", part, rerr)
+			return nil, fc, fmt.Errorf("worksheet %s: %w", part, rerr)
 		}
 		win := append(tail[:len(tail):len(tail)], buf...)
+		// Matches starting in the carried-over tail were counted with the previous chunk
+		// unless they ran past its end.
+		from := 0
+		if len(tail) > 0 {
+			from = len(tail) - len("<f ") + 1
+		}
+		fc.scan(win, from)
 		if i := bytes.Index(win, key); i >= 0 {
 			// The merged cells are at the end of the sheet: read the rest (bounded).
 			_, _ = br.Discard(n)
 			rest, err := io.ReadAll(io.LimitReader(br, 64<<20))
 			if err != nil {
-				return nil, fmt.Errorf("worksheet %s: %w", part, err)
+				return nil, fc, fmt.Errorf("worksheet %s: %w", part, err)
 			}
-			return parseMerges(append(win[max(i-16, 0):], rest...)), nil
+			return parseMerges(append(win[max(i-16, 0):], rest...)), fc, nil
 		}
 		tail = append(tail[:0], buf[max(n-16, 0):]...)
 		if _, err := br.Discard(n); err != nil {
-			return nil, err
+			return nil, fc, err
 		}
 		if rerr == io.EOF {
-			return nil, nil
+			return nil, fc, nil
 		}
 	}
 }
