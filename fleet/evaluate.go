@@ -940,26 +940,35 @@ func (c *Checker) limitLoad(h calc.Hoist, p preparedCheck, o calc.Outcome) float
 		}
 		lo, hi = 0, h.RatedLoadKg
 	}
-	v, ok := rootIllinois(func(m float64) (float64, bool) { return f(h.WithRatedLoad(m)) }, lo, hi)
+	g := func(m float64) (float64, bool) { return f(h.WithRatedLoad(m)) }
+	lo, hi, ok = rootIllinois(g, lo, hi)
 	if !ok {
 		return math.NaN()
 	}
-	return floorTenth(v)
+	// The root lies in [lo, hi], at most 0.01 kg wide: at most one 0.1 kg step falls
+	// inside, and the answer is that step when the check still passes there.
+	v := floorTenth(lo)
+	if c := floorTenth(hi); c > v {
+		if fc, ok := g(c); ok && fc <= 0 {
+			v = c
+		}
+	}
+	return v
 }
 
-// rootIllinois finds, in [lo, hi] with f(lo) ≤ 0 < f(hi), the largest load where f ≤ 0,
-// to 0.01 kg: regula falsi with the Illinois modification (the retained end's value is
+// rootIllinois narrows [lo, hi] with f(lo) ≤ 0 < f(hi) to at most 0.01 kg around the
+// largest load where f ≤ 0: regula falsi with the Illinois modification (the retained end's value is
 // halved when the same end is kept twice), which converges in a handful of evaluations
 // for the smooth, nearly linear utilisations of the checks; every tenth step is a plain
 // bisection so that a kink or a jump (brakes that cannot stop) still converges.
-func rootIllinois(f func(float64) (float64, bool), lo, hi float64) (float64, bool) {
+func rootIllinois(f func(float64) (float64, bool), lo, hi float64) (float64, float64, bool) {
 	flo, ok := f(lo)
 	if !ok {
-		return 0, false
+		return 0, 0, false
 	}
 	fhi, ok := f(hi)
 	if !ok {
-		return 0, false
+		return 0, 0, false
 	}
 	side := 0
 	for k := 0; hi-lo > 0.01 && k < 200; k++ {
@@ -971,7 +980,7 @@ func rootIllinois(f func(float64) (float64, bool), lo, hi float64) (float64, boo
 		x = math.Min(math.Max(x, lo+0.004), hi-0.004)
 		fx, ok := f(x)
 		if !ok {
-			return 0, false
+			return 0, 0, false
 		}
 		if fx > 0 {
 			hi, fhi = x, fx
@@ -986,8 +995,25 @@ func rootIllinois(f func(float64) (float64, bool), lo, hi float64) (float64, boo
 			}
 			side = -1
 		}
+		// Regula falsi lands next to the root of a nearly linear function at once but
+		// closes the bracket from one side only: probe the tolerance beyond the new end.
+		if hi-lo > 0.01 {
+			probe := lo + 0.01
+			if fx > 0 {
+				probe = hi - 0.01
+			}
+			fp, ok := f(probe)
+			if !ok {
+				return 0, 0, false
+			}
+			if fp > 0 {
+				hi, fhi = probe, fp
+			} else {
+				lo, flo = probe, fp
+			}
+		}
 	}
-	return lo, true
+	return lo, hi, true
 }
 
 func floorTenth(kg float64) float64 { return math.Floor(kg*10+1e-9) / 10 }
