@@ -213,8 +213,11 @@ type Outcome struct {
 }
 
 // Figure returns the named figure's value, or NaN.
-func (o Outcome) Figure(name string) float64 {
-	for _, f := range o.Figures {
+func (o Outcome) Figure(name string) float64 { return FigureValue(o.Figures, name) }
+
+// FigureValue returns the value of the figure called name in fs, or NaN.
+func FigureValue(fs []Figure, name string) float64 {
+	for _, f := range fs {
 		if f.Name == name {
 			return f.Value
 		}

@@ -32,6 +32,7 @@ type Options struct {
 type Checker struct {
 	opts    Options
 	columns []templates.Column // the schema, read once
+	specs   []checkSpec        // the checks, built once
 }
 
 // NewChecker returns a checker for opts.
@@ -48,7 +49,7 @@ func NewChecker(opts Options) (*Checker, error) {
 	if opts.TopN <= 0 {
 		opts.TopN = 20
 	}
-	return &Checker{opts: opts, columns: templates.Columns()}, nil
+	return &Checker{opts: opts, columns: templates.Columns(), specs: checkSpecs()}, nil
 }
 
 // Options returns the checker's options with defaults applied.
@@ -72,8 +73,8 @@ func StatusOf(u, band float64) Status {
 	return StatusPass
 }
 
-// RuleKey identifies a rule row for counting its uses.
-func RuleKey(r templates.Rule) string {
+// ruleKey identifies a rule row for counting its uses.
+func ruleKey(r templates.Rule) string {
 	return r.ID + "\x00" + r.Groups + "\x00" + r.When + "\x00" + r.Origin
 }
 
@@ -624,14 +625,13 @@ func (c *Checker) Check(a *Asset) *Result {
 		return r
 	}
 	d := c.resolve(a)
-	specs := checkSpecs()
-	prepared := make([]preparedCheck, len(specs))
-	for i, s := range specs {
+	prepared := make([]preparedCheck, len(c.specs))
+	for i, s := range c.specs {
 		prepared[i] = c.prepare(d, s)
 	}
 	r.Evaluation = c.evaluate(d, d.h, prepared, true)
 	if hs := r.Check("hoist-speed"); hs != nil && hs.Status == StatusFail {
-		if vc := figure(hs.Figures, "calculated_speed_m_s"); !math.IsNaN(vc) {
+		if vc := calc.FigureValue(hs.Figures, "calculated_speed_m_s"); !math.IsNaN(vc) {
 			d.messages = append(d.messages, fmt.Sprintf("the declared hoist speed %.3g m/min disagrees with the drive's %.3g m/min (motor speed, gear ratio, drum, reeving): motor-power, brake-stop and runaway use the declared speed, so check the register before trusting them",
 				d.h.HoistSpeedMS*60, vc*60))
 		}
@@ -730,15 +730,6 @@ func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
 		p.rule, p.source = "information: no stopping-distance limit in the rules in force; fails only when the brakes cannot stop the load", "Newton's second law (emergency stop while lowering)"
 	}
 	return p
-}
-
-func figure(fs []calc.Figure, name string) float64 {
-	for _, f := range fs {
-		if f.Name == name {
-			return f.Value
-		}
-	}
-	return math.NaN()
 }
 
 func columnHeader(key string) string {
@@ -1062,12 +1053,13 @@ func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckR
 	return rt
 }
 
-// SortedRuleUses turns use counts into the audit list, in table order.
-func SortedRuleUses(t *templates.Table, counts map[string]int, userOrigin string) []RuleUse {
+// ruleUses turns use counts into the audit list: every rule in force, sorted by rule id
+// (table order within an id).
+func ruleUses(t *templates.Table, counts map[string]int) []RuleUse {
 	out := make([]RuleUse, 0, len(t.Rules))
 	for _, r := range t.Rules {
 		out = append(out, RuleUse{ID: r.ID, Groups: r.Groups, When: r.When, Value: r.Value, Unit: r.Unit,
-			Source: r.Source, Provenance: r.Provenance, Note: r.Note, Origin: r.Origin, Uses: counts[RuleKey(r)]})
+			Source: r.Source, Provenance: r.Provenance, Note: r.Note, Origin: r.Origin, Uses: counts[ruleKey(r)]})
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].ID < out[j].ID })
 	return out

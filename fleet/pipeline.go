@@ -40,7 +40,7 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 			summary.Problems = append(summary.Problems, p.Error())
 		}
 	}
-	ruleUses := map[string]int{}
+	useCounts := map[string]int{}
 
 	g, ctx := errgroup.WithContext(ctx)
 	slots := make(chan struct{}, buffer) // a slot is held from read until written
@@ -108,7 +108,7 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 				}
 				summary.Add(p)
 				for _, rule := range p.rules {
-					ruleUses[RuleKey(rule)]++
+					useCounts[ruleKey(rule)]++
 				}
 				p.rules = nil
 				if progress != nil {
@@ -128,7 +128,7 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		return summary, err
 	}
 	info.Rows = summary.Total
-	info.Rules = SortedRuleUses(opts.Rules, ruleUses, info.RulesFile)
+	info.Rules = ruleUses(opts.Rules, useCounts)
 	if err := sink.End(summary, info); err != nil {
 		sink.Abort()
 		return summary, fmt.Errorf("writing results: %w", err)

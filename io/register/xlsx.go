@@ -59,14 +59,23 @@ func NewXLSXLimits(r io.Reader, name, sheet string, lim Limits) (*Reader, error)
 	if err := sniffXLSX(b, lim); err != nil {
 		return nil, fileError(file, err)
 	}
-	zr, err := zip.NewReader(bytes.NewReader(b), int64(len(b)))
+	return openWorkbook(bytes.NewReader(b), int64(len(b)), file, sheet, lim,
+		func(o excelize.Options) (*excelize.File, error) { return excelize.OpenReader(bytes.NewReader(b), o) })
+}
+
+// openWorkbook checks the zip's parts against the limits, opens the workbook with open
+// and the register sheet in it. ra and size give the zip for the checks and the scan of
+// the sheet's merged and formula cells.
+func openWorkbook(ra io.ReaderAt, size int64, file, sheet string, lim Limits,
+	open func(excelize.Options) (*excelize.File, error)) (*Reader, error) {
+	zr, err := zip.NewReader(ra, size)
 	if err != nil {
 		return nil, fileError(file, fmt.Errorf("not a readable XLSX workbook (truncated, or another kind of file): %w", err))
 	}
 	if err := checkParts(zr, lim); err != nil {
 		return nil, fileError(file, err)
 	}
-	f, err := excelize.OpenReader(bytes.NewReader(b), excelize.Options{
+	f, err := open(excelize.Options{
 		RawCellValue: true, UnzipSizeLimit: lim.MaxUnzipped, UnzipXMLSizeLimit: min(lim.MaxXMLInMemory, lim.MaxUnzipped)})
 	if err != nil {
 		if f != nil {
@@ -106,27 +115,8 @@ func NewXLSXFile(path, sheet string) (*Reader, error) {
 		}
 		return NewXLSXLimits(fh, path, sheet, lim)
 	}
-	zr, err := zip.NewReader(fh, fi.Size())
-	if err != nil {
-		return nil, fileError(file, fmt.Errorf("not a readable XLSX workbook (truncated, or another kind of file): %w", err))
-	}
-	if err := checkParts(zr, lim); err != nil {
-		return nil, fileError(file, err)
-	}
-	f, err := excelize.OpenFile(path, excelize.Options{
-		RawCellValue: true, UnzipSizeLimit: lim.MaxUnzipped, UnzipXMLSizeLimit: min(lim.MaxXMLInMemory, lim.MaxUnzipped)})
-	if err != nil {
-		if f != nil {
-			_ = f.Close()
-		}
-		return nil, fileError(file, fmt.Errorf("not a readable XLSX workbook: %w", err))
-	}
-	rd, err := openSheet(f, zr, file, sheet)
-	if err != nil {
-		_ = f.Close()
-		return nil, fileError(file, err)
-	}
-	return rd, nil
+	return openWorkbook(fh, fi.Size(), file, sheet, lim,
+		func(o excelize.Options) (*excelize.File, error) { return excelize.OpenFile(path, o) })
 }
 
 // sniffXLSX refuses what is not a zip file, with the reason when it is recognisable.
@@ -313,9 +303,6 @@ type mergeRange struct {
 
 var mergeRef = regexp.MustCompile(`<(?:\w+:)?mergeCell\b[^>]*?\bref="([A-Za-z]+[0-9]+)(?::([A-Za-z]+[0-9]+))?"`)
 
-// mergedRanges returns the merged cells of the sheet. They are listed after the sheet's
-// data, so the sheet's XML is scanned as bytes (an inflate pass, without XML parsing)
-// up to its <mergeCells> element, which is then read.
 // formulaCells counts the cells of a sheet that hold a formula, and keeps the first few
 // references, found by the same pass over the sheet XML that looks for merged cells.
 type formulaCells struct {
@@ -353,13 +340,10 @@ func (fc *formulaCells) scan(win []byte, from int) {
 	}
 }
 
-func mergedRanges(zr *zip.Reader, sheet string) ([]mergeRange, error) {
-	m, _, err := scanSheet(zr, sheet)
-	return m, err
-}
-
-// scanSheet streams the sheet's XML once for its merged cells (stored after the data) and
-// its formula cells.
+// scanSheet returns the sheet's merged cells and counts its formula cells. Merged cells
+// are listed after the sheet's data, so the sheet's XML is scanned once as bytes (an
+// inflate pass, without XML parsing) up to its <mergeCells> element, which is then read;
+// formula elements are counted on the way.
 func scanSheet(zr *zip.Reader, sheet string) ([]mergeRange, formulaCells, error) {
 	var fc formulaCells
 	part, err := sheetPart(zr, sheet)
