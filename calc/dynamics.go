@@ -31,9 +31,10 @@ type dynTrain struct {
 	etaGB  float64   // η_gb, back-driving (≤ 0: self-locking)
 	etaL   float64   // η_l = η_RD η_gb
 	i      float64   // gear ratio
-	id, jm float64   // I_d drum inertia, J_m motor-shaft inertia [kg m²]
-	radii  []float64 // r_1 and, with L > 1, r_L [m]
-	layers int       // L
+	id, jm float64    // I_d drum inertia, J_m motor-shaft inertia [kg m²]
+	radii  [2]float64 // r_1 and, with L > 1, r_L [m]
+	nr     int        // radii in use: 1, or 2 with L > 1
+	layers int        // L
 }
 
 // selfLocking reports whether the gear train cannot be back-driven (η_gb ≤ 0).
@@ -49,7 +50,7 @@ func (t dynTrain) radiusName(k int) string {
 
 // radiusWords says in words which layer radius index k is.
 func (t dynTrain) radiusWords(k int) string {
-	if len(t.radii) == 1 {
+	if t.nr == 1 {
 		return "single layer, r_1"
 	}
 	if k == 0 {
@@ -116,9 +117,9 @@ func dynTrainOf(h Hoist) (dynTrain, error) {
 		i:      h.GearRatio,
 		id:     h.DrumInertiaKgM2,
 		jm:     h.MotorInertiaKgM2,
-		radii:  h.Radii(),
 		layers: h.Layers,
 	}
+	t.radii, t.nr = h.radii()
 	t.etaL = t.etaRD * t.etaGB
 	if t.m == 0 && t.id == 0 && t.jm == 0 {
 		return dynTrain{}, &RangeError{Field: "rated_load", Msg: "rated load and hook block mass are both 0 and the train has no inertia: nothing to move"}
@@ -205,8 +206,8 @@ func Runaway(h Hoist) (Outcome, error) {
 	}
 
 	best := 0
-	accels := make([]float64, len(t.radii))
-	for k, r := range t.radii {
+	var accels [2]float64
+	for k, r := range t.radii[:t.nr] {
 		accels[k] = t.runawayAccel(r)
 		if t.selfLocking() {
 			if rec {
@@ -374,7 +375,7 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 	}
 	lock := t.selfLocking()
 
-	rec := !h.SkipRecord
+	rec := !h.SkipRecord && !h.SkipDetail
 	out := Outcome{Capacity: limit, Unit: "m"}
 	brakeWhere := "motor-shaft"
 	if h.BrakeOnDrum {
@@ -401,8 +402,8 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 		}
 	}
 
-	res := make([]dynStopAt, len(t.radii))
-	for k, r := range t.radii {
+	var res [2]dynStopAt
+	for k, r := range t.radii[:t.nr] {
 		tag := ""
 		if rec {
 			tag = " (" + t.radiusName(k) + ")"
@@ -483,7 +484,7 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 
 	// Governing radius: the first one where the brakes cannot stop, else the longest stop.
 	best := -1
-	for k, x := range res {
+	for k, x := range res[:t.nr] {
 		if !x.canStop {
 			best = k
 			break
@@ -503,6 +504,17 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 	}
 	out.Demand = g.s
 	out.Utilisation = g.s / limit
+	if h.SkipDetail { // the verdicts of the switch below, without the notes
+		switch {
+		case lock, g.canStop && math.IsNaN(limit):
+			out.Verdict = Info
+		case !g.canStop:
+			out.Verdict = Fail
+		default:
+			out.Verdict = ByUtilisation
+		}
+		return out, nil
+	}
 	out.Figures = []Figure{
 		{Name: "distance_m", Value: g.s, Unit: "m"},
 		{Name: "time_s", Value: g.time, Unit: "s"},

@@ -21,7 +21,7 @@ func BrakeStopLimitKg(h Hoist) float64 {
 	if err != nil {
 		return math.NaN()
 	}
-	r := t.radii[len(t.radii)-1]
+	r := t.radii[t.nr-1]
 	var fb, eta float64
 	if h.BrakeOnDrum {
 		fb, eta = float64(h.Brakes)*h.BrakeTorqueNm*t.ne/r, t.etaRD

@@ -54,7 +54,7 @@ func MotorAccelTorque(h Hoist) (Outcome, error) {
 	mr := h.MotorRatedTorqueNm()
 	peak := h.PeakTorqueRatio * mr
 
-	rec := !h.SkipRecord
+	rec := !h.SkipRecord && !h.SkipDetail
 	out := Outcome{Unit: "N m", Verdict: ByUtilisation}
 	if rec {
 		out.Steps = append(out.Steps,
@@ -63,9 +63,9 @@ func MotorAccelTorque(h Hoist) (Outcome, error) {
 		)
 	}
 	type at struct{ alpha, tl, td, tr, total float64 }
-	res := make([]at, len(t.radii))
+	var res [2]at
 	best := 0
-	for k, r := range t.radii {
+	for k, r := range t.radii[:t.nr] {
 		x := at{}
 		x.alpha = a * t.ne / r
 		x.tl = t.e * t.m * (t.g + a) * r / (t.n * t.etaRD) / (t.i * t.etaG)
@@ -100,6 +100,9 @@ func MotorAccelTorque(h Hoist) (Outcome, error) {
 	out.Demand = g.total
 	out.Capacity = peak
 	out.Utilisation = g.total / peak
+	if h.SkipDetail {
+		return out, nil
+	}
 	out.Figures = []Figure{
 		{Name: "drum_angular_acceleration_rad_s2", Value: g.alpha, Unit: "rad/s2"},
 		{Name: "load_torque_nm", Value: g.tl, Unit: "N m"},
@@ -170,14 +173,14 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 	a := h.AccelMS2
 	nb := float64(h.Brakes)
 	mb := h.BrakeTorqueNm
-	rec := !h.SkipRecord
+	rec := !h.SkipRecord && !h.SkipDetail
 	out := Outcome{Unit: "N m", Verdict: ByUtilisation, Capacity: h.GearboxRatedTorqueNm}
 	if rec {
 		out.Steps = append(out.Steps, Step{Symbol: "m", Formula: "m_L + m_H", Numbers: dynNum(h.RatedLoadKg) + " + " + dynNum(h.HookBlockKg), Value: t.m, Unit: "kg"})
 	}
 
 	acc, accK := math.Inf(-1), 0
-	for k, r := range t.radii {
+	for k, r := range t.radii[:t.nr] {
 		v := t.e*t.m*(t.g+a)*r/(t.n*t.etaRD) + t.id*a*t.ne/r
 		if rec {
 			out.Steps = append(out.Steps, Step{Symbol: "T_acc (" + t.radiusName(k) + ")", Formula: "e m (g + a) r / (n η_RD) + I_d a n_e / r",
@@ -193,6 +196,9 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 	stopWhy := ""
 	switch {
 	case !h.BrakeOnDrum && t.selfLocking():
+		if h.SkipDetail {
+			break
+		}
 		stopWhy = fmt.Sprintf("self-locking gear train (η_gb = %s): the stop torque depends on the train's elasticity and is not computed", dynNum(t.etaGB))
 		if rec {
 			out.Steps = append(out.Steps, Step{Symbol: "T_stop", Formula: "not computed: self-locking gear locks on power loss", Numbers: "η_gb = " + dynNum(t.etaGB) + " ≤ 0", Value: math.NaN(), Unit: "N m"})
@@ -204,7 +210,7 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 				Numbers: fmt.Sprintf("%s × %s × %s / %s", dynNum(nb), dynNum(mb), dynNum(t.i), dynNum(t.etaGB)), Value: stop, Unit: "N m"})
 		}
 	default:
-		for k, r := range t.radii {
+		for k, r := range t.radii[:t.nr] {
 			tag := ""
 			if rec {
 				tag = " (" + t.radiusName(k) + ")"
@@ -239,6 +245,13 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 	}
 
 	out.Demand = acc
+	if h.SkipDetail { // the demand below, without the notes
+		if stop > acc {
+			out.Demand = stop
+		}
+		out.Utilisation = out.Demand / out.Capacity
+		return out, nil
+	}
 	which := fmt.Sprintf("accelerating the load governs, at the %s", t.radiusWords(accK))
 	if stop > acc {
 		out.Demand = stop

@@ -36,6 +36,11 @@ type Hoist struct {
 	// numbers are the same, only the text is not made. Root-finding and bulk runs set it;
 	// the calculation record (explain) leaves it false.
 	SkipRecord bool
+	// SkipDetail asks for the numbers only: Demand, Capacity, Utilisation and Verdict,
+	// without Steps, Figures or Note (the dynamics checks honour it; the others may still
+	// build figures). The rated-load search sets it: it evaluates a check many times and
+	// reads nothing else. The numbers are the same.
+	SkipDetail bool
 
 	RatedLoadKg       float64 // m_L, rated load on the hook [kg]
 	HookBlockKg       float64 // m_H, reeved bottom block and hook [kg]
@@ -144,10 +149,16 @@ func (h Hoist) OuterLayerRadiusM() float64 {
 
 // Radii returns the radii at which torques are evaluated: r_1 and, when L > 1, r_L.
 func (h Hoist) Radii() []float64 {
+	r, n := h.radii()
+	return append([]float64(nil), r[:n]...)
+}
+
+// radii is Radii without an allocation: the radii and how many there are (1 or 2).
+func (h Hoist) radii() ([2]float64, int) {
 	if h.Layers > 1 {
-		return []float64{h.FirstLayerRadiusM(), h.OuterLayerRadiusM()}
+		return [2]float64{h.FirstLayerRadiusM(), h.OuterLayerRadiusM()}, 2
 	}
-	return []float64{h.FirstLayerRadiusM()}
+	return [2]float64{h.FirstLayerRadiusM()}, 1
 }
 
 // MotorAngularSpeed is ω_m = 2πN/60 [rad/s].

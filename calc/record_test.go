@@ -268,3 +268,35 @@ func BenchmarkChecksSkipRecord(b *testing.B) {
 	h.SkipRecord = true
 	benchChecks(b, h)
 }
+
+// TestSkipDetailSameNumbers: with Hoist.SkipDetail (the rated-load search) every check
+// gives the same Demand, Capacity, Utilisation, Verdict and error as the full outcome, at
+// the test hoists' rated loads and at loads from empty to four times rated, where verdicts
+// change (brakes that can no longer stop, an overloaded drive).
+func TestSkipDetailSameNumbers(t *testing.T) {
+	for hn, h0 := range recHoists() {
+		for _, c := range recChecks() {
+			for _, f := range []float64{0, 0.5, 1, 1.7, 4} {
+				h := h0.WithRatedLoad(f * h0.RatedLoadKg)
+				h.SkipRecord = true
+				full, errFull := c.f(h)
+				h.SkipDetail = true
+				bare, errBare := c.f(h)
+				where := c.name + " / " + hn
+				if (errFull == nil) != (errBare == nil) || (errFull != nil && errFull.Error() != errBare.Error()) {
+					t.Errorf("%s × %g: error %v in full, %v numbers only", where, f, errFull, errBare)
+					continue
+				}
+				if errFull != nil {
+					continue
+				}
+				if !recSame(full.Demand, bare.Demand) || !recSame(full.Capacity, bare.Capacity) ||
+					!recSame(full.Utilisation, bare.Utilisation) || full.Verdict != bare.Verdict {
+					t.Errorf("%s × %g: full %v/%v/%v/%v, numbers only %v/%v/%v/%v", where, f,
+						full.Demand, full.Capacity, full.Utilisation, full.Verdict,
+						bare.Demand, bare.Capacity, bare.Utilisation, bare.Verdict)
+				}
+			}
+		}
+	}
+}

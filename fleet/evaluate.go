@@ -7,6 +7,7 @@ import (
 	"slices"
 	"sort"
 	"strings"
+	"sync"
 	"time"
 
 	"hoistfleet/calc"
@@ -33,6 +34,48 @@ type Checker struct {
 	opts    Options
 	columns []templates.Column // the schema, read once
 	specs   []checkSpec        // the checks, built once
+	texts   sync.Map           // ruleSet → ruleText: the rule and source text of a set of rows
+}
+
+// ruleSet names up to four rows of the rule table (indices, unused slots −1): the rows
+// one check used for one hoist.
+type ruleSet [4]int32
+
+type ruleText struct{ rule, source string }
+
+// ruleTexts returns the "rule" and "source" fields of a check that used the given rows:
+// each row in words, joined by "; ", and their citations, a citation shared by two rows
+// given once. The texts repeat from hoist to hoist, so they are built once per set.
+func (c *Checker) ruleTexts(rows []int) (rule, source string) {
+	t := c.opts.Rules
+	switch len(rows) {
+	case 0:
+		return "", ""
+	case 1:
+		return t.RuleText(rows[0]), t.RuleCite(rows[0])
+	}
+	key, cacheable := ruleSet{-1, -1, -1, -1}, len(rows) <= len(ruleSet{})
+	if cacheable {
+		for i, r := range rows {
+			key[i] = int32(r)
+		}
+		if v, ok := c.texts.Load(key); ok {
+			rt := v.(ruleText)
+			return rt.rule, rt.source
+		}
+	}
+	var rs, ss []string
+	for _, r := range rows {
+		rs = append(rs, t.RuleText(r))
+		if cite := t.RuleCite(r); !slices.Contains(ss, cite) { // two rules of one table share a source
+			ss = append(ss, cite)
+		}
+	}
+	rt := ruleText{strings.Join(rs, "; "), strings.Join(ss, "; ")}
+	if cacheable {
+		c.texts.Store(key, rt)
+	}
+	return rt.rule, rt.source
 }
 
 // NewChecker returns a checker for opts.
@@ -73,11 +116,6 @@ func StatusOf(u, band float64) Status {
 	return StatusPass
 }
 
-// ruleKey identifies a rule row for counting its uses.
-func ruleKey(r templates.Rule) string {
-	return r.ID + "\x00" + r.Groups + "\x00" + r.When + "\x00" + r.Origin
-}
-
 // hoistData is one asset's inputs resolved for the checks: values, defaults, scope.
 type hoistData struct {
 	a        *Asset
@@ -89,7 +127,7 @@ type hoistData struct {
 	defaults []string
 	derived  []string
 	messages []string
-	rules    []templates.Rule // rules used (for the audit counts)
+	rules    []int // rows of the rule table used (indices into Rules.Rules, for the audit counts)
 	// closedLimit is handed from a check's prepare to its preparedCheck: the limiting
 	// rated load in closed form, when the check has one.
 	closedLimit func(h calc.Hoist) float64
@@ -113,23 +151,31 @@ func (d *hoistData) text(key string) string {
 	return ""
 }
 
-// rule looks up a rule for this hoist and records its use.
-func (d *hoistData) rule(id string) (float64, templates.Rule, error) {
-	v, r, err := d.opts.Rules.Value(id, d.scope)
-	if err != nil {
-		return 0, r, err
+// rule looks up a rule for this hoist, records its use and returns its value in the
+// checks' units with the row's index in the table.
+func (d *hoistData) rule(id string) (float64, int, error) {
+	t := d.opts.Rules
+	i := t.LookupIndex(id, d.scope)
+	if i < 0 {
+		return 0, -1, t.NoRowError(id, d.scope)
 	}
-	d.rules = append(d.rules, r)
-	return v, r, nil
+	v, err := t.ValueAt(i)
+	if err != nil {
+		return 0, -1, err
+	}
+	d.rules = append(d.rules, i)
+	return v, i, nil
 }
 
-func (d *hoistData) ruleWord(id string) (string, templates.Rule, error) {
-	r, ok := d.opts.Rules.Lookup(id, d.scope)
-	if !ok {
-		return "", r, fmt.Errorf("rule %s: no row of the %s rules applies", id, d.opts.Rules.Profile)
+// ruleWord looks up a rule whose value is a word, lower-cased.
+func (d *hoistData) ruleWord(id string) (string, int, error) {
+	t := d.opts.Rules
+	i := t.LookupIndex(id, d.scope)
+	if i < 0 {
+		return "", -1, fmt.Errorf("rule %s: no row of the %s rules applies", id, t.Profile)
 	}
-	d.rules = append(d.rules, r)
-	return strings.ToLower(strings.TrimSpace(r.Value)), r, nil
+	d.rules = append(d.rules, i)
+	return strings.ToLower(strings.TrimSpace(t.Rules[i].Value)), i, nil
 }
 
 // resolve reads an asset into hoistData: SI values with defaults applied and reported.
@@ -351,7 +397,7 @@ type checkSpec struct {
 	// prepare looks up rules and returns the function to evaluate at any hoist state,
 	// with the rule text and source; an error makes the check unchecked (missing rule) or
 	// error.
-	prepare func(d *hoistData) (run func(h calc.Hoist) (calc.Outcome, error), rules []templates.Rule, err error)
+	prepare func(d *hoistData) (run func(h calc.Hoist) (calc.Outcome, error), rules []int, err error)
 }
 
 func needsMotorRadius(d *hoistData) []string {
@@ -382,10 +428,10 @@ func join(lists ...[]string) []string {
 
 // checkSpecs returns the checks in fleet.CheckIDs order.
 func checkSpecs() []checkSpec {
-	ruleOf := func(d *hoistData, id string) (float64, templates.Rule, error) { return d.rule(id) }
+	ruleOf := func(d *hoistData, id string) (float64, int, error) { return d.rule(id) }
 	return []checkSpec{
 		{id: "rope-design-factor", needs: join(loadNeeds, []string{"rope_mbf"}), uses: join(reevingUses, []string{"rope_grade", "rope_construction", "duty_group"}), loadDependent: true, linear: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				z, rz, err := ruleOf(d, "rope.design_factor")
 				if err != nil {
 					return nil, nil, err
@@ -395,15 +441,15 @@ func checkSpecs() []checkSpec {
 					return nil, nil, err
 				}
 				static := basis == "static"
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, z, static) }, []templates.Rule{rz, rb}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, z, static) }, []int{rz, rb}, nil
 			}},
 		{id: "drum-ratio", needs: []string{"drum_diameter", "rope_diameter"}, uses: []string{"duty_group"}, nullsRating: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				h1, r, err := ruleOf(d, "drum.h1")
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumRatio(h, h1) }, []templates.Rule{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumRatio(h, h1) }, []int{r}, nil
 			}},
 		{id: "sheave-ratio", needs: []string{"sheave_diameter", "rope_diameter"}, uses: []string{"duty_group"}, nullsRating: true,
 			applicable: func(d *hoistData) (bool, string) {
@@ -412,23 +458,23 @@ func checkSpecs() []checkSpec {
 				}
 				return true, ""
 			},
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				h2, r, err := ruleOf(d, "sheave.h2")
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.SheaveRatio(h, h2) }, []templates.Rule{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.SheaveRatio(h, h2) }, []int{r}, nil
 			}},
 		{id: "drum-capacity", needs: []string{"drum_diameter", "rope_diameter", "lift_height", "drum_grooves"}, uses: []string{"parts_of_line", "rope_ends", "rope_layers"}, nullsRating: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				w, r, err := ruleOf(d, "drum.dead_wraps")
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumCapacity(h, w) }, []templates.Rule{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumCapacity(h, w) }, []int{r}, nil
 			}},
 		{id: "fleet-angle", needs: []string{"fleet_angle"}, uses: []string{"drum_grooved"}, nullsRating: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				id := "fleet_angle.max_grooved"
 				if !d.h.Grooved {
 					id = "fleet_angle.max_plain"
@@ -441,26 +487,26 @@ func checkSpecs() []checkSpec {
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, []templates.Rule{r1, r2}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, []int{r1, r2}, nil
 			}},
 		{id: "motor-torque", rule: "steady hoisting torque ≤ rated motor torque M_r = P / ω_m", source: "motor rating from the register; statics of the drive train (textbook)", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), uses: driveUses, loadDependent: true, linear: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				return calc.MotorTorque, nil, nil
 			}},
 		{id: "motor-power", rule: "steady hoisting power ≤ rated motor power P", source: "motor rating from the register; P = m g v / η (textbook identity)", needs: join(loadNeeds, []string{"hoist_speed", "motor_power"}), uses: driveUses, loadDependent: true, linear: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				return calc.MotorPower, nil, nil
 			}},
 		{id: "hoist-speed", nullsRating: true, needs: []string{"motor_speed", "drum_diameter", "gear_ratio", "hoist_speed"}, uses: []string{"parts_of_line", "rope_ends"},
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				tol, r, err := ruleOf(d, "hoist_speed.tolerance")
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, tol) }, []templates.Rule{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, tol) }, []int{r}, nil
 			}},
 		{id: "motor-accel-torque", rule: "accelerating torque ≤ peak motor torque p M_r", source: "Newton's second law for load, drum and rotor; peak torque ratio from the register or the rule default", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), uses: driveUses, loadDependent: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				return calc.MotorAccelTorque, nil, nil
 			}},
 		{id: "gearbox-torque", rule: "largest drum-shaft torque ≤ gearbox rated output torque", source: "gear unit rating from the register; Newton's second law", needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), uses: brakeUses, loadDependent: true,
@@ -470,11 +516,11 @@ func checkSpecs() []checkSpec {
 				}
 				return true, ""
 			},
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				return calc.GearboxTorque, nil, nil
 			}},
 		{id: "brake-holding", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), uses: brakeUses, loadDependent: true, linear: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				f, r1, err := ruleOf(d, "brake.factor")
 				if err != nil {
 					return nil, nil, err
@@ -484,19 +530,19 @@ func checkSpecs() []checkSpec {
 					return nil, nil, err
 				}
 				e := each == "yes"
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, []templates.Rule{r1, r2}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, []int{r1, r2}, nil
 			}},
 		{id: "brake-stop", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), uses: join(brakeUses, []string{"rope_mbf"}), loadDependent: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				lim := math.NaN()
-				var rules []templates.Rule
-				if r, ok := d.opts.Rules.Lookup("brake_stop.max_distance", d.scope); ok {
-					v, err := r.ValueSI()
+				var rules []int
+				if i := d.opts.Rules.LookupIndex("brake_stop.max_distance", d.scope); i >= 0 {
+					v, err := d.opts.Rules.ValueAt(i)
 					if err != nil {
 						return nil, nil, err
 					}
-					d.rules = append(d.rules, r)
-					lim, rules = v, []templates.Rule{r}
+					d.rules = append(d.rules, i)
+					lim, rules = v, []int{i}
 				}
 				if len(rules) == 0 {
 					d.closedLimit = calc.BrakeStopLimitKg
@@ -504,17 +550,17 @@ func checkSpecs() []checkSpec {
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, lim) }, rules, nil
 			}},
 		{id: "runaway", rule: "information: no limit", source: "Newton's second law (brake released, motor unpowered)", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), uses: driveUses,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				return calc.Runaway, nil, nil
 			}},
 		{id: "shaft-load", rule: "information: no limit", source: "statics: drum weight plus rope pull", needs: join(loadNeeds, []string{"drum_mass"}), uses: reevingUses,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				return calc.ShaftLoad, nil, nil
 			}},
 		{id: "design-life", needs: []string{"operating_hours"}, uses: []string{"duty_group", "load_spectrum", "spectrum_factor", "usage_records", "commissioned"}, nullsRating: true,
 			prepare: prepareDesignLife},
 		{id: "inspection-due", needs: []string{"last_inspection"}, uses: []string{"service"},
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				months, r, err := ruleOf(d, "inspection.interval_months")
 				if err != nil {
 					return nil, nil, err
@@ -523,23 +569,23 @@ func checkSpecs() []checkSpec {
 				asOf := d.opts.AsOf
 				return func(calc.Hoist) (calc.Outcome, error) {
 					return calc.InspectionDue(last, asOf, int(math.Round(months)))
-				}, []templates.Rule{r}, nil
+				}, []int{r}, nil
 			}},
 		{id: "load-test", needs: join(loadNeeds, []string{"test_load"}), uses: []string{"test_type", "proposed_rated_load"}, noBand: true,
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				f, r, err := ruleOf(d, "load_test.factor")
 				if err != nil {
 					return nil, nil, err
 				}
 				test, _ := d.num("test_load")
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, []templates.Rule{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, []int{r}, nil
 			}},
 		{id: "rope-wear", needs: []string{"rope_diameter"}, uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_reference_diameter", "rope_construction", "rope_fitted"}, nullsRating: true,
 			prepare: prepareRopeWear},
 	}
 }
 
-func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 	if d.group == 0 {
 		return nil, nil, &Error{Kind: Missing, Field: "duty_group", Err: errors.New("needs the duty group (or the usage to derive it)")}
 	}
@@ -563,10 +609,10 @@ func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []
 	hours, _ := d.num("operating_hours")
 	in := calc.LifeInput{OperatingHours: hours / 3600, Km: km, RecordFactor: x, FullLoadDurationH: dur,
 		Commissioned: d.a.Get("commissioned").Date, AsOf: d.opts.AsOf}
-	return func(calc.Hoist) (calc.Outcome, error) { return calc.DesignLife(in) }, []templates.Rule{r1, r2}, nil
+	return func(calc.Hoist) (calc.Outcome, error) { return calc.DesignLife(in) }, []int{r1, r2}, nil
 }
 
-func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []templates.Rule, error) {
+func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 	meas, okm := d.num("rope_measured_diameter")
 	bw, okb := d.num("rope_broken_wires")
 	if !okm && !okb {
@@ -583,14 +629,14 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []te
 	if okb {
 		in.BrokenWires = int(bw)
 	}
-	var rules []templates.Rule
+	var rules []int
 	if okm {
 		v, r, err := d.rule("rope_wear.max_reduction")
 		if err != nil {
 			return nil, nil, err
 		}
 		rules = append(rules, r)
-		if r.Dimension() == "length" {
+		if d.opts.Rules.Rules[r].Dimension() == "length" {
 			in.MaxReductionM = v
 		} else {
 			in.MaxReductionFraction = v
@@ -714,15 +760,7 @@ func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
 	}
 	p.run = run
 	p.closedLimit, d.closedLimit = d.closedLimit, nil
-	var rs, ss []string
-	for _, r := range rules {
-		rs = append(rs, r.String())
-		if cite := r.Cite(); !slices.Contains(ss, cite) { // two rules of one table share a source
-			ss = append(ss, cite)
-		}
-	}
-	p.rule = strings.Join(rs, "; ")
-	p.source = strings.Join(ss, "; ")
+	p.rule, p.source = c.ruleTexts(rules)
 	if p.rule == "" {
 		p.rule, p.source = s.rule, s.source
 	}
@@ -845,7 +883,7 @@ func (c *Checker) fill(cr *CheckResult, o calc.Outcome, noBand bool) {
 // being unable to stop: +1 when the brakes cannot stop the load, −1 when they can.
 func limitFunc(p preparedCheck) func(h calc.Hoist) (float64, bool) {
 	return func(h calc.Hoist) (float64, bool) {
-		h.SkipRecord = true // the search needs numbers only
+		h.SkipRecord, h.SkipDetail = true, true // the search needs numbers only
 		o, err := p.run(h)
 		if err != nil {
 			return 0, false
@@ -1055,11 +1093,15 @@ func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckR
 
 // ruleUses turns use counts into the audit list: every rule in force, sorted by rule id
 // (table order within an id).
-func ruleUses(t *templates.Table, counts map[string]int) []RuleUse {
+func ruleUses(t *templates.Table, counts []int) []RuleUse {
 	out := make([]RuleUse, 0, len(t.Rules))
-	for _, r := range t.Rules {
+	for i, r := range t.Rules {
+		n := 0
+		if i < len(counts) {
+			n = counts[i]
+		}
 		out = append(out, RuleUse{ID: r.ID, Groups: r.Groups, When: r.When, Value: r.Value, Unit: r.Unit,
-			Source: r.Source, Provenance: r.Provenance, Note: r.Note, Origin: r.Origin, Uses: counts[ruleKey(r)]})
+			Source: r.Source, Provenance: r.Provenance, Note: r.Note, Origin: r.Origin, Uses: n})
 	}
 	sort.SliceStable(out, func(i, j int) bool { return out[i].ID < out[j].ID })
 	return out

@@ -40,7 +40,7 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 			summary.Problems = append(summary.Problems, p.Error())
 		}
 	}
-	useCounts := map[string]int{}
+	useCounts := make([]int, len(opts.Rules.Rules)) // uses of each rule row, by index
 
 	g, ctx := errgroup.WithContext(ctx)
 	slots := make(chan struct{}, buffer) // a slot is held from read until written
@@ -107,8 +107,8 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 					return fmt.Errorf("writing results: %w", err)
 				}
 				summary.Add(p)
-				for _, rule := range p.rules {
-					useCounts[ruleKey(rule)]++
+				for _, i := range p.rules {
+					useCounts[i]++
 				}
 				p.rules = nil
 				if progress != nil {

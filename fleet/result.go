@@ -1,9 +1,6 @@
 package fleet
 
-import (
-	"hoistfleet/calc"
-	"hoistfleet/templates"
-)
+import "hoistfleet/calc"
 
 // CheckResult is one check of one hoist.
 type CheckResult struct {
@@ -54,7 +51,7 @@ type Result struct {
 	// or --rated-load-factor), nil when there is none.
 	Proposed *Evaluation
 
-	rules []templates.Rule // rules the checks used, counted for the audit sheet
+	rules []int // rows of the rule table the checks used, counted for the audit sheet
 }
 
 // Check returns the named check of the current evaluation, or nil.

@@ -261,7 +261,8 @@ type Table struct {
 	Profile string
 	Rules   []Rule
 
-	compiled []compiledRule // parallel to Rules when built by this package
+	compiled []compiledRule   // parallel to Rules when built by this package
+	byID     map[string][]int // rows of each id, in table order (built with compiled)
 }
 
 // Profiles lists the built-in rule profiles.
@@ -314,7 +315,21 @@ func NewTable(profile string, rules []Rule) (*Table, error) {
 		}
 		t.compiled[i] = c
 	}
+	t.index()
 	return t, nil
+}
+
+// index precomputes each row's text, citation and SI value and groups the rows by id,
+// so that a lookup per hoist scans only its id's rows and allocates nothing.
+func (t *Table) index() {
+	t.byID = make(map[string][]int)
+	for i := range t.Rules {
+		r := &t.Rules[i]
+		t.byID[r.ID] = append(t.byID[r.ID], i)
+		c := &t.compiled[i]
+		c.text, c.cite = r.String(), r.Cite()
+		c.si, c.siErr = r.ValueSI()
+	}
 }
 
 // Override returns a new table: each user row replaces the built-in rows with the same
@@ -345,6 +360,7 @@ func (t *Table) Override(user []Rule) *Table {
 		}
 		out.compiled[i] = c
 	}
+	out.index()
 	return out
 }
 
@@ -353,42 +369,82 @@ func (t *Table) Override(user []Rule) *Table {
 // conditions; then the narrowest group span (one group, a range, "all"); then the later
 // row. ok is false when no row applies.
 func (t *Table) Lookup(id string, s Scope) (Rule, bool) {
+	i := t.LookupIndex(id, s)
+	if i < 0 {
+		return Rule{}, false
+	}
+	return t.Rules[i], true
+}
+
+// LookupIndex is Lookup returning the row's index in t.Rules, or -1 when no row
+// applies. With an indexed table (NewTable, Profile, Override) it allocates nothing.
+func (t *Table) LookupIndex(id string, s Scope) int {
 	best, bestConds, bestSpan := -1, -1, 0
-	for i := range t.Rules {
-		if t.Rules[i].ID != id {
-			continue
-		}
-		var c compiledRule
-		if len(t.compiled) == len(t.Rules) {
-			c = t.compiled[i]
-		} else {
-			var err error
-			if c, err = compile(t.Rules[i]); err != nil {
-				continue
-			}
-		}
+	consider := func(i int, c *compiledRule) {
 		if !c.matches(s) {
-			continue
+			return
 		}
 		span := c.hi - c.lo
 		if len(c.conds) > bestConds || (len(c.conds) == bestConds && span <= bestSpan) {
 			best, bestConds, bestSpan = i, len(c.conds), span
 		}
 	}
-	if best < 0 {
-		return Rule{}, false
+	if t.byID != nil && len(t.compiled) == len(t.Rules) {
+		for _, i := range t.byID[id] {
+			consider(i, &t.compiled[i])
+		}
+		return best
 	}
-	return t.Rules[best], true
+	for i := range t.Rules { // a Table built without NewTable
+		if t.Rules[i].ID != id {
+			continue
+		}
+		c, err := compile(t.Rules[i])
+		if err != nil {
+			continue
+		}
+		consider(i, &c)
+	}
+	return best
+}
+
+// RuleText is Rules[i].String(), precomputed for an indexed table.
+func (t *Table) RuleText(i int) string {
+	if len(t.compiled) == len(t.Rules) && t.byID != nil {
+		return t.compiled[i].text
+	}
+	return t.Rules[i].String()
+}
+
+// RuleCite is Rules[i].Cite(), precomputed for an indexed table.
+func (t *Table) RuleCite(i int) string {
+	if len(t.compiled) == len(t.Rules) && t.byID != nil {
+		return t.compiled[i].cite
+	}
+	return t.Rules[i].Cite()
+}
+
+// ValueAt is Rules[i].ValueSI(), precomputed for an indexed table.
+func (t *Table) ValueAt(i int) (float64, error) {
+	if len(t.compiled) == len(t.Rules) && t.byID != nil {
+		return t.compiled[i].si, t.compiled[i].siErr
+	}
+	return t.Rules[i].ValueSI()
 }
 
 // Value looks up id and returns its value converted by ValueSI, with the rule.
 func (t *Table) Value(id string, s Scope) (float64, Rule, error) {
-	r, ok := t.Lookup(id, s)
-	if !ok {
-		return 0, Rule{}, fmt.Errorf("rule %s: no row of the %s rules applies (group %s%s)", id, t.Profile, groupName(s.Group), scopeText(s))
+	i := t.LookupIndex(id, s)
+	if i < 0 {
+		return 0, Rule{}, t.NoRowError(id, s)
 	}
-	v, err := r.ValueSI()
-	return v, r, err
+	v, err := t.ValueAt(i)
+	return v, t.Rules[i], err
+}
+
+// NoRowError is the error for a rule id no row of t applies to in scope s.
+func (t *Table) NoRowError(id string, s Scope) error {
+	return fmt.Errorf("rule %s: no row of the %s rules applies (group %s%s)", id, t.Profile, groupName(s.Group), scopeText(s))
 }
 
 func groupName(g int) string {
@@ -418,6 +474,10 @@ type compiledRule struct {
 	lo, hi int // group span: 1..8, or 0..9 for "all" (also matches an unknown group)
 	conds  []condition
 	never  bool
+	// precomputed by Table.index
+	text, cite string
+	si         float64
+	siErr      error
 }
 
 type condition struct {
@@ -428,7 +488,7 @@ type condition struct {
 	isNum bool // the value parsed as a number
 }
 
-func (c compiledRule) matches(s Scope) bool {
+func (c *compiledRule) matches(s Scope) bool {
 	if c.never {
 		return false
 	}
