@@ -21,16 +21,16 @@ import (
 
 // dynTrain is the validated data of the hoisting train, shared by the dynamics checks.
 type dynTrain struct {
-	g      float64   // acceleration of gravity [m/s²]
-	m      float64   // m = m_L + m_H [kg]
-	n, e   float64   // parts of line, rope ends on the drum
-	ne     float64   // n_e = n / e
-	etaR   float64   // η_R reeving efficiency
-	etaRD  float64   // η_RD = η_R η_D
-	etaG   float64   // η_g, forward
-	etaGB  float64   // η_gb, back-driving (≤ 0: self-locking)
-	etaL   float64   // η_l = η_RD η_gb
-	i      float64   // gear ratio
+	g      float64    // acceleration of gravity [m/s²]
+	m      float64    // m = m_L + m_H [kg]
+	n, e   float64    // parts of line, rope ends on the drum
+	ne     float64    // n_e = n / e
+	etaR   float64    // η_R reeving efficiency
+	etaRD  float64    // η_RD = η_R η_D
+	etaG   float64    // η_g, forward
+	etaGB  float64    // η_gb, back-driving (≤ 0: self-locking)
+	etaL   float64    // η_l = η_RD η_gb
+	i      float64    // gear ratio
 	id, jm float64    // I_d drum inertia, J_m motor-shaft inertia [kg m²]
 	radii  [2]float64 // r_1 and, with L > 1, r_L [m]
 	nr     int        // radii in use: 1, or 2 with L > 1
