@@ -31,6 +31,16 @@ import (
 // It returns a *RangeError when the last inspection date or the run date is missing, the
 // last inspection is after the run date, or intervalMonths < 1.
 func InspectionDue(last, asOf time.Time, intervalMonths int) (Outcome, error) {
+	return inspectionDue(last, asOf, intervalMonths, true)
+}
+
+// InspectionDueNumbers is InspectionDue without the calculation record (Outcome.Steps):
+// the same numbers, figures and note, for bulk runs.
+func InspectionDueNumbers(last, asOf time.Time, intervalMonths int) (Outcome, error) {
+	return inspectionDue(last, asOf, intervalMonths, false)
+}
+
+func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outcome, error) {
 	switch {
 	case last.IsZero():
 		return Outcome{}, &RangeError{Field: "last_inspection", Msg: "no last inspection date"}
@@ -63,12 +73,14 @@ func InspectionDue(last, asOf time.Time, intervalMonths int) (Outcome, error) {
 			{Name: "days_since_last", Value: float64(since), Unit: "d"},
 			{Name: "interval_days", Value: float64(interval), Unit: "d"},
 		},
-		Steps: []Step{
+	}
+	if record {
+		o.Steps = []Step{
 			{Symbol: "next due", Formula: "last + interval (calendar months)", Numbers: fmt.Sprintf("%s + %d months = %s", lifeISO(l), intervalMonths, lifeISO(next)), Value: math.NaN(), Unit: "date"},
 			{Symbol: "days since", Formula: "as-of − last", Numbers: fmt.Sprintf("%s − %s", lifeISO(a), lifeISO(l)), Value: float64(since), Unit: "d"},
 			{Symbol: "interval", Formula: "next due − last", Numbers: fmt.Sprintf("%s − %s", lifeISO(next), lifeISO(l)), Value: float64(interval), Unit: "d"},
 			{Symbol: "u", Formula: "days since / interval", Numbers: fmt.Sprintf("%d / %d", since, interval), Value: u, Unit: "1"},
-		},
+		}
 	}
 	if overdue > 0 {
 		o.Note = fmt.Sprintf("periodic inspection overdue by %d days (due %s)", overdue, lifeISO(next))

@@ -40,6 +40,8 @@ type LifeInput struct {
 	// run's date (zero = unknown). Both are read as calendar dates. They only set the
 	// usage rate and the projected overhaul date.
 	Commissioned, AsOf time.Time
+	// SkipRecord: do not build Outcome.Steps (the calculation record); same numbers.
+	SkipRecord bool
 }
 
 // DesignLife is the design-life check: the used part of the theoretical design life of a
@@ -86,12 +88,15 @@ func DesignLife(in LifeInput) (Outcome, error) {
 		Utilisation: s / d,
 		Verdict:     ByUtilisation,
 	}
-	o.Steps = []Step{
-		{Symbol: "S", Formula: "X · km · T", Numbers: fmt.Sprintf("%s · %s · %s", dutyNum(x), dutyNum(km), dutyNum(t)), Value: s, Unit: "h"},
-		{Symbol: "D", Formula: "full-load duration of the class", Numbers: dutyNum(d), Value: d, Unit: "h"},
-		{Symbol: "u", Formula: "S / D", Numbers: fmt.Sprintf("%s / %s", dutyNum(s), dutyNum(d)), Value: s / d, Unit: "1"},
-		{Symbol: "D − S", Formula: "D − S", Numbers: fmt.Sprintf("%s − %s", dutyNum(d), dutyNum(s)), Value: remaining, Unit: "h"},
-		{Symbol: "T_left", Formula: "(D − S) / (X · km)", Numbers: fmt.Sprintf("%s / (%s · %s)", dutyNum(remaining), dutyNum(x), dutyNum(km)), Value: remainingOp, Unit: "h"},
+	rec := !in.SkipRecord
+	if rec {
+		o.Steps = []Step{
+			{Symbol: "S", Formula: "X · km · T", Numbers: fmt.Sprintf("%s · %s · %s", dutyNum(x), dutyNum(km), dutyNum(t)), Value: s, Unit: "h"},
+			{Symbol: "D", Formula: "full-load duration of the class", Numbers: dutyNum(d), Value: d, Unit: "h"},
+			{Symbol: "u", Formula: "S / D", Numbers: fmt.Sprintf("%s / %s", dutyNum(s), dutyNum(d)), Value: s / d, Unit: "1"},
+			{Symbol: "D − S", Formula: "D − S", Numbers: fmt.Sprintf("%s − %s", dutyNum(d), dutyNum(s)), Value: remaining, Unit: "h"},
+			{Symbol: "T_left", Formula: "(D − S) / (X · km)", Numbers: fmt.Sprintf("%s / (%s · %s)", dutyNum(remaining), dutyNum(x), dutyNum(km)), Value: remainingOp, Unit: "h"},
+		}
 	}
 
 	rate := math.NaN()
@@ -110,7 +115,9 @@ func DesignLife(in LifeInput) (Outcome, error) {
 			note = fmt.Sprintf("%s h in %d days is more than 24 h a day: check the commissioning date and the hour meter", dutyNum(t), days)
 		default:
 			rate = t / float64(days)
-			o.Steps = append(o.Steps, Step{Symbol: "rate", Formula: "T / days in service", Numbers: fmt.Sprintf("%s / %d", dutyNum(t), days), Value: rate, Unit: "h/day"})
+			if rec {
+				o.Steps = append(o.Steps, Step{Symbol: "rate", Formula: "T / days in service", Numbers: fmt.Sprintf("%s / %d", dutyNum(t), days), Value: rate, Unit: "h/day"})
+			}
 			if rate > 0 {
 				// Days are rounded down; 1e-9 d keeps an exact whole number of days
 				// (608.9999999 from rounding) from losing a day.
@@ -118,8 +125,10 @@ func DesignLife(in LifeInput) (Outcome, error) {
 				if math.Abs(left) < 1e6 { // beyond ~2700 years a date means nothing
 					dd := a.AddDate(0, 0, int(left))
 					due = lifeISO(dd)
-					o.Steps = append(o.Steps, Step{Symbol: "overhaul due", Formula: "as-of + T_left / rate (days, rounded down)",
-						Numbers: fmt.Sprintf("%s + ⌊%s / %s⌋ d = %s", lifeISO(a), dutyNum(remainingOp), dutyNum(rate), due), Value: math.NaN(), Unit: "date"})
+					if rec {
+						o.Steps = append(o.Steps, Step{Symbol: "overhaul due", Formula: "as-of + T_left / rate (days, rounded down)",
+							Numbers: fmt.Sprintf("%s + ⌊%s / %s⌋ d = %s", lifeISO(a), dutyNum(remainingOp), dutyNum(rate), due), Value: math.NaN(), Unit: "date"})
+					}
 				} else {
 					note = "at the present usage rate the full-load duration is not reached within a thousand years"
 				}

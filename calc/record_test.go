@@ -7,6 +7,7 @@ package calc_test
 import (
 	"math"
 	"testing"
+	"time"
 
 	"hoistfleet/calc"
 )
@@ -296,6 +297,55 @@ func TestSkipDetailSameNumbers(t *testing.T) {
 						full.Demand, full.Capacity, full.Utilisation, full.Verdict,
 						bare.Demand, bare.Capacity, bare.Utilisation, bare.Verdict)
 				}
+			}
+		}
+	}
+}
+
+// TestSkipRecordLifeChecks: design-life, rope-wear and inspection-due give the same
+// numbers, figures and notes without their calculation record, and no record. Inputs:
+// FEM 9.755 class M5 D = 6300 h (standards.md, seen) with X 1.2 (memory, low); ISO 4309
+// 7.5 % diameter decrease (seen) and the ASME B30.2 1/32 in band (seen); a 12-month
+// interval (29 CFR 1910.179(j)(2), law).
+func TestSkipRecordLifeChecks(t *testing.T) {
+	day := func(y, m, d int) time.Time { return time.Date(y, time.Month(m), d, 0, 0, 0, 0, time.UTC) }
+	type check struct {
+		name string
+		f    func(skip bool) (calc.Outcome, error)
+	}
+	life := calc.LifeInput{OperatingHours: 4000, Km: 0.5, RecordFactor: 1.2, FullLoadDurationH: 6300,
+		Commissioned: day(2016, 3, 1), AsOf: day(2026, 12, 1)}
+	wearISO := calc.WearInput{NominalM: 0.020, ReferenceM: 0.0205, MeasuredM: 0.0191, MaxReductionFraction: 0.075,
+		BrokenWires: 3, MaxBrokenWires: 6, Fitted: day(2022, 5, 1), AsOf: day(2026, 12, 1)}
+	wearUS := calc.WearInput{NominalM: 0.01905, MeasuredM: 0.0185, MaxReductionM: 0.0254 / 32, BrokenWires: -1}
+	checks := []check{
+		{"design-life", func(skip bool) (calc.Outcome, error) { in := life; in.SkipRecord = skip; return calc.DesignLife(in) }},
+		{"rope-wear iso", func(skip bool) (calc.Outcome, error) { in := wearISO; in.SkipRecord = skip; return calc.RopeWear(in) }},
+		{"rope-wear us", func(skip bool) (calc.Outcome, error) { in := wearUS; in.SkipRecord = skip; return calc.RopeWear(in) }},
+		{"inspection-due", func(skip bool) (calc.Outcome, error) {
+			if skip {
+				return calc.InspectionDueNumbers(day(2025, 10, 31), day(2026, 12, 1), 12)
+			}
+			return calc.InspectionDue(day(2025, 10, 31), day(2026, 12, 1), 12)
+		}},
+	}
+	for _, c := range checks {
+		full, err1 := c.f(false)
+		bare, err2 := c.f(true)
+		if err1 != nil || err2 != nil {
+			t.Fatalf("%s: %v / %v", c.name, err1, err2)
+		}
+		if len(full.Steps) == 0 || bare.Steps != nil {
+			t.Errorf("%s: %d steps with the record, %d without", c.name, len(full.Steps), len(bare.Steps))
+		}
+		if !recSame(full.Demand, bare.Demand) || !recSame(full.Capacity, bare.Capacity) || !recSame(full.Utilisation, bare.Utilisation) ||
+			full.Verdict != bare.Verdict || full.Note != bare.Note || full.Unit != bare.Unit || len(full.Figures) != len(bare.Figures) {
+			t.Errorf("%s: outcomes differ:\n%+v\n%+v", c.name, full, bare)
+			continue
+		}
+		for i, f := range full.Figures {
+			if b := bare.Figures[i]; f.Name != b.Name || f.Text != b.Text || !recSame(f.Value, b.Value) {
+				t.Errorf("%s: figure %d %+v vs %+v", c.name, i, f, b)
 			}
 		}
 	}

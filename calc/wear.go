@@ -79,6 +79,9 @@ type WearInput struct {
 	// MaxBrokenWires the discard count (≤ 0 = no criterion).
 	BrokenWires, MaxBrokenWires int
 
+	// SkipRecord: do not build Outcome.Steps (the calculation record); same numbers.
+	SkipRecord bool
+
 	// Fitted is the date the rope was installed and AsOf the run's date (zero = unknown);
 	// they only give the rope's age.
 	Fitted, AsOf time.Time
@@ -127,6 +130,7 @@ func RopeWear(in WearInput) (Outcome, error) {
 	var demand, capacity float64
 	unit := "m"
 	var steps []Step
+	rec := !in.SkipRecord
 
 	hasDia := in.MeasuredM > 0 && (in.MaxReductionM > 0 || in.MaxReductionFraction > 0)
 	hasBW := in.BrokenWires >= 0 && in.MaxBrokenWires > 0
@@ -136,9 +140,11 @@ func RopeWear(in WearInput) (Outcome, error) {
 		if in.MaxReductionM > 0 {
 			r := math.Max(0, in.NominalM-dm)
 			u := r / in.MaxReductionM
-			steps = append(steps,
-				Step{Symbol: "Δd_nom", Formula: "max(0, d_nom − d_meas)", Numbers: fmt.Sprintf("max(0, %s − %s)", wearMM(in.NominalM), wearMM(dm)), Value: r, Unit: "m"},
-				Step{Symbol: "u_abs", Formula: "Δd_nom / limit", Numbers: fmt.Sprintf("%s / %s", wearMM(r), wearMM(in.MaxReductionM)), Value: u, Unit: "1"})
+			if rec {
+				steps = append(steps,
+					Step{Symbol: "Δd_nom", Formula: "max(0, d_nom − d_meas)", Numbers: fmt.Sprintf("max(0, %s − %s)", wearMM(in.NominalM), wearMM(dm)), Value: r, Unit: "m"},
+					Step{Symbol: "u_abs", Formula: "Δd_nom / limit", Numbers: fmt.Sprintf("%s / %s", wearMM(r), wearMM(in.MaxReductionM)), Value: u, Unit: "1"})
+			}
 			uD, red, base, demand, capacity = u, r, in.NominalM, r, in.MaxReductionM
 		}
 		if in.MaxReductionFraction > 0 {
@@ -150,10 +156,12 @@ func RopeWear(in WearInput) (Outcome, error) {
 			r := math.Max(0, b-dm)
 			lim := in.MaxReductionFraction * b
 			u := r / lim
-			steps = append(steps,
-				Step{Symbol: "Δd_ref", Formula: "max(0, d_ref − d_meas)", Numbers: fmt.Sprintf("max(0, %s − %s)", wearMM(b), wearMM(dm)), Value: r, Unit: "m"},
-				Step{Symbol: "limit", Formula: "fraction · d_ref", Numbers: fmt.Sprintf("%s · %s", dutyNum(in.MaxReductionFraction), wearMM(b)), Value: lim, Unit: "m"},
-				Step{Symbol: "u_frac", Formula: "Δd_ref / limit", Numbers: fmt.Sprintf("%s / %s", wearMM(r), wearMM(lim)), Value: u, Unit: "1"})
+			if rec {
+				steps = append(steps,
+					Step{Symbol: "Δd_ref", Formula: "max(0, d_ref − d_meas)", Numbers: fmt.Sprintf("max(0, %s − %s)", wearMM(b), wearMM(dm)), Value: r, Unit: "m"},
+					Step{Symbol: "limit", Formula: "fraction · d_ref", Numbers: fmt.Sprintf("%s · %s", dutyNum(in.MaxReductionFraction), wearMM(b)), Value: lim, Unit: "m"},
+					Step{Symbol: "u_frac", Formula: "Δd_ref / limit", Numbers: fmt.Sprintf("%s / %s", wearMM(r), wearMM(lim)), Value: u, Unit: "1"})
+			}
 			if math.IsNaN(uD) || u > uD {
 				uD, red, base, demand, capacity = u, r, b, r, lim
 			}
@@ -171,7 +179,9 @@ func RopeWear(in WearInput) (Outcome, error) {
 
 	if hasBW {
 		uBW = float64(in.BrokenWires) / float64(in.MaxBrokenWires)
-		steps = append(steps, Step{Symbol: "u_bw", Formula: "broken wires / discard count", Numbers: fmt.Sprintf("%d / %d", in.BrokenWires, in.MaxBrokenWires), Value: uBW, Unit: "1"})
+		if rec {
+			steps = append(steps, Step{Symbol: "u_bw", Formula: "broken wires / discard count", Numbers: fmt.Sprintf("%d / %d", in.BrokenWires, in.MaxBrokenWires), Value: uBW, Unit: "1"})
+		}
 	}
 
 	var u float64

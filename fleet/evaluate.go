@@ -567,8 +567,12 @@ func checkSpecs() []checkSpec {
 				}
 				last := d.a.Get("last_inspection").Date
 				asOf := d.opts.AsOf
+				due := calc.InspectionDueNumbers
+				if d.opts.Record {
+					due = calc.InspectionDue
+				}
 				return func(calc.Hoist) (calc.Outcome, error) {
-					return calc.InspectionDue(last, asOf, int(math.Round(months)))
+					return due(last, asOf, int(math.Round(months)))
 				}, []int{r}, nil
 			}},
 		{id: "load-test", needs: join(loadNeeds, []string{"test_load"}), uses: []string{"test_type", "proposed_rated_load"}, noBand: true,
@@ -608,7 +612,7 @@ func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []
 	}
 	hours, _ := d.num("operating_hours")
 	in := calc.LifeInput{OperatingHours: hours / 3600, Km: km, RecordFactor: x, FullLoadDurationH: dur,
-		Commissioned: d.a.Get("commissioned").Date, AsOf: d.opts.AsOf}
+		Commissioned: d.a.Get("commissioned").Date, AsOf: d.opts.AsOf, SkipRecord: !d.opts.Record}
 	return func(calc.Hoist) (calc.Outcome, error) { return calc.DesignLife(in) }, []int{r1, r2}, nil
 }
 
@@ -619,7 +623,7 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []in
 		return nil, nil, &Error{Kind: Missing, Field: "rope_measured_diameter", Err: errors.New("needs the measured rope diameter or the broken-wire count from the last inspection")}
 	}
 	in := calc.WearInput{NominalM: d.h.RopeDiameterM, MeasuredM: meas, BrokenWires: -1,
-		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.opts.AsOf}
+		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.opts.AsOf, SkipRecord: !d.opts.Record}
 	in.ReferenceM, _ = d.num("rope_reference_diameter")
 	if basis, _, err := d.ruleWord("rope_wear.basis"); err == nil && basis == "nominal" {
 		// The profile measures the reduction from nominal (ASME B30.2), whatever
@@ -779,7 +783,7 @@ func columnHeader(key string) string {
 
 // evaluate runs every prepared check at hoist state h.
 func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck, limits bool) Evaluation {
-	e := Evaluation{RatedLoadKg: h.RatedLoadKg, MinMargin: math.NaN(), Status: StatusPass}
+	e := Evaluation{RatedLoadKg: h.RatedLoadKg, MinMargin: math.NaN(), Status: StatusPass, Checks: make([]CheckResult, 0, len(prepared))}
 	for _, p := range prepared {
 		cr := CheckResult{ID: p.spec.id, Demand: math.NaN(), Capacity: math.NaN(), Utilisation: math.NaN(),
 			Margin: math.NaN(), LimitRatedLoadKg: math.NaN(), Rule: p.rule, Source: p.source,
