@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"hoistfleet/calc"
@@ -35,6 +36,39 @@ type Checker struct {
 	columns []templates.Column // the schema, read once
 	specs   []checkSpec        // the checks, built once
 	texts   sync.Map           // ruleSet → ruleText: the rule and source text of a set of rows
+	ropes   ropeCache          // rope construction text → what calc reads from it
+}
+
+// ropeInfo is what calc reads from a rope construction text: the rule-table category and
+// the EN 12385-4 minimum breaking force factor K.
+type ropeInfo struct {
+	category  string
+	k         float64
+	canonical string
+	kOK       bool
+}
+
+// ropeCache remembers ropeInfo per construction text (a fleet has a handful of
+// constructions; parsing one costs regular expressions). It stops growing at
+// maxRopeCache texts, so a register of random text cannot grow it without bound.
+type ropeCache struct {
+	m sync.Map
+	n atomic.Int64
+}
+
+const maxRopeCache = 4096
+
+func (rc *ropeCache) get(construction string) ropeInfo {
+	if v, ok := rc.m.Load(construction); ok {
+		return v.(ropeInfo)
+	}
+	ri := ropeInfo{category: calc.RopeCategory(construction)}
+	ri.k, ri.canonical, ri.kOK = calc.RopeK(construction)
+	if rc.n.Load() < maxRopeCache {
+		rc.n.Add(1)
+		rc.m.Store(construction, ri)
+	}
+	return ri
 }
 
 // ruleSet names up to four rows of the rule table (indices, unused slots −1): the rows
@@ -216,8 +250,9 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 	if sp := d.scope.Attrs["special"]; sp != "none" && !c.hasCondition("special="+sp) {
 		d.messages = append(d.messages, fmt.Sprintf("special service %q: the %s rules have no stricter row for it, so the ordinary rules were applied; supply a rule file with rows for special=%s", sp, c.opts.Rules.Profile, sp))
 	}
-	if cat := calc.RopeCategory(d.text("rope_construction")); cat != "" {
-		d.scope.Attrs["rope"] = cat
+	rope := c.ropes.get(d.text("rope_construction"))
+	if rope.category != "" {
+		d.scope.Attrs["rope"] = rope.category
 	}
 
 	h := calc.Hoist{G: c.opts.G, SkipRecord: !c.opts.Record}
@@ -267,7 +302,7 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 	// Minimum breaking force from grade and construction (EN 12385-4) when not given.
 	if d.missing["rope_mbf"] && h.RopeDiameterM > 0 {
 		grade, okg := d.num("rope_grade")
-		if k, canon, ok := calc.RopeK(d.text("rope_construction")); ok && okg {
+		if k, canon, ok := rope.k, rope.canonical, rope.kOK; ok && okg {
 			h.RopeMBFN = calc.MBFFromGrade(h.RopeDiameterM, grade, k)
 			delete(d.missing, "rope_mbf")
 			d.derived = append(d.derived, fmt.Sprintf("rope MBF %.1f kN from EN 12385-4: d² R K/1000 with d %g mm, R %g N/mm², K %g (%s)",
@@ -379,7 +414,11 @@ func (d *hoistData) resolveDuty() {
 type checkSpec struct {
 	id    string
 	needs []string // schema keys that must be present (Bad → error, Empty → unchecked)
-	uses  []string // optional keys with defaults: Bad → error, Empty → the default
+	// needsOuterLayer: with more than one rope layer the check needs needsLayered instead
+	// (needs plus the rope diameter, which places the outer layer).
+	needsOuterLayer bool
+	needsLayered    []string
+	uses            []string // optional keys with defaults: Bad → error, Empty → the default
 	// loadDependent checks enter the maximum permissible rated load; linear ones are
 	// solved in closed form (utilisation affine in the rated load), the others by bracketed
 	// root finding.
@@ -398,13 +437,6 @@ type checkSpec struct {
 	// with the rule text and source; an error makes the check unchecked (missing rule) or
 	// error.
 	prepare func(d *hoistData) (run func(h calc.Hoist) (calc.Outcome, error), rules []int, err error)
-}
-
-func needsMotorRadius(d *hoistData) []string {
-	if d.h.Layers > 1 {
-		return []string{"rope_diameter"}
-	}
-	return nil
 }
 
 var loadNeeds = []string{"rated_load"}
@@ -428,6 +460,21 @@ func join(lists ...[]string) []string {
 
 // checkSpecs returns the checks in fleet.CheckIDs order.
 func checkSpecs() []checkSpec {
+	specs := baseCheckSpecs()
+	for i := range specs {
+		s := &specs[i]
+		switch s.id {
+		case "motor-torque", "motor-power", "brake-holding", "motor-accel-torque", "gearbox-torque", "brake-stop", "runaway":
+			// With more than one layer the outer layer's radius needs the rope diameter.
+			s.needsOuterLayer = true
+			s.needsLayered = join(s.needs, []string{"rope_diameter"})
+		}
+	}
+	return specs
+}
+
+// baseCheckSpecs are the checks before the needs that depend on the hoist are added.
+func baseCheckSpecs() []checkSpec {
 	ruleOf := func(d *hoistData, id string) (float64, int, error) { return d.rule(id) }
 	return []checkSpec{
 		{id: "rope-design-factor", needs: join(loadNeeds, []string{"rope_mbf"}), uses: join(reevingUses, []string{"rope_grade", "rope_construction", "duty_group"}), loadDependent: true, linear: true,
@@ -676,8 +723,8 @@ func (c *Checker) Check(a *Asset) *Result {
 	}
 	d := c.resolve(a)
 	prepared := make([]preparedCheck, len(c.specs))
-	for i, s := range c.specs {
-		prepared[i] = c.prepare(d, s)
+	for i := range c.specs {
+		prepared[i] = c.prepare(d, &c.specs[i])
 	}
 	r.Evaluation = c.evaluate(d, d.h, prepared, true)
 	if hs := r.Check("hoist-speed"); hs != nil && hs.Status == StatusFail {
@@ -709,7 +756,7 @@ func (c *Checker) Check(a *Asset) *Result {
 }
 
 type preparedCheck struct {
-	spec checkSpec
+	spec *checkSpec
 	// closedLimit, when set, gives the check's limiting rated load in closed form.
 	closedLimit func(h calc.Hoist) float64
 	run         func(calc.Hoist) (calc.Outcome, error)
@@ -719,7 +766,7 @@ type preparedCheck struct {
 	source      string
 }
 
-func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
+func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 	p := preparedCheck{spec: s}
 	if s.applicable != nil {
 		if ok, why := s.applicable(d); !ok {
@@ -728,9 +775,8 @@ func (c *Checker) prepare(d *hoistData, s checkSpec) preparedCheck {
 		}
 	}
 	needs := s.needs
-	switch s.id {
-	case "motor-torque", "motor-power", "brake-holding", "motor-accel-torque", "gearbox-torque", "brake-stop", "runaway":
-		needs = join(needs, needsMotorRadius(d))
+	if s.needsOuterLayer && d.h.Layers > 1 {
+		needs = s.needsLayered
 	}
 	for _, k := range s.uses {
 		if e, bad := d.bad[k]; bad {

@@ -39,7 +39,7 @@ func TestStatusWorse(t *testing.T) {
 // fakeCheck is a prepared check with a fixed outcome: status st for unrunnable checks
 // (unchecked / error / info), or the outcome the run returns.
 func fakeCheck(id string, st Status, o *calc.Outcome) preparedCheck {
-	p := preparedCheck{spec: checkSpec{id: id}, status: st, message: "fake " + st.String()}
+	p := preparedCheck{spec: &checkSpec{id: id}, status: st, message: "fake " + st.String()}
 	if o != nil {
 		oc := *o
 		p.run = func(calc.Hoist) (calc.Outcome, error) { return oc, nil }
@@ -57,7 +57,7 @@ func TestEvaluationPrecedence(t *testing.T) {
 	c := isoChecker(t)
 	d := &hoistData{a: &Asset{ID: "T-1"}, opts: &c.opts}
 	info := &calc.Outcome{Verdict: calc.Info, Utilisation: math.NaN(), Demand: math.NaN(), Capacity: math.NaN()}
-	calcErr := preparedCheck{spec: checkSpec{id: "calc-error"}, run: func(calc.Hoist) (calc.Outcome, error) {
+	calcErr := preparedCheck{spec: &checkSpec{id: "calc-error"}, run: func(calc.Hoist) (calc.Outcome, error) {
 		return calc.Outcome{}, errors.New("no convergence")
 	}}
 	failOutright := &calc.Outcome{Verdict: calc.Fail, Utilisation: math.NaN(), Demand: math.NaN(), Capacity: 0.25}
