@@ -35,6 +35,7 @@ type Checker struct {
 	opts    Options
 	columns []templates.Column // the schema, read once
 	specs   []checkSpec        // the checks, built once
+	keys    map[string]int     // schema key → index in columns
 	texts   sync.Map           // ruleSet → ruleText: the rule and source text of a set of rows
 	ropes   ropeCache          // rope construction text → what calc reads from it
 }
@@ -126,7 +127,11 @@ func NewChecker(opts Options) (*Checker, error) {
 	if opts.TopN <= 0 {
 		opts.TopN = 20
 	}
-	return &Checker{opts: opts, columns: templates.Columns(), specs: checkSpecs()}, nil
+	c := &Checker{opts: opts, columns: templates.Columns(), specs: checkSpecs(), keys: map[string]int{}}
+	for i, col := range c.columns {
+		c.keys[col.Key] = i
+	}
+	return c, nil
 }
 
 // Options returns the checker's options with defaults applied.
@@ -156,8 +161,9 @@ type hoistData struct {
 	h        calc.Hoist
 	group    int
 	scope    templates.Scope
-	missing  map[string]bool   // empty fields
-	bad      map[string]*Error // unreadable fields
+	keys     map[string]int // schema key → index in missingAt and badAt (the Checker's)
+	missing  []bool         // empty fields, by schema index
+	bad      []*Error       // unreadable fields, by schema index
 	defaults []string
 	derived  []string
 	messages []string
@@ -167,6 +173,21 @@ type hoistData struct {
 	closedLimit func(h calc.Hoist) float64
 	ruleErr     map[string]error // rule lookups that failed, by rule id
 	opts        *Options
+}
+
+// isMissing reports whether the field is empty in the register.
+func (d *hoistData) isMissing(key string) bool {
+	i, ok := d.keys[key]
+	return ok && d.missing[i]
+}
+
+// badField returns the error of an unreadable field.
+func (d *hoistData) badField(key string) (*Error, bool) {
+	i, ok := d.keys[key]
+	if !ok || d.bad[i] == nil {
+		return nil, false
+	}
+	return d.bad[i], true
 }
 
 func (d *hoistData) num(key string) (float64, bool) {
@@ -214,21 +235,22 @@ func (d *hoistData) ruleWord(id string) (string, int, error) {
 
 // resolve reads an asset into hoistData: SI values with defaults applied and reported.
 func (c *Checker) resolve(a *Asset) *hoistData {
-	d := &hoistData{a: a, missing: map[string]bool{}, bad: map[string]*Error{}, opts: &c.opts}
+	d := &hoistData{a: a, keys: c.keys, missing: make([]bool, len(c.columns)), bad: make([]*Error, len(c.columns)),
+		opts: &c.opts, rules: make([]int, 0, 24)}
 	for _, p := range a.Problems {
 		d.messages = append(d.messages, p.Error())
 	}
-	for _, col := range c.columns {
+	for i, col := range c.columns {
 		v := a.Get(col.Key)
 		switch v.State {
 		case Empty:
-			d.missing[col.Key] = true
+			d.missing[i] = true
 		case Bad:
 			e := v.Err
 			if e == nil {
 				e = &Error{Kind: Invalid, Cell: v.Cell, Field: col.Key, Asset: a.ID, Err: fmt.Errorf("unreadable value %q", v.Raw)}
 			}
-			d.bad[col.Key] = e
+			d.bad[i] = e
 			if e.Kind != HeaderProblem { // said once, with the header, not on every row
 				d.messages = append(d.messages, e.Error())
 			}
@@ -279,7 +301,7 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 		h.GearBackEff = v
 	} else {
 		h.GearBackEff = h.GearEff
-		if d.missing["gear_backdrive_efficiency"] {
+		if d.isMissing("gear_backdrive_efficiency") {
 			d.defaults = append(d.defaults, fmt.Sprintf("gear back-drive efficiency = gear efficiency %g", h.GearEff))
 		}
 	}
@@ -300,11 +322,11 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 		d.scope.Nums["d_mm"] = h.RopeDiameterM * 1000
 	}
 	// Minimum breaking force from grade and construction (EN 12385-4) when not given.
-	if d.missing["rope_mbf"] && h.RopeDiameterM > 0 {
+	if d.isMissing("rope_mbf") && h.RopeDiameterM > 0 {
 		grade, okg := d.num("rope_grade")
 		if k, canon, ok := rope.k, rope.canonical, rope.kOK; ok && okg {
 			h.RopeMBFN = calc.MBFFromGrade(h.RopeDiameterM, grade, k)
-			delete(d.missing, "rope_mbf")
+			d.missing[d.keys["rope_mbf"]] = false
 			d.derived = append(d.derived, fmt.Sprintf("rope MBF %.1f kN from EN 12385-4: d² R K/1000 with d %g mm, R %g N/mm², K %g (%s)",
 				h.RopeMBFN/1000, h.RopeDiameterM*1000, grade, k, canon))
 		}
@@ -329,7 +351,7 @@ func (d *hoistData) numDefault(key string, def float64, text string) float64 {
 	if v, ok := d.num(key); ok {
 		return v
 	}
-	if d.missing[key] && text != "" {
+	if d.isMissing(key) && text != "" {
 		d.defaults = append(d.defaults, text)
 	}
 	return def
@@ -345,7 +367,7 @@ func (d *hoistData) numRule(key, ruleID, format string) float64 {
 		d.messages = append(d.messages, err.Error())
 		return math.NaN()
 	}
-	if d.missing[key] {
+	if d.isMissing(key) {
 		d.defaults = append(d.defaults, fmt.Sprintf(format, v)+" (rule "+ruleID+")")
 	}
 	return v
@@ -500,7 +522,7 @@ func baseCheckSpecs() []checkSpec {
 			}},
 		{id: "sheave-ratio", needs: []string{"sheave_diameter", "rope_diameter"}, uses: []string{"duty_group"}, nullsRating: true,
 			applicable: func(d *hoistData) (bool, string) {
-				if d.h.Parts <= d.h.RopeEnds && d.h.DeflectionSheaves == 0 && d.missing["sheave_diameter"] {
+				if d.h.Parts <= d.h.RopeEnds && d.h.DeflectionSheaves == 0 && d.isMissing("sheave_diameter") {
 					return false, "no running sheaves (single part per rope end, no deflection sheaves)"
 				}
 				return true, ""
@@ -558,7 +580,7 @@ func baseCheckSpecs() []checkSpec {
 			}},
 		{id: "gearbox-torque", rule: "largest drum-shaft torque ≤ gearbox rated output torque", source: "gear unit rating from the register; Newton's second law", needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), uses: brakeUses, loadDependent: true,
 			applicable: func(d *hoistData) (bool, string) {
-				if d.missing["gearbox_rated_torque"] {
+				if d.isMissing("gearbox_rated_torque") {
 					return false, "no gearbox rated torque in the register"
 				}
 				return true, ""
@@ -779,18 +801,18 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 		needs = s.needsLayered
 	}
 	for _, k := range s.uses {
-		if e, bad := d.bad[k]; bad {
+		if e, bad := d.badField(k); bad {
 			p.status, p.message = StatusError, e.Error()
 			return p
 		}
 	}
 	var missing []string
 	for _, k := range needs {
-		if e, bad := d.bad[k]; bad {
+		if e, bad := d.badField(k); bad {
 			p.status, p.message = StatusError, e.Error()
 			return p
 		}
-		if d.missing[k] {
+		if d.isMissing(k) {
 			missing = append(missing, columnHeader(k))
 		}
 	}
