@@ -38,6 +38,27 @@ type Checker struct {
 	keys    map[string]int     // schema key → index in columns
 	texts   sync.Map           // ruleSet → ruleText: the rule and source text of a set of rows
 	ropes   ropeCache          // rope construction text → what calc reads from it
+	dflts   sync.Map           // defaultKey → the text saying a rule default was applied
+}
+
+// defaultKey identifies a "default applied" text: its format, rule and value. The value
+// comes from a rule row, so there are at most as many texts as rows.
+type defaultKey struct {
+	format, rule string
+	v            float64
+}
+
+// defaultText is fmt.Sprintf(format, v) + " (rule " + rule + ")", made once per key.
+func (c *Checker) defaultText(format, rule string, v float64) string {
+	k := defaultKey{format, rule, v}
+	if t, ok := c.dflts.Load(k); ok {
+		return t.(string)
+	}
+	t := fmt.Sprintf(format, v) + " (rule " + rule + ")"
+	if v == v { // NaN never equals a key: do not store it
+		c.dflts.Store(k, t)
+	}
+	return t
 }
 
 // ropeInfo is what calc reads from a rope construction text: the rule-table category and
@@ -173,6 +194,7 @@ type hoistData struct {
 	closedLimit func(h calc.Hoist) float64
 	ruleErr     map[string]error // rule lookups that failed, by rule id
 	opts        *Options
+	c           *Checker
 }
 
 // isMissing reports whether the field is empty in the register.
@@ -236,7 +258,7 @@ func (d *hoistData) ruleWord(id string) (string, int, error) {
 // resolve reads an asset into hoistData: SI values with defaults applied and reported.
 func (c *Checker) resolve(a *Asset) *hoistData {
 	d := &hoistData{a: a, keys: c.keys, missing: make([]bool, len(c.columns)), bad: make([]*Error, len(c.columns)),
-		opts: &c.opts, rules: make([]int, 0, 24)}
+		opts: &c.opts, c: c, rules: make([]int, 0, 24)}
 	for _, p := range a.Problems {
 		d.messages = append(d.messages, p.Error())
 	}
@@ -368,7 +390,7 @@ func (d *hoistData) numRule(key, ruleID, format string) float64 {
 		return math.NaN()
 	}
 	if d.isMissing(key) {
-		d.defaults = append(d.defaults, fmt.Sprintf(format, v)+" (rule "+ruleID+")")
+		d.defaults = append(d.defaults, d.c.defaultText(format, ruleID, v))
 	}
 	return v
 }
