@@ -152,7 +152,23 @@ func NewChecker(opts Options) (*Checker, error) {
 	for i, col := range c.columns {
 		c.keys[col.Key] = i
 	}
+	for i := range c.specs {
+		s := &c.specs[i]
+		s.needsAt, s.needsLayeredAt, s.usesAt = c.indices(s.needs), c.indices(s.needsLayered), c.indices(s.uses)
+	}
 	return c, nil
+}
+
+// indices returns the schema indices of keys (a key outside the schema is left out: it
+// can be neither empty nor unreadable).
+func (c *Checker) indices(keys []string) []int {
+	out := make([]int, 0, len(keys))
+	for _, k := range keys {
+		if i, ok := c.keys[k]; ok {
+			out = append(out, i)
+		}
+	}
+	return out
 }
 
 // Options returns the checker's options with defaults applied.
@@ -462,7 +478,9 @@ type checkSpec struct {
 	// (needs plus the rope diameter, which places the outer layer).
 	needsOuterLayer bool
 	needsLayered    []string
-	uses            []string // optional keys with defaults: Bad → error, Empty → the default
+	// needsAt, needsLayeredAt and usesAt are the same keys as schema indices (NewChecker).
+	needsAt, needsLayeredAt, usesAt []int
+	uses                            []string // optional keys with defaults: Bad → error, Empty → the default
 	// loadDependent checks enter the maximum permissible rated load; linear ones are
 	// solved in closed form (utilisation affine in the rated load), the others by bracketed
 	// root finding.
@@ -818,24 +836,24 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 			return p
 		}
 	}
-	needs := s.needs
+	needs := s.needsAt
 	if s.needsOuterLayer && d.h.Layers > 1 {
-		needs = s.needsLayered
+		needs = s.needsLayeredAt
 	}
-	for _, k := range s.uses {
-		if e, bad := d.badField(k); bad {
+	for _, i := range s.usesAt {
+		if e := d.bad[i]; e != nil {
 			p.status, p.message = StatusError, e.Error()
 			return p
 		}
 	}
 	var missing []string
-	for _, k := range needs {
-		if e, bad := d.badField(k); bad {
+	for _, i := range needs {
+		if e := d.bad[i]; e != nil {
 			p.status, p.message = StatusError, e.Error()
 			return p
 		}
-		if d.isMissing(k) {
-			missing = append(missing, columnHeader(k))
+		if d.missing[i] {
+			missing = append(missing, c.columns[i].Header)
 		}
 	}
 	if len(missing) > 0 {
@@ -862,13 +880,6 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 		p.rule, p.source = "information: no stopping-distance limit in the rules in force; fails only when the brakes cannot stop the load", "Newton's second law (emergency stop while lowering)"
 	}
 	return p
-}
-
-func columnHeader(key string) string {
-	if c, ok := templates.ColumnByKey(key); ok {
-		return c.Header
-	}
-	return key
 }
 
 // evaluate runs every prepared check at hoist state h.

@@ -297,3 +297,22 @@ func TestEveryCheckReported(t *testing.T) {
 		t.Errorf("winchA status %v, want pass (a sound design)", r.Status)
 	}
 }
+
+// TestCheckSpecKeysInSchema: every field a check needs or uses is a column of the schema
+// (templates/columns.csv), so that its schema index exists and an empty or unreadable
+// cell in it is never overlooked.
+func TestCheckSpecKeysInSchema(t *testing.T) {
+	c := isoChecker(t)
+	for _, s := range c.specs {
+		for _, list := range [][]string{s.needs, s.needsLayered, s.uses} {
+			for _, k := range list {
+				if _, ok := c.keys[k]; !ok {
+					t.Errorf("%s: field %q is not in the schema", s.id, k)
+				}
+			}
+		}
+		if len(s.needsAt) != len(s.needs) || len(s.usesAt) != len(s.uses) || len(s.needsLayeredAt) != len(s.needsLayered) {
+			t.Errorf("%s: index lists do not match the key lists", s.id)
+		}
+	}
+}
