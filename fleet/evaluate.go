@@ -228,17 +228,24 @@ func (d *hoistData) badField(key string) (*Error, bool) {
 	return d.bad[i], true
 }
 
+// field returns the field's value without copying it; nil when absent.
+func (d *hoistData) field(key string) *Value {
+	i, ok := d.keys[key]
+	if !ok {
+		return nil
+	}
+	return d.a.at(i, key)
+}
+
 func (d *hoistData) num(key string) (float64, bool) {
-	v := d.a.Get(key)
-	if v.State == OK {
+	if v := d.field(key); v != nil && v.State == OK {
 		return v.Num, true
 	}
 	return 0, false
 }
 
 func (d *hoistData) text(key string) string {
-	v := d.a.Get(key)
-	if v.State == OK {
+	if v := d.field(key); v != nil && v.State == OK {
 		return v.Text
 	}
 	return ""
@@ -279,7 +286,11 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 		d.messages = append(d.messages, p.Error())
 	}
 	for i, col := range c.columns {
-		v := a.Get(col.Key)
+		v := a.at(i, col.Key)
+		if v == nil {
+			d.missing[i] = true
+			continue
+		}
 		switch v.State {
 		case Empty:
 			d.missing[i] = true

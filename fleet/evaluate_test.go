@@ -2,6 +2,7 @@ package fleet
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"slices"
 	"strings"
@@ -315,4 +316,34 @@ func TestCheckSpecKeysInSchema(t *testing.T) {
 			t.Errorf("%s: index lists do not match the key lists", s.id)
 		}
 	}
+}
+
+// TestValuesAndFieldsAgree: an asset whose fields are in Values (as the readers fill
+// them) and the same asset keyed in Fields give identical results.
+func TestValuesAndFieldsAgree(t *testing.T) {
+	c := isoChecker(t, stopDistanceRule)
+	for name, a := range map[string]*Asset{"winch A": winchA(t).asset(), "winch B": winchB(t).asset(),
+		"proposed": winchA(t).num("proposed_rated_load", 6000).asset()} {
+		b := &Asset{Row: a.Row, ID: a.ID, Cells: a.Cells, Problems: a.Problems}
+		for k, v := range a.Fields {
+			if err := b.Set(k, v); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if sa, sb := resultText(c.Check(a)), resultText(c.Check(b)); sa != sb {
+			t.Errorf("%s: results differ:\nFields %s\nValues %s", name, sa, sb)
+		}
+	}
+	if err := (&Asset{}).Set("no_such_field", Value{}); err == nil {
+		t.Error("Set of an unknown key: no error")
+	}
+}
+
+// resultText prints everything a result carries except the asset pointer.
+func resultText(r *Result) string {
+	p := "none"
+	if r.Proposed != nil {
+		p = fmt.Sprintf("%+v", *r.Proposed)
+	}
+	return fmt.Sprintf("%+v|%+v|%q|%q|%q|%v|%s", r.Evaluation, r.Rating, r.Messages, r.DefaultsUsed, r.Derived, r.rules, p)
 }

@@ -12,6 +12,8 @@ import (
 	"time"
 
 	"github.com/xuri/excelize/v2"
+
+	"hoistfleet/templates"
 )
 
 // Status is a check's or a hoist's verdict.
@@ -205,10 +207,14 @@ type Cell struct {
 
 // Asset is one register row.
 type Asset struct {
-	Index  int    // 0-based position among data rows (output order)
-	Row    int    // spreadsheet row number (header = 1)
-	ID     string // asset id ("" when missing)
-	Cells  []Cell // every cell as given, aligned with Header.Columns (padded to its length)
+	Index int    // 0-based position among data rows (output order)
+	Row   int    // spreadsheet row number (header = 1)
+	ID    string // asset id ("" when missing)
+	Cells []Cell // every cell as given, aligned with Header.Columns (padded to its length)
+	// Values are the schema fields, converted: Values[i] is the field of
+	// templates.Columns()[i] (NewValues makes the slice); a short or nil slice reads as
+	// Empty. Readers fill Values; Fields is the older keyed form, read when Values is nil.
+	Values []Value
 	Fields map[string]Value
 	// Problems are row-level messages: a duplicated id, a short or long row, an empty row.
 	Problems []*Error
@@ -217,8 +223,46 @@ type Asset struct {
 
 // Get returns a field's value (Empty when absent).
 func (a *Asset) Get(key string) Value {
+	if a.Values != nil {
+		if i, ok := templates.ColumnIndex(key); ok && i < len(a.Values) {
+			return a.Values[i]
+		}
+		return Value{}
+	}
 	if a.Fields == nil {
 		return Value{}
 	}
 	return a.Fields[key]
 }
+
+// at returns the field of schema column i, whose key is key, without copying it; nil
+// when absent (Empty).
+func (a *Asset) at(i int, key string) *Value {
+	if a.Values != nil {
+		if i < len(a.Values) {
+			return &a.Values[i]
+		}
+		return nil
+	}
+	if v, ok := a.Fields[key]; ok {
+		return &v
+	}
+	return nil
+}
+
+// Set stores a field's value by schema key (in Values, made when nil); a key outside the
+// schema is an error.
+func (a *Asset) Set(key string, v Value) error {
+	i, ok := templates.ColumnIndex(key)
+	if !ok {
+		return fmt.Errorf("fleet: %q is not a schema key", key)
+	}
+	if a.Values == nil {
+		a.Values = NewValues()
+	}
+	a.Values[i] = v
+	return nil
+}
+
+// NewValues returns an all-Empty Values slice, one entry per schema column.
+func NewValues() []Value { return make([]Value, templates.ColumnCount()) }

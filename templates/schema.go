@@ -69,15 +69,37 @@ func (c Column) HeaderWithUnit(unit string) string {
 }
 
 var (
-	schemaOnce sync.Once
-	schema     []Column
-	schemaErr  error
+	schemaOnce  sync.Once
+	schema      []Column
+	schemaIndex map[string]int // key → position in schema
+	schemaErr   error
 )
+
+func loadSchema() {
+	schema, schemaErr = parseColumns(columnsCSV)
+	schemaIndex = make(map[string]int, len(schema))
+	for i, c := range schema {
+		schemaIndex[c.Key] = i
+	}
+}
+
+// ColumnCount is len(Columns()), without the copy.
+func ColumnCount() int {
+	Columns() // loads the schema
+	return len(schema)
+}
+
+// ColumnIndex returns the position of the column with that key in Columns().
+func ColumnIndex(key string) (int, bool) {
+	Columns() // loads the schema
+	i, ok := schemaIndex[key]
+	return i, ok
+}
 
 // Columns returns the register schema in template order. The embedded table is checked
 // by the package tests; a malformed table is a programming error.
 func Columns() []Column {
-	schemaOnce.Do(func() { schema, schemaErr = parseColumns(columnsCSV) })
+	schemaOnce.Do(loadSchema)
 	if schemaErr != nil {
 		panic("templates: embedded columns.csv: " + schemaErr.Error())
 	}
@@ -88,11 +110,8 @@ func Columns() []Column {
 
 // ColumnByKey returns the column with that key.
 func ColumnByKey(key string) (Column, bool) {
-	Columns() // loads the schema
-	for _, c := range schema {
-		if c.Key == key {
-			return c, true
-		}
+	if i, ok := ColumnIndex(key); ok {
+		return schema[i], true
 	}
 	return Column{}, false
 }
