@@ -23,7 +23,6 @@
 package csvout
 
 import (
-	"bufio"
 	"fmt"
 	"io"
 	"math"
@@ -55,15 +54,36 @@ var Columns = []string{"row", "asset_id", "site", "hoist_status", "governing_che
 // ProposedColumns follow Columns when the run re-rates.
 var ProposedColumns = []string{"proposed_hoist_status", "proposed_status", "proposed_utilisation"}
 
+// flushAt is how much output the Writer holds before writing it out.
+const flushAt = 64 << 10
+
 // Writer is a fleet.Sink writing the long-form CSV. Errors stick.
+//
+// A hoist's records are built in one buffer and handed to the underlying writer in
+// blocks of about 64 KiB. The text of check ids, units, rules, sources, sites and
+// numbers that repeat from record to record is encoded once and copied after that.
 type Writer struct {
-	bw       *bufio.Writer
+	out      io.Writer
 	opts     Options
 	proposed bool
-	rec      []byte // the record being built, reused
-	tmp      []byte // scratch for figures, reused
-	begun    bool
-	err      error
+	fc       fieldCoder
+	comma1   byte // the separator when it is one byte, else 0
+	// fixedSpecial is set when the separator is one of the bytes the figures field is
+	// made of besides names and texts ("; =", digits, ".-+e", "n/a"): then that field
+	// is checked whole.
+	fixedSpecial bool
+	status       [6]string // encoded status words, by fleet.Status
+	texts        textCache
+	site, gov    memo       // the last site and governing check written
+	memos        [][4]memo  // by check index: the last id, unit, rule and source
+	messages     []freeMemo // by check index: the last message
+	clean        [][]string // by check and figure index: the last name without special bytes
+	nums         *numCache
+	buf          []byte // output not yet written to out
+	pre          []byte // the hoist-level fields of the current hoist, reused
+	tmp          []byte // scratch, reused
+	begun        bool
+	err          error
 }
 
 // New returns a Writer writing to w. Output is buffered: End flushes it.
@@ -71,7 +91,7 @@ func New(w io.Writer, opts Options) *Writer {
 	if opts.Comma == 0 {
 		opts.Comma = ','
 	}
-	return &Writer{bw: bufio.NewWriterSize(w, 64<<10), opts: opts}
+	return &Writer{out: w, opts: opts, nums: new(numCache), buf: make([]byte, 0, flushAt+16<<10)}
 }
 
 var _ fleet.Sink = (*Writer)(nil)
@@ -86,6 +106,14 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 		w.err = fmt.Errorf("csvout: invalid separator %q", w.opts.Comma)
 		return w.err
 	}
+	w.fc = newFieldCoder(w.opts.Comma)
+	if w.opts.Comma < utf8.RuneSelf {
+		w.comma1 = byte(w.opts.Comma)
+	}
+	w.fixedSpecial = hasSpecial(&w.fc, "; =0123456789.-+e/na")
+	for i := range w.status {
+		w.status[i] = string(appendText(&w.fc, nil, fleet.Status(i).String()))
+	}
 	w.proposed = w.opts.Proposed || (info != nil && info.RatedLoadFactor > 0)
 	if h != nil {
 		for _, c := range h.Columns {
@@ -94,10 +122,9 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 			}
 		}
 	}
+	b := w.buf
 	if w.opts.BOM {
-		w.rec = append(w.rec[:0], 0xEF, 0xBB, 0xBF)
-	} else {
-		w.rec = w.rec[:0]
+		b = append(b, 0xEF, 0xBB, 0xBF)
 	}
 	cols := Columns
 	if w.proposed {
@@ -105,12 +132,13 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	}
 	for i, c := range cols {
 		if i > 0 {
-			w.rec = utf8.AppendRune(w.rec, w.opts.Comma)
+			b = w.sep(b)
 		}
-		w.rec = append(w.rec, c...)
+		b = append(b, c...)
 	}
+	w.buf = w.eol(b)
 	w.begun = true
-	return w.flushRecord()
+	return w.err
 }
 
 // Write writes one record per check of r (one record when it has none).
@@ -126,118 +154,205 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.err = fmt.Errorf("csvout: result without an asset")
 		return w.err
 	}
+	w.pre = w.hoist(w.pre[:0], r)
+	b := w.buf
+	if len(r.Checks) == 0 {
+		b = w.noChecks(b, r)
+	}
+	for len(w.memos) < len(r.Checks) {
+		w.memos = append(w.memos, [4]memo{})
+		w.messages = append(w.messages, freeMemo{})
+		w.clean = append(w.clean, nil)
+	}
+	for i := range r.Checks {
+		b = w.check(b, r, i)
+	}
+	w.buf = b
+	if len(b) >= flushAt {
+		w.flush()
+	}
+	return w.err
+}
+
+// hoist appends the hoist-level fields (row … max_rated_load_kg) and a separator.
+func (w *Writer) hoist(b []byte, r *fleet.Result) []byte {
 	site := ""
 	if v := r.Asset.Get("site"); v.State == fleet.OK {
 		site = v.Text
 	}
-	if len(r.Checks) == 0 {
-		msg := ""
-		for i, m := range r.Messages {
-			if i > 0 {
-				msg += "; "
-			}
-			msg += m
+	b = strconv.AppendInt(b, int64(r.Asset.Row), 10)
+	b = w.sep(b)
+	b = appendText(&w.fc, b, r.Asset.ID)
+	b = w.sep(b)
+	b = w.texts.appendText(&w.fc, &w.site, b, site)
+	b = w.sep(b)
+	b = w.appendStatus(b, r.Status)
+	b = w.sep(b)
+	b = w.texts.appendText(&w.fc, &w.gov, b, r.GoverningCheck)
+	b = w.sep(b)
+	b = w.nums.appendNum(b, r.MaxRatedLoadKg)
+	return w.sep(b)
+}
+
+// noChecks appends the one record of a hoist without checks, its messages in the
+// message field.
+func (w *Writer) noChecks(b []byte, r *fleet.Result) []byte {
+	b = append(b, w.pre...)
+	b = w.appendEmpty(b, 10)
+	msg := w.tmp[:0]
+	for i, m := range r.Messages {
+		if i > 0 {
+			msg = append(msg, "; "...)
 		}
-		w.hoist(r, site)
-		w.rec = w.appendEmpty(w.rec, 10)
-		w.sep()
-		w.rec = w.appendText(w.rec, msg)
-		w.sep() // figures
-		if w.proposed {
-			w.sep()
-			if r.Proposed != nil {
-				w.rec = w.appendText(w.rec, r.Proposed.Status.String())
-			}
-			w.rec = w.appendEmpty(w.rec, 2)
-		}
-		return w.flushRecord()
+		msg = append(msg, m...)
 	}
-	for i := range r.Checks {
-		c := &r.Checks[i]
-		w.hoist(r, site)
-		w.sep()
-		w.rec = w.appendText(w.rec, c.ID)
-		w.sep()
-		w.rec = w.appendText(w.rec, c.Status.String())
-		w.sep()
-		w.rec = appendNum(w.rec, c.Demand)
-		w.sep()
-		w.rec = appendNum(w.rec, c.Capacity)
-		w.sep()
-		w.rec = w.appendText(w.rec, c.Unit)
-		w.sep()
-		w.rec = appendNum(w.rec, c.Utilisation)
-		w.sep()
-		w.rec = appendNum(w.rec, c.Margin)
-		w.sep()
-		w.rec = appendNum(w.rec, c.LimitRatedLoadKg)
-		w.sep()
-		w.rec = w.appendText(w.rec, c.Rule)
-		w.sep()
-		w.rec = w.appendText(w.rec, c.Source)
-		w.sep()
-		w.rec = w.appendText(w.rec, c.Message)
-		w.sep()
-		w.tmp = AppendFigures(w.tmp[:0], c)
-		w.rec = w.appendTextBytes(w.rec, w.tmp)
-		if w.proposed {
-			w.sep()
-			if p := r.Proposed; p != nil {
-				w.rec = w.appendText(w.rec, p.Status.String())
-				w.sep()
-				if pc := p.Check(c.ID); pc != nil {
-					w.rec = w.appendText(w.rec, pc.Status.String())
-					w.sep()
-					w.rec = appendNum(w.rec, pc.Utilisation)
-				} else {
-					w.sep()
-				}
+	w.tmp = msg
+	b = appendText(&w.fc, b, msg)
+	b = w.sep(b) // figures
+	if w.proposed {
+		b = w.sep(b)
+		if r.Proposed != nil {
+			b = w.appendStatus(b, r.Proposed.Status)
+		}
+		b = w.appendEmpty(b, 2)
+	}
+	return w.eol(b)
+}
+
+// check appends the record of check i of r.
+func (w *Writer) check(b []byte, r *fleet.Result, i int) []byte {
+	c, m := &r.Checks[i], &w.memos[i]
+	b = append(b, w.pre...)
+	b = w.texts.appendText(&w.fc, &m[0], b, c.ID)
+	b = w.sep(b)
+	b = w.appendStatus(b, c.Status)
+	b = w.sep(b)
+	b = w.nums.appendNum(b, c.Demand)
+	b = w.sep(b)
+	b = w.nums.appendNum(b, c.Capacity)
+	b = w.sep(b)
+	b = w.texts.appendText(&w.fc, &m[1], b, c.Unit)
+	b = w.sep(b)
+	b = w.nums.appendNum(b, c.Utilisation)
+	b = w.sep(b)
+	b = w.nums.appendNum(b, c.Margin)
+	b = w.sep(b)
+	b = w.nums.appendNum(b, c.LimitRatedLoadKg)
+	b = w.sep(b)
+	b = w.texts.appendText(&w.fc, &m[2], b, c.Rule)
+	b = w.sep(b)
+	b = w.texts.appendText(&w.fc, &m[3], b, c.Source)
+	b = w.sep(b)
+	b = w.messages[i].appendText(&w.fc, b, c.Message)
+	b = w.sep(b)
+	b = w.appendFigures(b, c, i)
+	if w.proposed {
+		b = w.sep(b)
+		if p := r.Proposed; p != nil {
+			b = w.appendStatus(b, p.Status)
+			b = w.sep(b)
+			if pc := p.Check(c.ID); pc != nil {
+				b = w.appendStatus(b, pc.Status)
+				b = w.sep(b)
+				b = w.nums.appendNum(b, pc.Utilisation)
 			} else {
-				w.rec = w.appendEmpty(w.rec, 2)
+				b = w.sep(b)
 			}
-		}
-		if err := w.flushRecord(); err != nil {
-			return err
+		} else {
+			b = w.appendEmpty(b, 2)
 		}
 	}
-	return nil
+	return w.eol(b)
 }
 
-// hoist starts a record with the hoist-level fields (row … max_rated_load_kg).
-func (w *Writer) hoist(r *fleet.Result, site string) {
-	w.rec = strconv.AppendInt(w.rec[:0], int64(r.Asset.Row), 10)
-	w.sep()
-	w.rec = w.appendText(w.rec, r.Asset.ID)
-	w.sep()
-	w.rec = w.appendText(w.rec, site)
-	w.sep()
-	w.rec = w.appendText(w.rec, r.Status.String())
-	w.sep()
-	w.rec = w.appendText(w.rec, r.GoverningCheck)
-	w.sep()
-	w.rec = appendNum(w.rec, r.MaxRatedLoadKg)
+// appendFigures appends the figures field of c: AppendFigures, encoded as a text field.
+// It is built in place; only a field that needs a guard or quotes is encoded again.
+// ci is the check's index in its result.
+func (w *Writer) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
+	if len(c.Figures) == 0 {
+		return b
+	}
+	start := len(b)
+	special := w.fixedSpecial
+	clean := w.clean[ci]
+	for len(clean) < len(c.Figures) {
+		clean = append(clean, "")
+	}
+	w.clean[ci] = clean
+	for i := range c.Figures {
+		f := &c.Figures[i]
+		if i > 0 {
+			b = append(b, "; "...)
+		}
+		b = append(b, f.Name...)
+		b = append(b, '=')
+		if f.Name != clean[i] {
+			if hasSpecial(&w.fc, f.Name) {
+				special = true
+			} else {
+				clean[i] = f.Name
+			}
+		}
+		switch {
+		case f.Text != "":
+			b = append(b, f.Text...)
+			special = special || hasSpecial(&w.fc, f.Text)
+		case math.IsNaN(f.Value) || math.IsInf(f.Value, 0):
+			b = append(b, "n/a"...)
+		default:
+			b = w.nums.appendG(b, f.Value)
+		}
+	}
+	if c0 := b[start]; !special && c0 != ' ' && !isGuardByte(c0) {
+		return b
+	}
+	w.tmp = append(w.tmp[:0], b[start:]...)
+	return appendText(&w.fc, b[:start], w.tmp)
 }
 
-func (w *Writer) sep() { w.rec = utf8.AppendRune(w.rec, w.opts.Comma) }
+// appendStatus appends a status word.
+func (w *Writer) appendStatus(b []byte, s fleet.Status) []byte {
+	if s >= 0 && int(s) < len(w.status) {
+		return append(b, w.status[s]...)
+	}
+	return appendText(&w.fc, b, s.String())
+}
+
+func (w *Writer) sep(b []byte) []byte {
+	if w.comma1 != 0 {
+		return append(b, w.comma1)
+	}
+	return append(b, w.fc.comma...)
+}
 
 // appendEmpty appends n separators (n empty fields after the current one).
 func (w *Writer) appendEmpty(b []byte, n int) []byte {
 	for range n {
-		b = utf8.AppendRune(b, w.opts.Comma)
+		b = w.sep(b)
 	}
 	return b
 }
 
-func (w *Writer) flushRecord() error {
+func (w *Writer) eol(b []byte) []byte {
 	if w.opts.UseCRLF {
-		w.rec = append(w.rec, '\r', '\n')
-	} else {
-		w.rec = append(w.rec, '\n')
+		return append(b, '\r', '\n')
 	}
-	if _, err := w.bw.Write(w.rec); err != nil {
+	return append(b, '\n')
+}
+
+// flush writes the buffered output to the underlying writer.
+func (w *Writer) flush() {
+	if len(w.buf) == 0 || w.err != nil {
+		return
+	}
+	n, err := w.out.Write(w.buf)
+	if err == nil && n < len(w.buf) {
+		err = io.ErrShortWrite
+	}
+	if err != nil {
 		w.err = fmt.Errorf("csvout: %w", err)
 	}
-	return w.err
+	w.buf = w.buf[:0]
 }
 
 // End flushes everything to the underlying writer.
@@ -245,101 +360,12 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if w.err != nil {
 		return w.err
 	}
-	if err := w.bw.Flush(); err != nil {
-		w.err = fmt.Errorf("csvout: %w", err)
-	}
+	w.flush()
 	return w.err
 }
 
 // Abort drops what is buffered. The Writer holds no files of its own.
-func (w *Writer) Abort() { w.bw.Reset(io.Discard) }
-
-// appendNum appends f in the shortest form that reads back to the same float64, or
-// nothing for NaN and ±Inf.
-func appendNum(b []byte, f float64) []byte {
-	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return b
-	}
-	return strconv.AppendFloat(b, f, 'g', -1, 64)
-}
-
-// AppendFigures appends c's figures as "name=value; name=value": numbers in shortest
-// round-trip form (NaN and ±Inf as "n/a"), text figures as written.
-func AppendFigures(b []byte, c *fleet.CheckResult) []byte {
-	for i, f := range c.Figures {
-		if i > 0 {
-			b = append(b, "; "...)
-		}
-		b = append(b, f.Name...)
-		b = append(b, '=')
-		switch {
-		case f.Text != "":
-			b = append(b, f.Text...)
-		case math.IsNaN(f.Value) || math.IsInf(f.Value, 0):
-			b = append(b, "n/a"...)
-		default:
-			b = strconv.AppendFloat(b, f.Value, 'g', -1, 64)
-		}
-	}
-	return b
-}
-
-// NeedsGuard reports whether a text field would be read as a formula by a spreadsheet:
-// it starts with =, +, -, @, tab or carriage return.
-func NeedsGuard(s string) bool {
-	if s == "" {
-		return false
-	}
-	switch s[0] {
-	case '=', '+', '-', '@', '\t', '\r':
-		return true
-	}
-	return false
-}
-
-func (w *Writer) appendText(b []byte, s string) []byte {
-	return w.appendField(b, s, NeedsGuard(s))
-}
-
-func (w *Writer) appendTextBytes(b []byte, s []byte) []byte {
-	return w.appendField(b, string(s), len(s) > 0 && NeedsGuard(string(s[:1])))
-}
-
-// appendField appends a text field, with a leading apostrophe when guard is set, quoted
-// as encoding/csv quotes: when it holds the separator, a quote, CR or LF, or starts with
-// a space or tab.
-func (w *Writer) appendField(b []byte, s string, guard bool) []byte {
-	if !w.needsQuotes(s, guard) {
-		if guard {
-			b = append(b, '\'')
-		}
-		return append(b, s...)
-	}
-	b = append(b, '"')
-	if guard {
-		b = append(b, '\'')
-	}
-	for i := 0; i < len(s); i++ {
-		if s[i] == '"' {
-			b = append(b, '"', '"')
-		} else {
-			b = append(b, s[i])
-		}
-	}
-	return append(b, '"')
-}
-
-func (w *Writer) needsQuotes(s string, guard bool) bool {
-	if s == "" {
-		return false
-	}
-	if !guard && (s[0] == ' ' || s[0] == '\t') {
-		return true
-	}
-	for _, r := range s {
-		if r == w.opts.Comma || r == '"' || r == '\r' || r == '\n' {
-			return true
-		}
-	}
-	return false
+func (w *Writer) Abort() {
+	w.buf = w.buf[:0]
+	w.out = io.Discard
 }

@@ -16,16 +16,14 @@
 //
 // Numbers are SI (kg, N, m, s, N m, W) unless a check's unit says otherwise; NaN and
 // infinities are written as null, and so is a check id that is empty (no governing
-// check). Keys are always in the order above: the objects are written from structs.
+// check). Keys are always in the order above. Strings are escaped as encoding/json
+// escapes them without HTML escaping (<, > and & as they are; U+2028 and U+2029 as
+// \u2028 and \u2029; invalid UTF-8 as \ufffd), numbers formatted as it formats a float64.
 package jsonout
 
 import (
-	"bufio"
-	"bytes"
-	"encoding/json"
 	"fmt"
 	"io"
-	"math"
 	"strconv"
 
 	"hoistfleet/calc"
@@ -36,20 +34,43 @@ import (
 // The type exists so that every sink is built the same way, New(w, opts).
 type Options struct{}
 
+// flushAt is how much output the Writer holds before writing it out.
+const flushAt = 64 << 10
+
 // Writer is a fleet.Sink writing JSON lines. Errors stick: after the first failed write
 // every later call returns it.
+//
+// The lines are encoded by hand into one buffer, handed to the underlying writer in
+// blocks of about 64 KiB. The JSON form of texts and numbers that repeat from check to
+// check and hoist to hoist is made once and copied after that.
 type Writer struct {
-	bw  *bufio.Writer
-	enc *json.Encoder
-	err error
+	out   io.Writer
+	texts textCache
+	nums  *numCache
+	// memos remember the last texts written in each place of a line: the hoist's, then
+	// by check index those of its checks and of its proposed checks.
+	hoist   hoistMemos
+	checks  []checkMemos
+	pchecks []checkMemos
+	buf     []byte // output not yet written to out
+	err     error
+}
+
+type hoistMemos struct {
+	status, governing, worst, site, pstatus, pworst memo
+	note                                            freeMemo
+	messages, defaults, derived                     []freeMemo // by index
+}
+
+type checkMemos struct {
+	id, status, unit, rule, source memo
+	message                        freeMemo
+	figures                        []memo // by figure index: the key
 }
 
 // New returns a Writer writing to w. Nothing is guaranteed to reach w before End.
 func New(w io.Writer, opts Options) *Writer {
-	bw := bufio.NewWriterSize(w, 64<<10)
-	enc := json.NewEncoder(bw)
-	enc.SetEscapeHTML(false)
-	return &Writer{bw: bw, enc: enc}
+	return &Writer{out: w, nums: new(numCache), buf: make([]byte, 0, flushAt+16<<10)}
 }
 
 var _ fleet.Sink = (*Writer)(nil)
@@ -66,10 +87,183 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.err = fmt.Errorf("jsonout: result without an asset")
 		return w.err
 	}
-	if err := w.enc.Encode(NewHoist(r)); err != nil {
-		w.err = fmt.Errorf("jsonout: row %d: %w", r.Asset.Row, err)
+	w.buf = w.appendHoist(w.buf, r)
+	if len(w.buf) >= flushAt {
+		w.flush()
 	}
 	return w.err
+}
+
+// appendHoist appends the line of r: the object of one hoist and a newline.
+func (w *Writer) appendHoist(b []byte, r *fleet.Result) []byte {
+	hm := &w.hoist
+	b = append(b, `{"asset_id":`...)
+	b = appendString(b, r.Asset.ID)
+	b = append(b, `,"row":`...)
+	b = strconv.AppendInt(b, int64(r.Asset.Row), 10)
+	b = append(b, `,"status":`...)
+	b = w.texts.appendString(&hm.status, b, r.Status.String())
+	b = append(b, `,"governing_check":`...)
+	b = w.appendNullText(&hm.governing, b, r.GoverningCheck)
+	b = append(b, `,"worst_check":`...)
+	b = w.appendNullText(&hm.worst, b, r.WorstCheck)
+	b = append(b, `,"min_margin":`...)
+	b = w.nums.appendNumber(b, r.MinMargin)
+	b = append(b, `,"max_rated_load_kg":`...)
+	b = w.nums.appendNumber(b, r.MaxRatedLoadKg)
+	b = append(b, `,"messages":`...)
+	b = appendStrings(b, r.Messages, &hm.messages)
+	b = append(b, `,"defaults_used":`...)
+	b = appendStrings(b, r.DefaultsUsed, &hm.defaults)
+	b = append(b, `,"checks":`...)
+	w.checks = growMemos(w.checks, len(r.Checks))
+	b = w.appendChecks(b, r.Checks, w.checks)
+	b = append(b, `,"site":`...)
+	site := ""
+	if v := r.Asset.Get("site"); v.State == fleet.OK {
+		site = v.Text
+	}
+	b = w.appendNullText(&hm.site, b, site)
+	b = append(b, `,"rated_load_kg":`...)
+	b = w.nums.appendNumber(b, r.RatedLoadKg)
+	b = append(b, `,"rating_note":`...)
+	b = hm.note.appendNullText(b, r.Note)
+	b = append(b, `,"derived":`...)
+	b = appendStrings(b, r.Derived, &hm.derived)
+	if p := r.Proposed; p != nil {
+		b = append(b, `,"proposed":{"rated_load_kg":`...)
+		b = w.nums.appendNumber(b, p.RatedLoadKg)
+		b = append(b, `,"status":`...)
+		b = w.texts.appendString(&hm.pstatus, b, p.Status.String())
+		b = append(b, `,"worst_check":`...)
+		b = w.appendNullText(&hm.pworst, b, p.WorstCheck)
+		b = append(b, `,"min_margin":`...)
+		b = w.nums.appendNumber(b, p.MinMargin)
+		b = append(b, `,"checks":`...)
+		w.pchecks = growMemos(w.pchecks, len(p.Checks))
+		b = w.appendChecks(b, p.Checks, w.pchecks)
+		b = append(b, '}')
+	}
+	return append(b, '}', '\n')
+}
+
+func growMemos(ms []checkMemos, n int) []checkMemos {
+	for len(ms) < n {
+		ms = append(ms, checkMemos{})
+	}
+	return ms
+}
+
+// appendChecks appends the array of checks cs; ms has a memo for each.
+func (w *Writer) appendChecks(b []byte, cs []fleet.CheckResult, ms []checkMemos) []byte {
+	b = append(b, '[')
+	for i := range cs {
+		if i > 0 {
+			b = append(b, ',')
+		}
+		c, m := &cs[i], &ms[i]
+		b = append(b, `{"id":`...)
+		b = w.texts.appendString(&m.id, b, c.ID)
+		b = append(b, `,"status":`...)
+		b = w.texts.appendString(&m.status, b, c.Status.String())
+		b = append(b, `,"demand":`...)
+		b = w.nums.appendNumber(b, c.Demand)
+		b = append(b, `,"capacity":`...)
+		b = w.nums.appendNumber(b, c.Capacity)
+		b = append(b, `,"unit":`...)
+		b = w.texts.appendString(&m.unit, b, c.Unit)
+		b = append(b, `,"utilisation":`...)
+		b = w.nums.appendNumber(b, c.Utilisation)
+		b = append(b, `,"limit_rated_load_kg":`...)
+		b = w.nums.appendNumber(b, c.LimitRatedLoadKg)
+		b = append(b, `,"rule":`...)
+		b = w.texts.appendString(&m.rule, b, c.Rule)
+		b = append(b, `,"source":`...)
+		b = w.texts.appendString(&m.source, b, c.Source)
+		b = append(b, `,"figures":`...)
+		b = w.appendFigures(b, c.Figures, m)
+		b = append(b, `,"margin":`...)
+		b = w.nums.appendNumber(b, c.Margin)
+		b = append(b, `,"message":`...)
+		b = m.message.appendNullText(b, c.Message)
+		b = append(b, '}')
+	}
+	return append(b, ']')
+}
+
+// dedupMax is the number of figures up to which repeated names are found by comparing
+// each name with those before it; a map is used beyond.
+const dedupMax = 32
+
+// appendFigures appends a check's figures as one object {name: number or text}, in the
+// check's own order. A figure with Text is written as a string, otherwise as a number
+// (null when NaN or infinite). A repeated name keeps its first value.
+func (w *Writer) appendFigures(b []byte, fs []calc.Figure, m *checkMemos) []byte {
+	for len(m.figures) < len(fs) {
+		m.figures = append(m.figures, memo{})
+	}
+	var seen map[string]bool
+	if len(fs) > dedupMax {
+		seen = make(map[string]bool, len(fs))
+	}
+	b = append(b, '{')
+	first := true
+	for i := range fs {
+		f := &fs[i]
+		if seen != nil {
+			if seen[f.Name] {
+				continue
+			}
+			seen[f.Name] = true
+		} else if repeated(fs, i) {
+			continue
+		}
+		if !first {
+			b = append(b, ',')
+		}
+		first = false
+		b = w.texts.appendString(&m.figures[i], b, f.Name)
+		b = append(b, ':')
+		if f.Text != "" {
+			b = appendString(b, f.Text)
+		} else {
+			b = w.nums.appendNumber(b, f.Value)
+		}
+	}
+	return append(b, '}')
+}
+
+// repeated reports whether the name of fs[i] is that of an earlier figure.
+func repeated(fs []calc.Figure, i int) bool {
+	for j := range i {
+		if fs[j].Name == fs[i].Name {
+			return true
+		}
+	}
+	return false
+}
+
+// appendNullText appends s as a JSON string, remembering it in m, or null when empty.
+func (w *Writer) appendNullText(m *memo, b []byte, s string) []byte {
+	if s == "" {
+		return append(b, "null"...)
+	}
+	return w.texts.appendString(m, b, s)
+}
+
+// flush writes the buffered output to the underlying writer.
+func (w *Writer) flush() {
+	if len(w.buf) == 0 || w.err != nil {
+		return
+	}
+	n, err := w.out.Write(w.buf)
+	if err == nil && n < len(w.buf) {
+		err = io.ErrShortWrite
+	}
+	if err != nil {
+		w.err = fmt.Errorf("jsonout: %w", err)
+	}
+	w.buf = w.buf[:0]
 }
 
 // End flushes every line to the underlying writer.
@@ -77,191 +271,12 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if w.err != nil {
 		return w.err
 	}
-	if err := w.bw.Flush(); err != nil {
-		w.err = fmt.Errorf("jsonout: %w", err)
-	}
+	w.flush()
 	return w.err
 }
 
 // Abort drops what is buffered. The Writer holds no files of its own.
-func (w *Writer) Abort() { w.bw.Reset(io.Discard) }
-
-// Hoist is the JSON object of one hoist. Field order is the key order.
-type Hoist struct {
-	AssetID        string   `json:"asset_id"`
-	Row            int      `json:"row"`
-	Status         string   `json:"status"`
-	GoverningCheck NullText `json:"governing_check"`
-	WorstCheck     NullText `json:"worst_check"`
-	MinMargin      Number   `json:"min_margin"`
-	MaxRatedLoadKg Number   `json:"max_rated_load_kg"`
-	Messages       []string `json:"messages"`
-	DefaultsUsed   []string `json:"defaults_used"`
-	Checks         []Check  `json:"checks"`
-	// Extensions.
-	Site        NullText  `json:"site"`
-	RatedLoadKg Number    `json:"rated_load_kg"`
-	RatingNote  NullText  `json:"rating_note"`
-	Derived     []string  `json:"derived"`
-	Proposed    *Proposed `json:"proposed,omitempty"`
-}
-
-// Check is the JSON object of one check.
-type Check struct {
-	ID               string  `json:"id"`
-	Status           string  `json:"status"`
-	Demand           Number  `json:"demand"`
-	Capacity         Number  `json:"capacity"`
-	Unit             string  `json:"unit"`
-	Utilisation      Number  `json:"utilisation"`
-	LimitRatedLoadKg Number  `json:"limit_rated_load_kg"`
-	Rule             string  `json:"rule"`
-	Source           string  `json:"source"`
-	Figures          Figures `json:"figures"`
-	// Extensions.
-	Margin  Number   `json:"margin"`
-	Message NullText `json:"message"`
-}
-
-// Proposed is the evaluation at a proposed rated load.
-type Proposed struct {
-	RatedLoadKg Number   `json:"rated_load_kg"`
-	Status      string   `json:"status"`
-	WorstCheck  NullText `json:"worst_check"`
-	MinMargin   Number   `json:"min_margin"`
-	Checks      []Check  `json:"checks"`
-}
-
-// NewHoist converts a result to its JSON object.
-func NewHoist(r *fleet.Result) Hoist {
-	h := Hoist{
-		AssetID:        r.Asset.ID,
-		Row:            r.Asset.Row,
-		Status:         r.Status.String(),
-		GoverningCheck: NullText(r.GoverningCheck),
-		WorstCheck:     NullText(r.WorstCheck),
-		MinMargin:      Number(r.MinMargin),
-		MaxRatedLoadKg: Number(r.MaxRatedLoadKg),
-		Messages:       nonNil(r.Messages),
-		DefaultsUsed:   nonNil(r.DefaultsUsed),
-		Checks:         checks(r.Checks),
-		RatedLoadKg:    Number(r.RatedLoadKg),
-		RatingNote:     NullText(r.Note),
-		Derived:        nonNil(r.Derived),
-	}
-	if v := r.Asset.Get("site"); v.State == fleet.OK {
-		h.Site = NullText(v.Text)
-	}
-	if p := r.Proposed; p != nil {
-		h.Proposed = &Proposed{RatedLoadKg: Number(p.RatedLoadKg), Status: p.Status.String(),
-			WorstCheck: NullText(p.WorstCheck), MinMargin: Number(p.MinMargin), Checks: checks(p.Checks)}
-	}
-	return h
-}
-
-func checks(cs []fleet.CheckResult) []Check {
-	out := make([]Check, len(cs))
-	for i := range cs {
-		c := &cs[i]
-		out[i] = Check{ID: c.ID, Status: c.Status.String(), Demand: Number(c.Demand),
-			Capacity: Number(c.Capacity), Unit: c.Unit, Utilisation: Number(c.Utilisation),
-			LimitRatedLoadKg: Number(c.LimitRatedLoadKg), Rule: c.Rule, Source: c.Source,
-			Figures: Figures(c.Figures), Margin: Number(c.Margin), Message: NullText(c.Message)}
-	}
-	return out
-}
-
-func nonNil(s []string) []string {
-	if s == nil {
-		return []string{}
-	}
-	return s
-}
-
-// Number is a float64 written as a JSON number, or null when NaN or infinite.
-type Number float64
-
-// MarshalJSON implements json.Marshaler.
-func (n Number) MarshalJSON() ([]byte, error) { return AppendNumber(nil, float64(n)), nil }
-
-// AppendNumber appends f as encoding/json writes a float64 (shortest representation
-// that round-trips, exponent form below 1e-6 and from 1e21), or null for NaN and ±Inf.
-func AppendNumber(b []byte, f float64) []byte {
-	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return append(b, "null"...)
-	}
-	abs := math.Abs(f)
-	format := byte('f')
-	if abs != 0 && (abs < 1e-6 || abs >= 1e21) {
-		format = 'e'
-	}
-	b = strconv.AppendFloat(b, f, format, -1, 64)
-	if format == 'e' {
-		// clean up e-09 to e-9, as encoding/json does
-		n := len(b)
-		if n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
-			b[n-2] = b[n-1]
-			b = b[:n-1]
-		}
-	}
-	return b
-}
-
-// NullText is a string written as null when empty.
-type NullText string
-
-// MarshalJSON implements json.Marshaler.
-func (s NullText) MarshalJSON() ([]byte, error) {
-	if s == "" {
-		return []byte("null"), nil
-	}
-	return marshalString(string(s))
-}
-
-// marshalString quotes s as JSON without HTML escaping (the lines are data, not HTML).
-func marshalString(s string) ([]byte, error) {
-	var buf bytes.Buffer
-	enc := json.NewEncoder(&buf)
-	enc.SetEscapeHTML(false)
-	if err := enc.Encode(s); err != nil {
-		return nil, err
-	}
-	return bytes.TrimSuffix(buf.Bytes(), []byte("\n")), nil
-}
-
-// Figures is a check's figures written as one object {name: number or text}, in the
-// check's own order. A figure with Text is written as a string, otherwise as a number
-// (null when NaN). A repeated name keeps its first value.
-type Figures []calc.Figure
-
-// MarshalJSON implements json.Marshaler.
-func (fs Figures) MarshalJSON() ([]byte, error) {
-	b := make([]byte, 0, 32*len(fs)+2)
-	b = append(b, '{')
-	seen := make(map[string]bool, len(fs))
-	for _, f := range fs {
-		if seen[f.Name] {
-			continue
-		}
-		seen[f.Name] = true
-		if len(seen) > 1 {
-			b = append(b, ',')
-		}
-		k, err := marshalString(f.Name)
-		if err != nil {
-			return nil, err
-		}
-		b = append(b, k...)
-		b = append(b, ':')
-		if f.Text != "" {
-			v, err := marshalString(f.Text)
-			if err != nil {
-				return nil, err
-			}
-			b = append(b, v...)
-		} else {
-			b = AppendNumber(b, f.Value)
-		}
-	}
-	return append(b, '}'), nil
+func (w *Writer) Abort() {
+	w.buf = w.buf[:0]
+	w.out = io.Discard
 }

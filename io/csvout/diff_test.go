@@ -1,0 +1,126 @@
+package csvout
+
+import (
+	"bytes"
+	"fmt"
+	"testing"
+	"unicode/utf8"
+
+	"hoistfleet/fleet"
+)
+
+// The differential tests: the Writer must write exactly the bytes the previous writer
+// (reference_test.go) writes, for real registers and for random results, in every
+// dialect.
+
+// dialects are the options compared: the default, the spreadsheet dialects, and
+// separators that occur inside numbers, figures and status words, or that are not ASCII.
+var dialects = []Options{
+	{}, {Comma: ';', UseCRLF: true, BOM: true}, {Comma: '\t'}, {Comma: ' '}, {Proposed: true},
+	{Comma: '.'}, {Comma: '0'}, {Comma: 'e'}, {Comma: '='}, {Comma: '-'}, {Comma: 'a'}, {Comma: '/'},
+	{Comma: 'é'}, {Comma: '€', Proposed: true}, {Comma: utf8.RuneError}, {Comma: '\x00'}, {Comma: '\x7f'},
+}
+
+func dialectName(o Options) string {
+	return fmt.Sprintf("comma=%q,crlf=%v,bom=%v,proposed=%v", o.Comma, o.UseCRLF, o.BOM, o.Proposed)
+}
+
+// writeBoth writes rs with the Writer and with the reference writer.
+func writeBoth(t *testing.T, opts Options, h *fleet.Header, info *fleet.RunInfo, rs []*fleet.Result) (got, want []byte) {
+	t.Helper()
+	var g, wnt bytes.Buffer
+	for _, s := range []fleet.Sink{New(&g, opts), refNew(&wnt, opts)} {
+		if err := s.Begin(h, info); err != nil {
+			t.Fatal(err)
+		}
+		for _, r := range rs {
+			if err := s.Write(r); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if err := s.End(fleet.NewSummary(10), info); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return g.Bytes(), wnt.Bytes()
+}
+
+// sameBytes fails with the first differing line.
+func sameBytes(t *testing.T, got, want []byte) {
+	t.Helper()
+	if bytes.Equal(got, want) {
+		return
+	}
+	gl, wl := bytes.SplitAfter(got, []byte("\n")), bytes.SplitAfter(want, []byte("\n"))
+	for i := range min(len(gl), len(wl)) {
+		if !bytes.Equal(gl[i], wl[i]) {
+			t.Fatalf("line %d differs:\ngot  %q\nwant %q", i+1, gl[i], wl[i])
+		}
+	}
+	t.Fatalf("got %d lines, want %d", len(gl), len(wl))
+}
+
+func TestSameAsReferenceFixture(t *testing.T) {
+	for _, o := range dialects {
+		t.Run(dialectName(o), func(t *testing.T) {
+			got, want := writeBoth(t, o, &fleet.Header{}, &fleet.RunInfo{}, fixture())
+			sameBytes(t, got, want)
+		})
+	}
+}
+
+func TestSameAsReferenceRandom(t *testing.T) {
+	n := 1000
+	if testing.Short() {
+		n = 200
+	}
+	for i, o := range dialects {
+		t.Run(dialectName(o), func(t *testing.T) {
+			got, want := writeBoth(t, o, &fleet.Header{}, &fleet.RunInfo{}, randomResults(uint64(i), n))
+			sameBytes(t, got, want)
+		})
+	}
+}
+
+// TestSameAsReferenceCacheTurnover writes more distinct texts than the text cache holds,
+// so that it is emptied and refilled.
+func TestSameAsReferenceCacheTurnover(t *testing.T) {
+	rs := randomResults(99, 200)
+	for i, r := range rs {
+		if r.Asset.Fields == nil {
+			r.Asset.Fields = map[string]fleet.Value{}
+		}
+		r.Asset.Fields["site"] = fleet.Value{State: fleet.OK, Text: fmt.Sprintf("site %d", i)}
+		for j := range r.Checks {
+			r.Checks[j].Rule = fmt.Sprintf("rule %d.%d", i, j)
+		}
+	}
+	for range 3 { // 3 × 200 hoists × ~10 checks: well past textCacheMax
+		rs = append(rs, rs[:200]...)
+	}
+	got, want := writeBoth(t, Options{}, &fleet.Header{}, &fleet.RunInfo{}, rs)
+	sameBytes(t, got, want)
+}
+
+// TestSameAsReferenceRegisters runs fleet over the demo registers and a generated one,
+// both writers taking the same results, with and without re-rating.
+func TestSameAsReferenceRegisters(t *testing.T) {
+	regs := demoRegisters(t)
+	if !testing.Short() {
+		regs = append(regs, generatedRegister(t, 400, "si", 3), generatedRegister(t, 200, "us", 4))
+	}
+	for _, reg := range regs {
+		for _, factor := range []float64{0, 1.25} {
+			for _, o := range []Options{{}, {Comma: ';', UseCRLF: true, BOM: true}} {
+				t.Run(fmt.Sprintf("%s/factor=%v/%s", reg.name, factor, dialectName(o)), func(t *testing.T) {
+					var got, want bytes.Buffer
+					runSinks(t, reg, newChecker(t, "iso", factor), New(&got, o), refNew(&want, o))
+					if got.Len() == 0 {
+						t.Fatal("nothing written")
+					}
+					sameBytes(t, got.Bytes(), want.Bytes())
+				})
+			}
+		}
+	}
+}
