@@ -11,6 +11,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"hoistfleet/fleet"
 	"hoistfleet/templates"
 )
 
@@ -223,5 +224,32 @@ func BenchmarkFloorXLSX(b *testing.B) {
 			b.Fatal(n)
 		}
 	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*benchRows), "ns/row")
+}
+
+// BenchmarkFloorAssetShape is the floor the exported fleet.Asset sets on any reader: per
+// row, the Cells slice and a Fields map holding one Value per known column, nothing
+// parsed (compare its ns/row with BenchmarkReadCSV's).
+func BenchmarkFloorAssetShape(b *testing.B) {
+	header, _ := benchRegister(false)
+	r := &Reader{sheet: "bench.csv"}
+	if err := r.buildHeader("bench.csv", header, 1); err != nil {
+		b.Fatal(err)
+	}
+	var sink *fleet.Asset
+	b.ResetTimer()
+	for b.Loop() {
+		for row := range benchRows {
+			a := &fleet.Asset{Index: row, Row: row + 2, Cells: make([]fleet.Cell, len(r.specs)), Fields: make(map[string]fleet.Value, r.known)}
+			for i := range r.specs {
+				a.Cells[i].Text = header[i]
+				if s := &r.specs[i]; s.known {
+					a.Fields[s.col.Key] = fleet.Value{State: fleet.OK, Raw: header[i], Cell: fleet.CellRef{Sheet: r.sheet, Row: row + 2, Col: i + 1}}
+				}
+			}
+			sink = a
+		}
+	}
+	_ = sink
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*benchRows), "ns/row")
 }

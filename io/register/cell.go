@@ -66,7 +66,15 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 		return v, c
 	}
 	kind := s.col.Kind
-	c.IsNumber = kind != templates.Text && kind != templates.Date && isPlainNumber(text)
+	var num numberCell
+	switch kind {
+	case templates.Number, templates.Integer:
+		num = readNumber(text, d)
+		c.IsNumber = num.plain
+	case templates.Text, templates.Date:
+	default:
+		c.IsNumber = isPlainNumber(text)
+	}
 	if text == "" {
 		return v, c
 	}
@@ -81,7 +89,7 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 	}
 	switch kind {
 	case templates.Number, templates.Integer:
-		x, hint, ok := parseNumber(text, d)
+		x, hint, ok := num.x, num.hint, num.ok
 		factor := s.factor
 		if !ok && s.col.Quantity == "ratio" && strings.HasSuffix(text, "%") {
 			// A per cent sign in the cell is explicit: 95 % is 0.95 whatever the header says.
@@ -137,6 +145,34 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 	return v, c
 }
 
+// numberCell is a number column's cell read once: whether it is written as a plain
+// number (Cell.IsNumber) and its value as parseNumber reads it.
+type numberCell struct {
+	plain bool
+	x     float64
+	hint  string
+	ok    bool
+}
+
+// readNumber is isPlainNumber(text) and parseNumber(text, d) in one pass over the text
+// for a number without a comma, a point that may be a thousands separator or a unit (the
+// common case); other text takes the two functions.
+func readNumber(text string, d dialect) numberCell {
+	if text == "" {
+		return numberCell{}
+	}
+	nb := scanNumber(text) // the syntax has no comma
+	if nb.syntax && (!d.decimalComma || strings.IndexByte(text, '.') < 0 || !matchThousandsPoint(text)) {
+		x, err := nb.float(text)
+		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+			return numberCell{plain: err == nil && nb.plain}
+		}
+		return numberCell{plain: nb.plain, x: x, ok: true}
+	}
+	x, hint, ok := parseNumber(text, d)
+	return numberCell{plain: isPlainNumber(text), x: x, hint: hint, ok: ok}
+}
+
 // in is the " in [t]" part of a message, "" for a column without a unit.
 func (s *colSpec) in() string {
 	if s.unitLabel == "" {
@@ -170,7 +206,6 @@ func (s *colSpec) checkRange(si float64) string {
 
 var (
 	thousandsComma = regexp.MustCompile(`^[+-]?\d{1,3}(,\d{3})+(\.\d*)?$`)
-	thousandsPoint = regexp.MustCompile(`^[+-]?[1-9]\d{0,2}(\.\d{3})+$`)
 	numberWithUnit = regexp.MustCompile(`^[+-]?(\d+[.,]?\d*|[.,]\d+)\s*[^\d\s.,+-][^\d]*$`)
 )
 
@@ -184,8 +219,8 @@ func parseNumber(t string, d dialect) (x float64, hint string, ok bool) {
 	hasComma, hasPoint := strings.Contains(s, ","), strings.Contains(s, ".")
 	// The common case first: a plain number with a decimal point, and no point that may
 	// be a thousands separator.
-	if !hasComma && (!d.decimalComma || !hasPoint || !thousandsPoint.MatchString(s)) && numberSyntax(s) {
-		x, err := strconv.ParseFloat(s, 64)
+	if nb := scanNumber(s); !hasComma && (!d.decimalComma || !hasPoint || !matchThousandsPoint(s)) && nb.syntax {
+		x, err := nb.float(s)
 		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
 			return 0, "", false
 		}
@@ -205,17 +240,18 @@ func parseNumber(t string, d dialect) (x float64, hint string, ok bool) {
 			return 0, ": write it without thousands separators", false
 		}
 		s = strings.Replace(s, ",", ".", 1)
-	case d.decimalComma && hasPoint && thousandsPoint.MatchString(s):
+	case d.decimalComma && hasPoint && matchThousandsPoint(s):
 		return 0, ": the point may be a thousands separator or a decimal point; write it without thousands separators (1250) or with a decimal comma (1,25)", false
 	case hasComma && thousandsComma.MatchString(s):
 		return 0, ": write it without thousands separators", false
 	case hasComma:
 		return 0, ": use a decimal point", false
 	}
-	if !numberSyntax(s) {
+	nb := scanNumber(s)
+	if !nb.syntax {
 		return 0, "", false
 	}
-	x, err := strconv.ParseFloat(s, 64)
+	x, err := nb.float(s)
 	if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
 		return 0, "", false
 	}
@@ -225,39 +261,7 @@ func parseNumber(t string, d dialect) (x float64, hint string, ok bool) {
 // numberSyntax accepts [+-]digits[.digits][e[+-]digits] with at least one digit before
 // the exponent; it refuses what strconv also accepts but a register should not hold:
 // hex, underscores, "Inf", "NaN".
-func numberSyntax(s string) bool {
-	i, n := 0, len(s)
-	if i < n && (s[i] == '+' || s[i] == '-') {
-		i++
-	}
-	digits := 0
-	for i < n && s[i] >= '0' && s[i] <= '9' {
-		i, digits = i+1, digits+1
-	}
-	if i < n && s[i] == '.' {
-		i++
-		for i < n && s[i] >= '0' && s[i] <= '9' {
-			i, digits = i+1, digits+1
-		}
-	}
-	if digits == 0 {
-		return false
-	}
-	if i < n && (s[i] == 'e' || s[i] == 'E') {
-		i++
-		if i < n && (s[i] == '+' || s[i] == '-') {
-			i++
-		}
-		e := 0
-		for i < n && s[i] >= '0' && s[i] <= '9' {
-			i, e = i+1, e+1
-		}
-		if e == 0 {
-			return false
-		}
-	}
-	return i == n
-}
+func numberSyntax(s string) bool { return scanNumber(s).syntax }
 
 func isDigits(s string) bool {
 	if s == "" {
@@ -276,37 +280,59 @@ func isDigits(s string) bool {
 // a number: no leading "+", no leading zeros except "0" and "0.x" (so ids such as "007"
 // stay text), no leading or trailing point.
 func isPlainNumber(s string) bool {
-	if s == "" || !numberSyntax(s) || s[0] == '+' {
+	_, ok := plainValue(s)
+	return ok
+}
+
+// plainValue is the value of a plain number (isPlainNumber), ok false for other text.
+func plainValue(s string) (float64, bool) {
+	nb := scanNumber(s)
+	if !nb.syntax || !nb.plain {
+		return 0, false
+	}
+	x, err := nb.float(s)
+	return x, err == nil
+}
+
+// matchThousandsPoint reports whether s is written with points as thousands separators:
+// [+-]?[1-9][0-9]{0,2}(\.[0-9]{3})+, the whole string.
+func matchThousandsPoint(s string) bool {
+	i, n := 0, len(s)
+	if i < n && (s[i] == '+' || s[i] == '-') {
+		i++
+	}
+	if i >= n || s[i] < '1' || s[i] > '9' {
 		return false
 	}
-	m := strings.TrimPrefix(s, "-")
-	if m == "" || m[0] == '.' || strings.HasSuffix(m, ".") || strings.Contains(m, ".e") || strings.Contains(m, ".E") {
+	lead := i
+	for i < n && s[i] >= '0' && s[i] <= '9' {
+		i++
+	}
+	if i-lead > 3 {
 		return false
 	}
-	if len(m) > 1 && m[0] == '0' && m[1] != '.' && m[1] != 'e' && m[1] != 'E' {
-		return false
+	groups := 0
+	for i < n {
+		if s[i] != '.' || i+4 > n || !isDigits(s[i+1:i+4]) {
+			return false
+		}
+		i += 4
+		groups++
 	}
-	_, err := strconv.ParseFloat(s, 64)
-	return err == nil
+	return groups > 0
 }
 
 // parseDate reads an ISO 8601 date (YYYY-MM-DD, optionally followed by a time and a zone,
 // which are checked and dropped) or, in an XLSX register, a date serial number of the
 // workbook's date system. It returns the date at UTC midnight.
 func parseDate(t string, d dialect) (time.Time, string) {
-	if d.xlsx && isPlainNumber(t) {
-		x, _ := strconv.ParseFloat(t, 64)
-		if x < 1 || x > 2958465 { // 1900-01-01 … 9999-12-31
-			return time.Time{}, "a date serial must be 1 to 2958465"
+	if d.xlsx {
+		if x, ok := plainValue(t); ok {
+			return serialDate(x, d.date1904)
 		}
-		tm, err := excelize.ExcelDateToTime(x, d.date1904)
-		if err != nil {
-			return time.Time{}, err.Error()
-		}
-		// Serials carry the time of day as a fraction; round to the nearest second
-		// first so that 0.99999999 of a day is not read as the day before.
-		tm = tm.Round(time.Second)
-		return time.Date(tm.Year(), tm.Month(), tm.Day(), 0, 0, 0, 0, time.UTC), ""
+	}
+	if day, ok := isoDay(t); ok {
+		return day, ""
 	}
 	const want = "write it as YYYY-MM-DD (ISO 8601)"
 	if len(t) < 10 {
@@ -331,6 +357,21 @@ func parseDate(t string, d dialect) (time.Time, string) {
 	return day, ""
 }
 
+// serialDate reads a date serial number of the workbook's date system.
+func serialDate(x float64, date1904 bool) (time.Time, string) {
+	if x < 1 || x > 2958465 { // 1900-01-01 … 9999-12-31
+		return time.Time{}, "a date serial must be 1 to 2958465"
+	}
+	tm, err := excelize.ExcelDateToTime(x, date1904)
+	if err != nil {
+		return time.Time{}, err.Error()
+	}
+	// Serials carry the time of day as a fraction; round to the nearest second first so
+	// that 0.99999999 of a day is not read as the day before.
+	tm = tm.Round(time.Second)
+	return time.Date(tm.Year(), tm.Month(), tm.Day(), 0, 0, 0, 0, time.UTC), ""
+}
+
 // matchEnum finds the schema's spelling of an enum value, ignoring case, spaces and
 // punctuation. A duty group may carry its system's name: "ISO M5", "FEM 1Am".
 func (s *colSpec) matchEnum(text string) (string, bool) {
@@ -339,6 +380,46 @@ func (s *colSpec) matchEnum(text string) (string, bool) {
 			s.enumKeys = append(s.enumKeys, units.Normalize(v))
 		}
 	}
+	var buf [64]byte
+	n, ok := normalizeASCII(buf[:0], text)
+	if !ok {
+		return s.matchEnumSlow(text)
+	}
+	if s.col.Key == "duty_group" {
+		for _, p := range []string{"iso4301", "iso", "fem9511", "fem"} {
+			if len(n) > len(p) && string(n[:len(p)]) == p {
+				n = n[len(p):]
+				break
+			}
+		}
+	}
+	for i, k := range s.enumKeys {
+		if k == string(n) {
+			return s.col.Values[i], true
+		}
+	}
+	return "", false
+}
+
+// normalizeASCII appends units.Normalize(text) to dst when text is ASCII (letters and
+// digits kept, lower-cased); ok is false for other text.
+func normalizeASCII(dst []byte, text string) ([]byte, bool) {
+	for i := 0; i < len(text); i++ {
+		c := text[i]
+		switch {
+		case c >= 0x80:
+			return dst, false
+		case c >= 'a' && c <= 'z', c >= '0' && c <= '9':
+			dst = append(dst, c)
+		case c >= 'A' && c <= 'Z':
+			dst = append(dst, c+'a'-'A')
+		}
+	}
+	return dst, true
+}
+
+// matchEnumSlow is matchEnum for text that is not ASCII.
+func (s *colSpec) matchEnumSlow(text string) (string, bool) {
 	n := units.Normalize(text)
 	if s.col.Key == "duty_group" {
 		for _, p := range []string{"iso4301", "iso", "fem9511", "fem"} {
@@ -355,3 +436,28 @@ func (s *colSpec) matchEnum(text string) (string, bool) {
 	}
 	return "", false
 }
+
+// isoDay reads a date written exactly YYYY-MM-DD, as time.Parse("2006-01-02", t) would
+// (a month 01 to 12, a day that exists in it), without its general layout machinery;
+// ok is false for anything else, which parseDate then reads the slow way.
+func isoDay(t string) (time.Time, bool) {
+	if len(t) != 10 || t[4] != '-' || t[7] != '-' || !isDigits(t[:4]) || !isDigits(t[5:7]) || !isDigits(t[8:]) {
+		return time.Time{}, false
+	}
+	y := int(t[0]-'0')*1000 + int(t[1]-'0')*100 + int(t[2]-'0')*10 + int(t[3]-'0')
+	m := time.Month(int(t[5]-'0')*10 + int(t[6]-'0'))
+	d := int(t[8]-'0')*10 + int(t[9]-'0')
+	if m < time.January || m > time.December || d < 1 {
+		return time.Time{}, false
+	}
+	last := monthDays[m-1]
+	if m == time.February && y%4 == 0 && (y%100 != 0 || y%400 == 0) {
+		last = 29
+	}
+	if d > last {
+		return time.Time{}, false
+	}
+	return time.Date(y, m, d, 0, 0, 0, 0, time.UTC), true
+}
+
+var monthDays = [12]int{31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31}

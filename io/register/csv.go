@@ -180,6 +180,7 @@ type csvSource struct {
 	n        int // fields in the header
 	row      int // spreadsheet row of the last record returned
 	lastLine int // file line on which the last record ended
+	buf      []string
 }
 
 // recordEndLine is the file line on which the record just read ends: the line its last
@@ -201,7 +202,10 @@ func (s *csvSource) next() (rawRow, error) {
 	if err != nil && !errors.As(err, &pe) {
 		return rawRow{}, err
 	}
-	cells := decodeFields(append(make([]string, 0, max(len(rec), s.n)), rec...))
+	// The record's fields are substrings of one string per record (encoding/csv), so the
+	// cells the Asset keeps cost no copy; the slice itself is the source's, reused.
+	s.buf = append(s.buf[:0], rec...)
+	cells := decodeFields(s.buf)
 	rr := rawRow{cells: cells, short: true}
 	var start, end int
 	if pe != nil {

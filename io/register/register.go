@@ -54,6 +54,7 @@ type rawRow struct {
 }
 
 // rowSource gives the rows after the header. next returns io.EOF after the last row.
+// The cells slice of a row may be reused by the next call (its strings are not).
 type rowSource interface {
 	next() (rawRow, error)
 	close() error
@@ -67,6 +68,7 @@ type Reader struct {
 	d      dialect
 	src    rowSource
 	sheet  string
+	known  int            // columns the schema knows: the fields of every row
 	idCol  int            // index of the asset id column, -1 when absent
 	ids    map[string]int // asset id → row where first seen
 	index  int            // next Asset.Index
@@ -175,7 +177,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 	if r.idCol >= 0 && r.idCol < len(rr.cells) {
 		a.ID = strings.TrimSpace(rr.cells[r.idCol])
 	}
-	a.Fields = make(map[string]fleet.Value, n)
+	a.Fields = make(map[string]fleet.Value, r.known)
 	readable := len(rr.cells)
 	if rr.syntax != nil {
 		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Invalid, Asset: a.ID,
@@ -299,6 +301,7 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 			matched++
 			sc, _ := index.col(key)
 			spec.known, spec.col = true, sc
+			r.known++
 			col.Key = key
 			spec.setUnit(raw, unit, splitErr, &col)
 			if spec.headerErr != "" {

@@ -2,15 +2,11 @@ package register
 
 import (
 	"archive/zip"
-	"bufio"
 	"bytes"
-	"encoding/xml"
 	"errors"
 	"fmt"
 	"io"
 	"os"
-	"path"
-	"regexp"
 	"strings"
 
 	"github.com/xuri/excelize/v2"
@@ -205,7 +201,13 @@ func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string) (*Reader, e
 	if err != nil {
 		return nil, fmt.Errorf("workbook properties: %w", err)
 	}
-	merges, formulas, err := scanSheet(zr, name)
+	merges, formulas, err := scanSheet(zr, name, func(part string) []byte {
+		// excelize holds the parts it unzipped in memory under their zip names (with
+		// "/" separators); a sheet larger than its unzip limit is in a temporary file.
+		v, _ := f.Pkg.Load(strings.ReplaceAll(part, `\`, "/"))
+		b, _ := v.([]byte)
+		return b
+	})
 	if err != nil {
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
 	}
@@ -293,194 +295,4 @@ func (s *xlsxSource) close() error {
 		err = cerr
 	}
 	return err
-}
-
-// mergeRange is a merged area of a sheet, 1-based and inclusive.
-type mergeRange struct {
-	ref            string
-	r1, c1, r2, c2 int
-}
-
-var mergeRef = regexp.MustCompile(`<(?:\w+:)?mergeCell\b[^>]*?\bref="([A-Za-z]+[0-9]+)(?::([A-Za-z]+[0-9]+))?"`)
-
-// formulaCells counts the cells of a sheet that hold a formula, and keeps the first few
-// references, found by the same pass over the sheet XML that looks for merged cells.
-type formulaCells struct {
-	n     int
-	first []string
-}
-
-// maxFormulaRefs is how many formula cells a message names.
-const maxFormulaRefs = 5
-
-// scan counts the formula elements (<f> or <f …>) that start in win at or after from,
-// and notes the reference of the cell each belongs to when the window holds it.
-func (fc *formulaCells) scan(win []byte, from int) {
-	for _, pat := range [][]byte{[]byte("<f>"), []byte("<f ")} {
-		for i := 0; ; {
-			j := bytes.Index(win[i:], pat)
-			if j < 0 {
-				break
-			}
-			at := i + j
-			i = at + len(pat)
-			if at < from {
-				continue
-			}
-			fc.n++
-			if len(fc.first) < maxFormulaRefs {
-				if k := bytes.LastIndex(win[:at], []byte(`<c r="`)); k >= 0 {
-					ref := win[k+len(`<c r="`):]
-					if e := bytes.IndexByte(ref, '"'); e > 0 && e < 12 {
-						fc.first = append(fc.first, string(ref[:e]))
-					}
-				}
-			}
-		}
-	}
-}
-
-// scanSheet returns the sheet's merged cells and counts its formula cells. Merged cells
-// are listed after the sheet's data, so the sheet's XML is scanned once as bytes (an
-// inflate pass, without XML parsing) up to its <mergeCells> element, which is then read;
-// formula elements are counted on the way.
-func scanSheet(zr *zip.Reader, sheet string) ([]mergeRange, formulaCells, error) {
-	var fc formulaCells
-	part, err := sheetPart(zr, sheet)
-	if err != nil || part == "" {
-		return nil, fc, err
-	}
-	var zf *zip.File
-	for _, f := range zr.File {
-		if strings.EqualFold(f.Name, part) {
-			zf = f
-			break
-		}
-	}
-	if zf == nil {
-		return nil, fc, nil
-	}
-	rc, err := zf.Open()
-	if err != nil {
-		return nil, fc, fmt.Errorf("worksheet %s: %w", part, err)
-	}
-	defer rc.Close()
-	const chunk = 256 << 10
-	br := bufio.NewReaderSize(rc, chunk)
-	var tail []byte // the last bytes of the previous chunk, for a tag split across chunks
-	key := []byte("mergeCell")
-	for {
-		buf, rerr := br.Peek(chunk)
-		n := len(buf)
-		if n == 0 {
-			if rerr == io.EOF || rerr == nil {
-				return nil, fc, nil
-			}
-			return nil, fc, fmt.Errorf("worksheet %s: %w", part, rerr)
-		}
-		win := append(tail[:len(tail):len(tail)], buf...)
-		// Matches starting in the carried-over tail were counted with the previous chunk
-		// unless they ran past its end.
-		from := 0
-		if len(tail) > 0 {
-			from = len(tail) - len("<f ") + 1
-		}
-		fc.scan(win, from)
-		if i := bytes.Index(win, key); i >= 0 {
-			// The merged cells are at the end of the sheet: read the rest (bounded).
-			_, _ = br.Discard(n)
-			rest, err := io.ReadAll(io.LimitReader(br, 64<<20))
-			if err != nil {
-				return nil, fc, fmt.Errorf("worksheet %s: %w", part, err)
-			}
-			return parseMerges(append(win[max(i-16, 0):], rest...)), fc, nil
-		}
-		tail = append(tail[:0], buf[max(n-16, 0):]...)
-		if _, err := br.Discard(n); err != nil {
-			return nil, fc, err
-		}
-		if rerr == io.EOF {
-			return nil, fc, nil
-		}
-	}
-}
-
-func parseMerges(b []byte) []mergeRange {
-	var out []mergeRange
-	for _, m := range mergeRef.FindAllSubmatch(b, -1) {
-		a, z := string(m[1]), string(m[2])
-		if z == "" {
-			z = a
-		}
-		c1, r1, err1 := excelize.CellNameToCoordinates(a)
-		c2, r2, err2 := excelize.CellNameToCoordinates(z)
-		if err1 != nil || err2 != nil {
-			continue
-		}
-		ref := a
-		if z != a {
-			ref = a + ":" + z
-		}
-		out = append(out, mergeRange{ref: ref, r1: min(r1, r2), c1: min(c1, c2), r2: max(r1, r2), c2: max(c1, c2)})
-	}
-	return out
-}
-
-// sheetPart finds the zip part of a sheet from xl/workbook.xml and its relationships.
-func sheetPart(zr *zip.Reader, sheet string) (string, error) {
-	var wb struct {
-		Sheets []struct {
-			Name  string     `xml:"name,attr"`
-			Attrs []xml.Attr `xml:",any,attr"`
-		} `xml:"sheets>sheet"`
-	}
-	var rels struct {
-		Rel []struct {
-			ID     string `xml:"Id,attr"`
-			Target string `xml:"Target,attr"`
-		} `xml:"Relationship"`
-	}
-	if err := decodePart(zr, "xl/workbook.xml", &wb); err != nil {
-		return "", err
-	}
-	if err := decodePart(zr, "xl/_rels/workbook.xml.rels", &rels); err != nil {
-		return "", err
-	}
-	for _, s := range wb.Sheets {
-		if s.Name != sheet {
-			continue
-		}
-		for _, a := range s.Attrs {
-			if a.Name.Local != "id" {
-				continue
-			}
-			for _, r := range rels.Rel {
-				if r.ID == a.Value {
-					if strings.HasPrefix(r.Target, "/") {
-						return strings.TrimPrefix(r.Target, "/"), nil
-					}
-					return path.Join("xl", r.Target), nil
-				}
-			}
-		}
-	}
-	return "", nil
-}
-
-func decodePart(zr *zip.Reader, name string, v any) error {
-	for _, f := range zr.File {
-		if !strings.EqualFold(f.Name, name) {
-			continue
-		}
-		rc, err := f.Open()
-		if err != nil {
-			return fmt.Errorf("%s: %w", name, err)
-		}
-		defer rc.Close()
-		if err := xml.NewDecoder(io.LimitReader(rc, 64<<20)).Decode(v); err != nil {
-			return fmt.Errorf("%s: %w", name, err)
-		}
-		return nil
-	}
-	return nil
 }

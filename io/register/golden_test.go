@@ -1,0 +1,442 @@
+package register
+
+import (
+	"bytes"
+	"compress/gzip"
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+
+	"hoistfleet/fleet"
+	"hoistfleet/templates"
+)
+
+// The golden dumps in testdata/golden are every field of every Asset (and the Header)
+// that the reader returned for the registers below, written by the reader as it was
+// before the per-row speed-ups (commit f7400a6, run with -update-golden before any
+// change to the reader). TestGoldenDumps compares the current reader against them, so a
+// faster path that changes a single message, state, number bit or cell flag fails.
+var updateGolden = flag.Bool("update-golden", false, "rewrite testdata/golden from the current reader")
+
+// goldenInputs returns the registers the dumps are made of: name → (file bytes, is XLSX).
+func goldenInputs(t testing.TB) map[string]goldenInput {
+	t.Helper()
+	in := map[string]goldenInput{}
+	names, demo, err := templates.DemoRegisters()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, n := range names {
+		in["demo/"+n] = goldenInput{data: demo[n]}
+		in["demo/"+strings.TrimSuffix(n, ".csv")+".xlsx"] = goldenInput{data: csvToXLSX(t, demo[n]), xlsx: true}
+	}
+	for _, dir := range []string{"../../testdata", "testdata"} {
+		files, err := filepath.Glob(filepath.Join(dir, "*.csv"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, f := range files {
+			b, err := os.ReadFile(f)
+			if err != nil {
+				t.Fatal(err)
+			}
+			in["files/"+filepath.Base(f)] = goldenInput{data: b}
+		}
+	}
+	header, rows := generatedRegister(1, 150)
+	in["generated/comma.csv"] = goldenInput{data: generatedCSV(header, rows, ',')}
+	in["generated/semicolon.csv"] = goldenInput{data: generatedCSV(header, rows, ';')}
+	in["generated/register.xlsx"] = goldenInput{data: generatedXLSX(t, header, rows), xlsx: true}
+	return in
+}
+
+type goldenInput struct {
+	data []byte
+	xlsx bool
+}
+
+func TestGoldenDumps(t *testing.T) {
+	for name, in := range goldenInputs(t) {
+		t.Run(name, func(t *testing.T) {
+			got := dumpRegister(t, name, in)
+			file := filepath.Join("testdata", "golden", strings.NewReplacer("/", "_", ".", "_").Replace(name)+".txt.gz")
+			if *updateGolden {
+				writeGz(t, file, got)
+				return
+			}
+			want := readGz(t, file)
+			if got == want {
+				return
+			}
+			g, w := strings.Split(got, "\n"), strings.Split(want, "\n")
+			for i := range min(len(g), len(w)) {
+				if g[i] != w[i] {
+					t.Fatalf("line %d differs:\n got  %s\n want %s", i+1, g[i], w[i])
+				}
+			}
+			t.Fatalf("%d lines, want %d", len(g), len(w))
+		})
+	}
+}
+
+func writeGz(t testing.TB, file, s string) {
+	t.Helper()
+	var buf bytes.Buffer
+	zw, _ := gzip.NewWriterLevel(&buf, gzip.BestCompression)
+	_, _ = zw.Write([]byte(s))
+	if err := zw.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.MkdirAll(filepath.Dir(file), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(file, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func readGz(t testing.TB, file string) string {
+	t.Helper()
+	b, err := os.ReadFile(file)
+	if err != nil {
+		t.Fatalf("%v (run the test with -update-golden on the reference reader)", err)
+	}
+	zr, err := gzip.NewReader(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	out, err := io.ReadAll(zr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(out)
+}
+
+// dumpRegister reads a register and writes every field of its header and assets.
+func dumpRegister(t testing.TB, name string, in goldenInput) string {
+	t.Helper()
+	var r *Reader
+	var err error
+	if in.xlsx {
+		r, err = NewXLSX(bytes.NewReader(in.data), name, "")
+	} else {
+		r, err = NewCSV(bytes.NewReader(in.data), name)
+	}
+	var b strings.Builder
+	if err != nil {
+		fmt.Fprintf(&b, "open error: %v\n", err)
+		return b.String()
+	}
+	defer r.Close()
+	h := r.Header()
+	fmt.Fprintf(&b, "header file=%q sheet=%q\n", h.File, h.Sheet)
+	for _, c := range h.Columns {
+		fmt.Fprintf(&b, " col %d title=%q key=%q unit=%q factor=%s\n", c.Index, c.Title, c.Key, c.Unit, bits(c.Factor))
+	}
+	for _, p := range h.Problems {
+		fmt.Fprintf(&b, " problem %s\n", dumpErr(p))
+	}
+	for {
+		a, err := r.Next(context.Background())
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			fmt.Fprintf(&b, "next error: %v\n", err)
+			break
+		}
+		dumpAsset(&b, a)
+	}
+	return b.String()
+}
+
+func dumpAsset(b *strings.Builder, a *fleet.Asset) {
+	fmt.Fprintf(b, "asset index=%d row=%d id=%q blank=%v cells=%d fields=%v\n", a.Index, a.Row, a.ID, a.Blank, len(a.Cells), a.Fields != nil)
+	for i, c := range a.Cells {
+		fmt.Fprintf(b, " cell %d %q num=%v date=%v %s\n", i, c.Text, c.IsNumber, c.IsDate, c.Date.Format("2006-01-02T15:04:05.999999999Z07:00"))
+	}
+	keys := make([]string, 0, len(a.Fields))
+	for k := range a.Fields {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		v := a.Fields[k]
+		fmt.Fprintf(b, " field %s state=%d num=%s text=%q date=%s raw=%q cell=%+v", k, v.State, bits(v.Num), v.Text,
+			v.Date.Format("2006-01-02T15:04:05.999999999Z07:00"), v.Raw, v.Cell)
+		if v.Err != nil {
+			fmt.Fprintf(b, " err=%s", dumpErr(v.Err))
+		}
+		b.WriteByte('\n')
+	}
+	for _, p := range a.Problems {
+		fmt.Fprintf(b, " problem %s\n", dumpErr(p))
+	}
+}
+
+// sentinels are the errors a reader error may match with errors.Is.
+var sentinels = []error{ErrNotNumber, ErrNotWhole, ErrNotDate, ErrNotAllowed, ErrOutOfRange, ErrUnit, ErrSyntax}
+
+func dumpErr(e *fleet.Error) string {
+	is := ""
+	for _, s := range sentinels {
+		if errors.Is(e, s) {
+			is += "[" + s.Error() + "]"
+		}
+	}
+	return fmt.Sprintf("kind=%d op=%q asset=%q field=%q cell=%+v is=%s msg=%q", e.Kind, e.Op, e.Asset, e.Field, e.Cell, is, e.Error())
+}
+
+// bits shows a float exactly.
+func bits(x float64) string {
+	return strconv.FormatFloat(x, 'g', -1, 64) + "/" + strconv.FormatUint(math.Float64bits(x), 16)
+}
+
+// csvToXLSX writes a CSV register's records into a workbook, a field that is a plain
+// number as a numeric cell and the rest as text.
+func csvToXLSX(t testing.TB, data []byte) []byte {
+	t.Helper()
+	r, err := NewCSV(bytes.NewReader(data), "x.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rows [][]any
+	var titles []any
+	for _, c := range r.Header().Columns {
+		titles = append(titles, c.Title)
+	}
+	rows = append(rows, titles)
+	for {
+		a, err := r.Next(context.Background())
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		row := make([]any, len(a.Cells))
+		for i, c := range a.Cells {
+			if x, err := strconv.ParseFloat(c.Text, 64); err == nil && plainFloat(c.Text) {
+				row[i] = x
+			} else {
+				row[i] = c.Text
+			}
+		}
+		rows = append(rows, row)
+	}
+	return book(t, "Register", rows, nil)
+}
+
+// generatedRegister makes a reproducible register over every schema column plus two
+// unknown ones, mixing good values with the kinds of bad ones registers hold.
+func generatedRegister(seed uint64, n int) ([]string, [][]string) {
+	rng := rand.New(rand.NewPCG(seed, 7))
+	cols := templates.Columns()
+	header := []string{}
+	for i, c := range cols {
+		h := c.HeaderWithUnit("")
+		switch {
+		case c.Quantity == "mass" && i%2 == 0:
+			h = c.HeaderWithUnit("lb")
+		case c.Quantity == "length" && i%3 == 0:
+			h = c.HeaderWithUnit("in")
+		case c.Quantity == "force":
+			h = c.HeaderWithUnit("kN")
+		case c.Quantity == "ratio":
+			h = c.HeaderWithUnit("%")
+		}
+		header = append(header, h)
+	}
+	header = append(header, "Maintenance contractor", "Test load [ton]", "Notes (free text)")
+	pick := func(list ...string) string { return list[rng.IntN(len(list))] }
+	rows := make([][]string, n)
+	for r := range rows {
+		row := make([]string, len(header))
+		for i, c := range cols {
+			good := rng.IntN(10) < 7
+			switch c.Kind {
+			case templates.Number, templates.Integer:
+				x := 1.0 + float64(rng.IntN(50))
+				switch {
+				case c.HasMin && c.HasMax:
+					x = c.Min + (c.Max-c.Min)*rng.Float64()
+				case c.HasMin:
+					x = c.Min + 1 + 100*rng.Float64()
+				}
+				if c.Kind == templates.Integer {
+					x = math.Round(x)
+				}
+				row[i] = strconv.FormatFloat(x, 'g', 1+rng.IntN(8), 64)
+				if !good {
+					row[i] = pick("", " ", "twelve", "12,5", "1,250", "1.250", "1 250", "12.5 t", "12.5kg", "#DIV/0!", "#N/A",
+						"95%", "95 %", "1e3", "-3", "0", "1e400", "NaN", "Inf", "0x1p3", "1_000", "+7", "007", ".5", "5.", "3.5e", "12,5,0",
+						"12.5.0", " 7 ", "1,5e3", "2.5", "-0", "1.2345", "1.234,5", "1'250", "12\u00a0500", "½", "١٢")
+				}
+			case templates.Date:
+				row[i] = fmt.Sprintf("%04d-%02d-%02d", 2015+rng.IntN(12), 1+rng.IntN(12), 1+rng.IntN(28))
+				if !good {
+					row[i] = pick("", "31/12/2023", "2023-02-30", "2023-13-01", "2024-02-29", "2023-02-29", "2023-06-30T10:00:00Z",
+						"2023-06-30 10:00", "2023-06-30T10:00", "2023-06-30T25:00", "2023-06-30x", "45292", "45292.5", "0", "3000000",
+						"2023-6-30", "20230630", " 2023-06-30 ", "2023-06-30T10:00:00.123+02:00", "0000-01-01", "9999-12-31")
+				}
+			case templates.Enum:
+				row[i] = c.Values[rng.IntN(len(c.Values))]
+				if !good {
+					v := c.Values[rng.IntN(len(c.Values))]
+					row[i] = pick(strings.ToUpper(v), " "+v+" ", "ISO "+v, "FEM "+v, "iso4301 "+v, "fem9511-"+v, "iso", "X9", "3", "2.5", "Ünknown", v+"!", strings.ReplaceAll(v, "", "-"))
+				}
+			case templates.Bool:
+				row[i] = pick("yes", "no", "Y", "n", "TRUE", "false", "1", "0", "maybe", " yes ", "Yes")
+			default:
+				row[i] = fmt.Sprintf("%s %d", c.Key, r)
+				if !good {
+					row[i] = pick("", "  ", "12", "007", "x,y", `say "hi"`, "Travée côté façade", "line\nbreak", " padded ")
+				}
+			}
+		}
+		if c := cols[0]; c.Key == "asset_id" {
+			row[0] = fmt.Sprintf("H-%03d", r)
+			switch rng.IntN(25) {
+			case 0:
+				row[0] = ""
+			case 1:
+				row[0] = fmt.Sprintf("H-%03d", max(r-1, 0))
+			case 2:
+				row[0] = fmt.Sprintf(" H-%03d ", r)
+			}
+		}
+		row[len(cols)] = pick("Crane Care Ltd", "", "12.5", "007")
+		row[len(cols)+1] = pick("", "5", "five")
+		row[len(cols)+2] = pick("", "note", "1e3")
+		switch rng.IntN(40) {
+		case 0: // empty row
+			for i := range row {
+				row[i] = ""
+			}
+		case 1: // short row
+			row = row[:rng.IntN(len(row))]
+		case 2: // long row
+			row = append(row, "", pick("", "extra", "9"))
+		}
+		rows[r] = row
+	}
+	return header, rows
+}
+
+func generatedCSV(header []string, rows [][]string, sep byte) []byte {
+	var b bytes.Buffer
+	write := func(rec []string) {
+		for i, f := range rec {
+			if i > 0 {
+				b.WriteByte(sep)
+			}
+			if sep == ';' {
+				// The decimal-comma dialect: a plain decimal point becomes a comma.
+				if x, err := strconv.ParseFloat(f, 64); err == nil && strings.Count(f, ".") == 1 && !math.IsInf(x, 0) && !strings.ContainsAny(f, "eE") {
+					f = strings.Replace(f, ".", ",", 1)
+				}
+			}
+			if strings.ContainsAny(f, "\",;\n") {
+				f = `"` + strings.ReplaceAll(f, `"`, `""`) + `"`
+			}
+			b.WriteString(f)
+		}
+		b.WriteString("\r\n")
+	}
+	write(header)
+	for i, r := range rows {
+		if i%50 == 17 {
+			b.WriteString("\r\n") // a blank line between records: an empty spreadsheet row
+		}
+		write(r)
+	}
+	// A record that breaks RFC 4180, and a last record without a line end.
+	b.WriteString("H-bad,5,\"12\"x,7\r\n")
+	b.WriteString("H-last,1")
+	return b.Bytes()
+}
+
+// generatedXLSX writes the register as a workbook: a plain number as a numeric cell, a
+// few formulas (with cached values), a merged area below the header, a date column as
+// serials, and trailing blank (formatted) rows.
+func generatedXLSX(t testing.TB, header []string, rows [][]string) []byte {
+	t.Helper()
+	all := make([][]any, 0, len(rows)+1)
+	h := make([]any, len(header))
+	for i, s := range header {
+		h[i] = s
+	}
+	all = append(all, h)
+	for _, r := range rows {
+		row := make([]any, len(r))
+		for i, s := range r {
+			switch {
+			case s == "":
+				row[i] = nil
+			case plainFloat(s):
+				x, _ := strconv.ParseFloat(s, 64)
+				row[i] = x
+			case len(s) == 10 && s[4] == '-' && i%2 == 0:
+				if d, err := time.Parse("2006-01-02", s); err == nil {
+					row[i] = d // a date cell: written as a serial
+				} else {
+					row[i] = s
+				}
+			default:
+				row[i] = s
+			}
+		}
+		all = append(all, row)
+	}
+	return book(t, "Register", all, func(f *excelize.File) {
+		_ = f.MergeCell("Register", "C20", "C23")
+		_ = f.MergeCell("Register", "E40", "F40")
+		for _, cell := range []string{"B5", "B9", "D30", "E31", "F32", "G33", "H34"} {
+			_ = f.SetCellFormula("Register", cell, "1+1")
+		}
+		_ = f.SetRowHeight("Register", len(all)+3, 30)
+		_ = f.SetRowHeight("Register", len(all)+6, 30)
+	})
+}
+
+// plainFloat: what the generator writes as a numeric XLSX cell: a finite number without a
+// leading "+" or leading zeros (so "007" stays text), as a program formats floats.
+func plainFloat(s string) bool {
+	x, err := strconv.ParseFloat(s, 64)
+	if err != nil || math.IsInf(x, 0) || math.IsNaN(x) || strings.HasPrefix(s, "+") || strings.ContainsAny(s, "xXpP_ ") {
+		return false
+	}
+	m := strings.TrimPrefix(s, "-")
+	return m != "" && m[0] != '.' && !strings.HasSuffix(m, ".") && (len(m) == 1 || m[0] != '0' || m[1] == '.')
+}
+
+// TestDumpFile writes the dump of the register named by HOISTFLEET_DUMP_IN (.csv or
+// .xlsx) to HOISTFLEET_DUMP_OUT, to compare two versions of the reader on a large
+// register (e.g. one from cmd/hoistgen); skipped when they are not set.
+func TestDumpFile(t *testing.T) {
+	in, out := os.Getenv("HOISTFLEET_DUMP_IN"), os.Getenv("HOISTFLEET_DUMP_OUT")
+	if in == "" || out == "" {
+		t.Skip("HOISTFLEET_DUMP_IN and HOISTFLEET_DUMP_OUT not set")
+	}
+	b, err := os.ReadFile(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dump := dumpRegister(t, filepath.Base(in), goldenInput{data: b, xlsx: strings.HasSuffix(in, ".xlsx")})
+	if err := os.WriteFile(out, []byte(dump), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
