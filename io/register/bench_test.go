@@ -228,7 +228,7 @@ func BenchmarkFloorXLSX(b *testing.B) {
 }
 
 // BenchmarkFloorAssetShape is the floor the exported fleet.Asset sets on any reader: per
-// row, the Cells slice and a Fields map holding one Value per known column, nothing
+// row, the Cells slice and the Values slice holding one Value per known column, nothing
 // parsed (compare its ns/row with BenchmarkReadCSV's).
 func BenchmarkFloorAssetShape(b *testing.B) {
 	header, _ := benchRegister(false)
@@ -240,11 +240,11 @@ func BenchmarkFloorAssetShape(b *testing.B) {
 	b.ResetTimer()
 	for b.Loop() {
 		for row := range benchRows {
-			a := &fleet.Asset{Index: row, Row: row + 2, Cells: make([]fleet.Cell, len(r.specs)), Fields: make(map[string]fleet.Value, r.known)}
+			a := &fleet.Asset{Index: row, Row: row + 2, Cells: make([]fleet.Cell, len(r.specs)), Values: fleet.NewValues()}
 			for i := range r.specs {
 				a.Cells[i].Text = header[i]
 				if s := &r.specs[i]; s.known {
-					a.Fields[s.col.Key] = fleet.Value{State: fleet.OK, Raw: header[i], Cell: fleet.CellRef{Sheet: r.sheet, Row: row + 2, Col: i + 1}}
+					a.Values[s.field] = fleet.Value{State: fleet.OK, Raw: header[i], Cell: fleet.CellRef{Sheet: r.sheet, Row: row + 2, Col: i + 1}}
 				}
 			}
 			sink = a

@@ -47,6 +47,7 @@ type dialect struct {
 type colSpec struct {
 	known     bool             // the schema knows the column
 	col       templates.Column // the schema column when known
+	field     int              // its index in templates.Columns() (fleet.Asset.Values)
 	factor    float64          // cell × factor = SI
 	unitLabel string           // unit in messages ("t", "%"), "" for none
 	minSI     float64

@@ -164,17 +164,21 @@ func dumpRegister(t testing.TB, name string, in goldenInput) string {
 }
 
 func dumpAsset(b *strings.Builder, a *fleet.Asset) {
-	fmt.Fprintf(b, "asset index=%d row=%d id=%q blank=%v cells=%d fields=%v\n", a.Index, a.Row, a.ID, a.Blank, len(a.Cells), a.Fields != nil)
+	fmt.Fprintf(b, "asset index=%d row=%d id=%q blank=%v cells=%d fields=%v\n", a.Index, a.Row, a.ID, a.Blank, len(a.Cells), a.Values != nil)
 	for i, c := range a.Cells {
 		fmt.Fprintf(b, " cell %d %q num=%v date=%v %s\n", i, c.Text, c.IsNumber, c.IsDate, c.Date.Format("2006-01-02T15:04:05.999999999Z07:00"))
 	}
-	keys := make([]string, 0, len(a.Fields))
-	for k := range a.Fields {
-		keys = append(keys, k)
+	// The fields the reader wrote: every one carries its cell reference (the dumps were
+	// made when Asset held a map of exactly those).
+	var keys []string
+	for i, col := range templates.Columns() {
+		if i < len(a.Values) && a.Values[i].Cell.Row != 0 {
+			keys = append(keys, col.Key)
+		}
 	}
 	sort.Strings(keys)
 	for _, k := range keys {
-		v := a.Fields[k]
+		v := a.Get(k)
 		fmt.Fprintf(b, " field %s state=%d num=%s text=%q date=%s raw=%q cell=%+v", k, v.State, bits(v.Num), v.Text,
 			v.Date.Format("2006-01-02T15:04:05.999999999Z07:00"), v.Raw, v.Cell)
 		if v.Err != nil {

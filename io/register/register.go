@@ -12,9 +12,9 @@
 //
 // the row
 //
-//	H-7,4000,0.5,Crane Care Ltd
+//	H-7,4000,0.5,Tarnwick Lift Services
 //
-// gives Fields["rated_load"].Num = 1814.3695 (kg), Fields["rope_diameter"].Num = 0.0127
+// gives Get("rated_load").Num = 1814.3695 (kg), Get("rope_diameter").Num = 0.0127
 // (m), and passes "Maintenance contractor" through untouched (Column.Key "").
 //
 // Bad input never stops the reader and never drops a row: a cell that cannot be read is
@@ -42,6 +42,7 @@ import (
 
 	"hoistfleet/fleet"
 	"hoistfleet/io/units"
+	"hoistfleet/templates"
 )
 
 // rawRow is one row as the file gives it.
@@ -177,7 +178,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 	if r.idCol >= 0 && r.idCol < len(rr.cells) {
 		a.ID = strings.TrimSpace(rr.cells[r.idCol])
 	}
-	a.Fields = make(map[string]fleet.Value, r.known)
+	a.Values = fleet.NewValues()
 	readable := len(rr.cells)
 	if rr.syntax != nil {
 		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Invalid, Asset: a.ID,
@@ -193,7 +194,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 		}
 		if rr.syntax != nil && i >= readable {
 			if s.known {
-				a.Fields[s.col.Key] = fleet.Value{State: fleet.Bad, Cell: ref, Err: &fleet.Error{
+				a.Values[s.field] = fleet.Value{State: fleet.Bad, Cell: ref, Err: &fleet.Error{
 					Kind: fleet.Invalid, Asset: a.ID, Cell: ref, Field: s.col.Key,
 					Err: &cellError{msg: "not read: " + rr.syntax.message(), kind: ErrSyntax}}}
 			}
@@ -202,7 +203,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 		v, c := s.parse(raw, r.d, ref, a.ID)
 		a.Cells[i] = c
 		if s.known {
-			a.Fields[s.col.Key] = v
+			a.Values[s.field] = v
 		}
 	}
 	for _, p := range rr.merged {
@@ -301,6 +302,7 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 			matched++
 			sc, _ := index.col(key)
 			spec.known, spec.col = true, sc
+			spec.field, _ = templates.ColumnIndex(key)
 			r.known++
 			col.Key = key
 			spec.setUnit(raw, unit, splitErr, &col)

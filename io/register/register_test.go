@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"hoistfleet/fleet"
+	"hoistfleet/templates"
 )
 
 // approxEqual reports whether got and want agree within absTol or relTol × max(|got|,
@@ -150,8 +151,12 @@ func TestUSUnitsMatchSI(t *testing.T) {
 		t.Fatalf("rows: %d %d", len(si), len(us))
 	}
 	n := 0
-	for k, want := range si[0].Fields {
-		got := us[0].Fields[k]
+	for _, col := range templates.Columns() {
+		k := col.Key
+		want, got := si[0].Get(k), us[0].Get(k)
+		if want.Cell.Row == 0 { // not a column of the register
+			continue
+		}
 		if want.State != fleet.OK || got.State != fleet.OK {
 			t.Errorf("%s: states %v %v (%s %s)", k, want.State, got.State, errText(want), errText(got))
 			continue
@@ -313,8 +318,8 @@ func TestRowProblems(t *testing.T) {
 	if len(as[0].Problems) != 0 {
 		t.Errorf("row 2: %v", as[0].Problems)
 	}
-	if !as[1].Blank || as[1].Fields != nil && len(as[1].Fields) != 0 {
-		t.Errorf("empty row: Blank %v Fields %v", as[1].Blank, as[1].Fields)
+	if !as[1].Blank || as[1].Values != nil {
+		t.Errorf("empty row: Blank %v Values %v", as[1].Blank, as[1].Values)
 	}
 	for _, tt := range tests {
 		a := as[tt.i]
@@ -431,7 +436,7 @@ func TestHeaderMatching(t *testing.T) {
 	}
 	a := readAll(t, r)[0]
 	if a.Get("rated_load").Num != 500 || a.Get("rope_mbf").Num != 80000 || a.Cells[6].Text != "ACME" {
-		t.Errorf("values: %+v", a.Fields)
+		t.Errorf("values: %+v", a.Values)
 	}
 }
 
