@@ -83,15 +83,23 @@ func loadSchema() {
 	}
 }
 
+// mustSchema loads the embedded schema once.
+func mustSchema() {
+	schemaOnce.Do(loadSchema)
+	if schemaErr != nil {
+		panic("templates: embedded columns.csv: " + schemaErr.Error())
+	}
+}
+
 // ColumnCount is len(Columns()), without the copy.
 func ColumnCount() int {
-	Columns() // loads the schema
+	mustSchema()
 	return len(schema)
 }
 
 // ColumnIndex returns the position of the column with that key in Columns().
 func ColumnIndex(key string) (int, bool) {
-	Columns() // loads the schema
+	mustSchema()
 	i, ok := schemaIndex[key]
 	return i, ok
 }
@@ -99,10 +107,7 @@ func ColumnIndex(key string) (int, bool) {
 // Columns returns the register schema in template order. The embedded table is checked
 // by the package tests; a malformed table is a programming error.
 func Columns() []Column {
-	schemaOnce.Do(loadSchema)
-	if schemaErr != nil {
-		panic("templates: embedded columns.csv: " + schemaErr.Error())
-	}
+	mustSchema()
 	out := make([]Column, len(schema))
 	copy(out, schema)
 	return out
@@ -111,7 +116,7 @@ func Columns() []Column {
 // ColumnByKey returns the column with that key.
 func ColumnByKey(key string) (Column, bool) {
 	if i, ok := ColumnIndex(key); ok {
-		return schema[i], true
+		return schema[i], true // schema is loaded by ColumnIndex
 	}
 	return Column{}, false
 }
