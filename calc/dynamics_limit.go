@@ -34,3 +34,62 @@ func BrakeStopLimitKg(h Hoist) float64 {
 	m := fb/(eta*t.g) - h.HookBlockKg
 	return math.Max(m, 0)
 }
+
+// MotorAccelTorqueLimitKg is the largest rated load the motor can still accelerate at the
+// design acceleration within its peak torque: the root of motor-accel-torque's
+// utilisation − 1 in closed form [kg]. At each evaluated radius r (r_1 and r_L) the
+// torque is affine in the load (MotorAccelTorque):
+//
+//	T(m) = e m (g + a) r / (n η_RD) / (i η_g) + I_d α_d / (i η_g) + J_m i α_d,  α_d = a n_e / r
+//
+// so T(m) ≤ p M_r at every radius gives
+//
+//	m ≤ (p M_r − I_d α_d/(i η_g) − J_m i α_d) n η_RD i η_g / (e (g + a) r),  m_L = min over r − m_H.
+//
+// NaN for inputs the check refuses (it reports them); 0 when even the hook block cannot
+// be accelerated within the peak torque.
+func MotorAccelTorqueLimitKg(h Hoist) float64 {
+	h.SkipRecord, h.SkipDetail = true, true
+	if _, err := MotorAccelTorque(h); err != nil { // the check's own validation
+		return math.NaN()
+	}
+	t, _ := dynTrainOf(h)
+	a := h.AccelMS2
+	peak := h.PeakTorqueRatio * h.MotorRatedTorqueNm()
+	m := math.Inf(1)
+	for _, r := range t.radii[:t.nr] {
+		alpha := a * t.ne / r
+		inertia := t.id*alpha/(t.i*t.etaG) + t.jm*t.i*alpha
+		m = math.Min(m, (peak-inertia)*t.n*t.etaRD*t.i*t.etaG/(t.e*(t.g+a)*r))
+	}
+	return math.Max(m-h.HookBlockKg, 0)
+}
+
+// GearboxTorqueLimitKg is the largest rated load within the gearbox's rated output
+// torque: the root of gearbox-torque's utilisation − 1 in closed form [kg]. The demand is
+// max(T_acc(m), T_stop) (GearboxTorque): T_stop does not depend on the rated load (a
+// motor-shaft brake's torque, or a drum brake stopping the empty hook), and at each
+// radius T_acc(m) = e m (g + a) r / (n η_RD) + I_d a n_e / r is affine in it, so
+//
+//	m ≤ (C − I_d a n_e / r) n η_RD / (e (g + a) r) at every radius,  m_L = min over r − m_H,
+//
+// with C the rated output torque; 0 when T_stop alone exceeds C or even the hook block
+// cannot be accelerated within it. NaN for inputs the check refuses.
+func GearboxTorqueLimitKg(h Hoist) float64 {
+	h.SkipRecord, h.SkipDetail = true, false
+	o, err := GearboxTorque(h) // the check's own validation, and T_stop
+	if err != nil {
+		return math.NaN()
+	}
+	c := h.GearboxRatedTorqueNm
+	if stop := o.Figure("stop_drum_torque_nm"); stop > c {
+		return 0
+	}
+	t, _ := dynTrainOf(h)
+	a := h.AccelMS2
+	m := math.Inf(1)
+	for _, r := range t.radii[:t.nr] {
+		m = math.Min(m, (c-t.id*a*t.ne/r)*t.n*t.etaRD/(t.e*(t.g+a)*r))
+	}
+	return math.Max(m-h.HookBlockKg, 0)
+}

@@ -627,6 +627,7 @@ func baseCheckSpecs() []checkSpec {
 			}},
 		{id: "motor-accel-torque", rule: "accelerating torque ≤ peak motor torque p M_r", source: "Newton's second law for load, drum and rotor; peak torque ratio from the register or the rule default", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), uses: driveUses, loadDependent: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				d.closedLimit = calc.MotorAccelTorqueLimitKg
 				return calc.MotorAccelTorque, nil, nil
 			}},
 		{id: "gearbox-torque", rule: "largest drum-shaft torque ≤ gearbox rated output torque", source: "gear unit rating from the register; Newton's second law", needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), uses: brakeUses, loadDependent: true,
@@ -637,6 +638,7 @@ func baseCheckSpecs() []checkSpec {
 				return true, ""
 			},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				d.closedLimit = calc.GearboxTorqueLimitKg
 				return calc.GearboxTorque, nil, nil
 			}},
 		{id: "brake-holding", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), uses: brakeUses, loadDependent: true, linear: true,
@@ -1032,6 +1034,9 @@ const maxSearchKg = 1e7
 func (c *Checker) limitLoad(h calc.Hoist, p preparedCheck, o calc.Outcome) float64 {
 	if p.closedLimit != nil {
 		if v := p.closedLimit(h); !math.IsNaN(v) {
+			if v > maxSearchKg {
+				return math.NaN() // as the search: not reached below maxSearchKg
+			}
 			return floorTenth(v)
 		}
 	}
