@@ -16,16 +16,22 @@
 //     SHA-256, as-of date, times, rules, marginal band, workers, rows) and every rule in
 //     force with its value, groups, condition, source, provenance, origin and uses.
 //
-// Register and Checks are written with excelize's StreamWriter as results arrive (two
-// stream writers on two sheets at once), so memory does not grow with the register;
-// rows beyond excelize's in-memory chunk go to temporary files that Abort, or the File's
-// Close after End, removes. Summary and Audit are small and use the normal API.
+// Register and Checks (and Checks 2, … when Checks is full) are written as results
+// arrive by hoistfleet's own worksheet writer (sheetxml.go), which formats the sheet XML
+// the way excelize's StreamWriter did and deflates it as it goes (on a goroutine per
+// sheet) into a temporary file per sheet (in Options.TmpDir), so memory does not grow
+// with the register. In End,
+// excelize builds the rest of the workbook — Summary and Audit with its normal API,
+// styles, the workbook part, relationships, content types and an empty placeholder for
+// each streamed sheet — and writes it through a zip writer of ours that puts each
+// streamed sheet's compressed entry where excelize writes its placeholder (zipswap.go).
+// End and Abort remove the temporary files.
 //
 // Nothing from the register can become a live formula: register text is written as
 // text cells, numbers as numbers, dates as dates. The only formulas in the workbook are
 // hoistfleet's own HYPERLINK("#'Checks'!A123", …) cells in the Register's link column:
-// excelize's stream writer cannot carry hyperlink relationships per cell without keeping
-// them all in memory (and a sheet holds at most 65 529), so a formula link keeps memory
+// a streamed sheet cannot carry hyperlink relationships per cell without keeping them
+// all in memory (and a sheet holds at most 65 529), so a formula link keeps memory
 // bounded. The Summary's links to Register rows are ordinary cell hyperlinks.
 package xlsxout
 
@@ -56,7 +62,8 @@ type Options struct {
 	// TopN caps the Summary's hoist lists (worst, overdue, flags, changes); 0 shows
 	// every hoist the fleet.Summary kept.
 	TopN int
-	// TmpDir is where excelize spills streamed rows; "" is the system default.
+	// TmpDir is where the streamed sheets are compressed to temporary files until End;
+	// "" is the system default.
 	TmpDir string
 }
 
@@ -72,10 +79,14 @@ type Writer struct {
 	opts Options
 	f    *excelize.File
 	st   *styles
-	reg  *excelize.StreamWriter
-	chk  *excelize.StreamWriter
-	h    *fleet.Header
-	info *fleet.RunInfo
+	reg  *sheetStream
+	chk  *sheetStream
+	// streamed are the finished streamed sheets' spools by sheet name; spools are all
+	// of them, for removal
+	streamed map[string]*spool
+	spools   []*spool
+	h        *fleet.Header
+	info     *fleet.RunInfo
 
 	unit     string  // the register's rated-load unit
 	perKg    float64 // register unit per kg
@@ -87,7 +98,6 @@ type Writer struct {
 	chkSheet string  // the Checks sheet being written: "Checks", then "Checks 2", … when full
 	chkN     int     // how many Checks sheets so far
 	maxRows  int     // rows a sheet may hold; 0: the spreadsheet limit (tests set less)
-	row      []any   // reused row buffer
 	done     bool
 	err      error
 }
@@ -105,7 +115,7 @@ func (w *Writer) fail(format string, a ...any) error {
 }
 
 // Begin creates the workbook, its styles and the two streamed sheets, and writes their
-// headers.
+// headers. When it fails it releases what it made (fleet.Run calls no Abort then).
 func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	if w.err != nil {
 		return w.err
@@ -113,20 +123,29 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	if h == nil {
 		return w.fail("no header")
 	}
+	if err := w.begin(h, info); err != nil {
+		w.release()
+		return err
+	}
+	return nil
+}
+
+func (w *Writer) begin(h *fleet.Header, info *fleet.RunInfo) error {
 	w.h, w.info = h, info
 	w.f = excelize.NewFile(excelize.Options{TmpDir: w.opts.TmpDir})
 	f := w.f
 	if err := f.SetSheetName("Sheet1", SheetSummary); err != nil {
 		return w.fail("%w", err)
 	}
-	// Audit is created in End, after any continuation sheets of Checks: excelize cannot
-	// move sheets once streamed sheets have spilled to temporary files.
+	// Register and Checks are empty placeholders here: their parts are written by
+	// sheetStream. Audit is created in End, after any continuation sheets of Checks.
 	for _, s := range []string{SheetRegister, SheetChecks} {
 		if _, err := f.NewSheet(s); err != nil {
 			return w.fail("sheet %s: %w", s, err)
 		}
 	}
 	f.SetActiveSheet(0)
+	w.streamed = map[string]*spool{}
 	var err error
 	if w.st, err = newStyles(f); err != nil {
 		w.err = err
@@ -187,33 +206,23 @@ var keyWidths = map[string]float64{"asset_id": 14, "site": 18, "location": 18, "
 var resultWidths = []float64{11, 20, 14, 10, 20, 40, 30, 10}
 
 func (w *Writer) beginRegister() error {
-	f := w.f
-	if err := f.SetSheetDimension(SheetRegister, ""); err != nil {
-		return w.fail("%w", err)
-	}
-	sw, err := f.NewStreamWriter(SheetRegister)
-	if err != nil {
-		return w.fail("register: %w", err)
-	}
-	w.reg = sw
 	w.nIn = len(w.h.Columns)
 	res := w.registerResultHeaders()
 	w.nCols = w.nIn + len(res)
-	panes := &excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"}
+	if w.nCols > excelize.MaxColumns {
+		return w.fail("register: %d columns, more than a sheet holds (%d)", w.nCols, excelize.MaxColumns)
+	}
+	pane := frozenPane{ySplit: 1, topLeft: "A2", active: "bottomLeft"}
 	if w.nIn > 0 && w.h.Columns[0].Key == "asset_id" {
-		panes = &excelize.Panes{Freeze: true, XSplit: 1, YSplit: 1, TopLeftCell: "B2", ActivePane: "bottomRight"}
+		pane = frozenPane{xSplit: 1, ySplit: 1, topLeft: "B2", active: "bottomRight"}
 	}
-	if err := sw.SetPanes(panes); err != nil {
-		return w.fail("register panes: %w", err)
-	}
-	for i, c := range w.h.Columns {
+	widths := make([]float64, 0, w.nCols)
+	for _, c := range w.h.Columns {
 		width, ok := keyWidths[c.Key]
 		if !ok {
 			width = clamp(float64(len([]rune(c.Title)))*1.1+2, 10, 30)
 		}
-		if err := sw.SetColWidth(i+1, i+1, width); err != nil {
-			return w.fail("register widths: %w", err)
-		}
+		widths = append(widths, width)
 	}
 	for i, hd := range res {
 		width := 12.0
@@ -222,48 +231,49 @@ func (w *Writer) beginRegister() error {
 		} else if strings.HasSuffix(hd, " status") {
 			width = clamp(float64(len(hd))*0.6, 10, 18)
 		}
-		if err := sw.SetColWidth(w.nIn+i+1, w.nIn+i+1, width); err != nil {
-			return w.fail("register widths: %w", err)
-		}
+		widths = append(widths, width)
 	}
-	row := make([]any, 0, w.nCols)
-	for _, c := range w.h.Columns {
-		row = append(row, excelize.Cell{Value: c.Title, StyleID: w.st.hdrIn})
+	sw, err := w.newStream(pane, widths)
+	if err != nil {
+		return w.fail("register: %w", err)
 	}
-	for _, hd := range res {
-		row = append(row, excelize.Cell{Value: hd, StyleID: w.st.hdrOut})
+	w.reg = sw
+	sw.startRow(1, 45)
+	for i, c := range w.h.Columns {
+		sw.str(i+1, c.Title, w.st.hdrIn)
 	}
-	if err := sw.SetRow("A1", row, excelize.RowOpts{Height: 45}); err != nil {
+	for i, hd := range res {
+		sw.str(w.nIn+i+1, hd, w.st.hdrOut)
+	}
+	if err := sw.endRow(); err != nil {
 		return w.fail("register header: %w", err)
 	}
 	w.regRow = 1
 	return nil
 }
 
-func (w *Writer) beginChecks(sheet string) error {
-	f := w.f
-	w.chkSheet = sheet
-	if err := f.SetSheetDimension(sheet, ""); err != nil {
-		return w.fail("%w", err)
+// newStream starts a streamed sheet in a spool of its own.
+func (w *Writer) newStream(pane frozenPane, widths []float64) (*sheetStream, error) {
+	sw, err := newSheetStream(w.opts.TmpDir, pane, widths)
+	if err != nil {
+		return nil, err
 	}
-	sw, err := f.NewStreamWriter(sheet)
+	w.spools = append(w.spools, sw.sp)
+	return sw, nil
+}
+
+func (w *Writer) beginChecks(sheet string) error {
+	w.chkSheet = sheet
+	sw, err := w.newStream(frozenPane{ySplit: 1, topLeft: "A2", active: "bottomLeft"}, checksWidths)
 	if err != nil {
 		return w.fail("checks: %w", err)
 	}
 	w.chk = sw
-	if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"}); err != nil {
-		return w.fail("checks panes: %w", err)
-	}
-	for i, width := range checksWidths {
-		if err := sw.SetColWidth(i+1, i+1, width); err != nil {
-			return w.fail("checks widths: %w", err)
-		}
-	}
-	row := make([]any, len(ChecksColumns))
+	sw.startRow(1, 30)
 	for i, c := range ChecksColumns {
-		row[i] = excelize.Cell{Value: c, StyleID: w.st.hdrOut}
+		sw.str(i+1, c, w.st.hdrOut)
 	}
-	if err := sw.SetRow("A1", row, excelize.RowOpts{Height: 30}); err != nil {
+	if err := sw.endRow(); err != nil {
 		return w.fail("checks header: %w", err)
 	}
 	w.chkRow = 1
@@ -318,15 +328,30 @@ func (w *Writer) Write(r *fleet.Result) error {
 	return w.writeRegister(r, first)
 }
 
-// finishChecks sets the filter of the Checks sheet being written and flushes it.
+// finishChecks sets the filter of the Checks sheet being written and finishes it.
 func (w *Writer) finishChecks() error {
-	lastCol, _ := excelize.ColumnNumberToName(len(ChecksColumns))
-	if err := w.f.AutoFilter(w.chkSheet, "A1:"+lastCol+strconv.Itoa(max(w.chkRow, 2)), nil); err != nil {
-		return w.fail("checks filter: %w", err)
-	}
-	if err := w.chk.Flush(); err != nil {
+	if err := w.finishStream(w.chkSheet, w.chk, len(ChecksColumns), w.chkRow); err != nil {
 		return w.fail("checks: %w", err)
 	}
+	return nil
+}
+
+// finishStream ends a streamed sheet with an auto-filter over its columns and rows
+// (at least two rows: a filter needs one under the header). The filter is also set on
+// excelize's placeholder, which gives the workbook its _xlnm._FilterDatabase name.
+func (w *Writer) finishStream(sheet string, sw *sheetStream, cols, rows int) error {
+	lastCol, err := excelize.ColumnNumberToName(max(cols, 1))
+	if err != nil {
+		return err
+	}
+	last := strconv.Itoa(max(rows, 2))
+	if err := w.f.AutoFilter(sheet, "A1:"+lastCol+last, nil); err != nil {
+		return fmt.Errorf("filter: %w", err)
+	}
+	if err := sw.finish("$A$1:$" + lastCol + "$" + last); err != nil {
+		return err
+	}
+	w.streamed[sheet] = sw.sp
 	return nil
 }
 
@@ -344,21 +369,29 @@ func (w *Writer) rollChecks() error {
 }
 
 func (w *Writer) writeChecks(r *fleet.Result, site, lc string, cs []fleet.CheckResult) error {
-	st := w.st
+	st, sw := w.st, w.chk
 	for i := range cs {
 		c := &cs[i]
 		si := statusIndex(c.Status)
 		w.chkRow++
-		w.row = append(w.row[:0],
-			r.Asset.Row, text(r.Asset.ID), text(site), lc, c.ID,
-			excelize.Cell{Value: c.Status.String(), StyleID: st.text[si]},
-			num(c.Demand), num(c.Capacity), text(c.Unit),
-			excelize.Cell{Value: num(c.Utilisation), StyleID: st.pct[si]},
-			excelize.Cell{Value: num(c.Margin), StyleID: st.pctPlain},
-			excelize.Cell{Value: num(c.LimitRatedLoadKg), StyleID: st.kg},
-			text(c.Rule), text(c.Source), text(c.Message), text(KeyFigures(c)))
-		cell, _ := excelize.CoordinatesToCellName(1, w.chkRow)
-		if err := w.chk.SetRow(cell, w.row); err != nil {
+		sw.startRow(w.chkRow, 0)
+		sw.int(1, r.Asset.Row, 0)
+		sw.text(2, r.Asset.ID, 0)
+		sw.text(3, site, 0)
+		sw.str(4, lc, 0)
+		sw.str(5, c.ID, 0)
+		sw.str(6, c.Status.String(), st.text[si])
+		sw.num(7, c.Demand, 0)
+		sw.num(8, c.Capacity, 0)
+		sw.text(9, c.Unit, 0)
+		sw.num(10, c.Utilisation, st.pct[si])
+		sw.num(11, c.Margin, st.pctPlain)
+		sw.num(12, c.LimitRatedLoadKg, st.kg)
+		sw.text(13, c.Rule, 0)
+		sw.text(14, c.Source, 0)
+		sw.text(15, c.Message, 0)
+		sw.text(16, KeyFigures(c), 0)
+		if err := sw.endRow(); err != nil {
 			return w.fail("checks row %d: %w", w.chkRow, err)
 		}
 	}
@@ -366,44 +399,39 @@ func (w *Writer) writeChecks(r *fleet.Result, site, lc string, cs []fleet.CheckR
 }
 
 func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
-	st := w.st
+	st, sw := w.st, w.reg
 	row := r.Asset.Row
 	if row <= w.regRow {
 		row = w.regRow + 1
 	}
 	w.regRow = row
-	w.row = w.row[:0]
-	for _, c := range r.Asset.Cells {
-		w.row = append(w.row, w.inputCell(c))
-	}
-	for len(w.row) < w.nIn {
-		w.row = append(w.row, nil)
-	}
-	w.row = w.row[:w.nIn] // cells beyond the header are not part of any column
-	si := statusIndex(r.Status)
-	link := any(nil)
-	if firstCheck > 0 {
-		link = excelize.Cell{Formula: `HYPERLINK("#'` + w.chkSheet + `'!A` + strconv.Itoa(firstCheck) + `","details")`,
-			Value: "details", StyleID: st.link}
-	}
-	w.row = append(w.row,
-		excelize.Cell{Value: r.Status.String(), StyleID: st.text[si]},
-		text(r.GoverningCheck),
-		excelize.Cell{Value: num(r.MaxRatedLoadKg * w.perKg), StyleID: st.load},
-		excelize.Cell{Value: num(r.MinMargin), StyleID: st.pctPlain},
-		text(r.WorstCheck),
-		text(strings.Join(r.Messages, "; ")),
-		text(strings.Join(r.DefaultsUsed, "; ")),
-		link)
-	for _, id := range fleet.CheckIDs {
-		c := r.Check(id)
-		if c == nil {
-			w.row = append(w.row, nil, nil)
-			continue
+	sw.startRow(row, 0)
+	for i, c := range r.Asset.Cells {
+		if i >= w.nIn { // cells beyond the header are not part of any column
+			break
 		}
-		ci := statusIndex(c.Status)
-		w.row = append(w.row, excelize.Cell{Value: c.Status.String(), StyleID: st.text[ci]},
-			excelize.Cell{Value: num(c.Utilisation), StyleID: st.pct[ci]})
+		w.inputCell(i+1, c)
+	}
+	col := w.nIn
+	si := statusIndex(r.Status)
+	sw.str(col+1, r.Status.String(), st.text[si])
+	sw.text(col+2, r.GoverningCheck, 0)
+	sw.num(col+3, r.MaxRatedLoadKg*w.perKg, st.load)
+	sw.num(col+4, r.MinMargin, st.pctPlain)
+	sw.text(col+5, r.WorstCheck, 0)
+	sw.text(col+6, strings.Join(r.Messages, "; "), 0)
+	sw.text(col+7, strings.Join(r.DefaultsUsed, "; "), 0)
+	if firstCheck > 0 {
+		sw.formula(col+8, `HYPERLINK("#'`+w.chkSheet+`'!A`+strconv.Itoa(firstCheck)+`","details")`, "details", st.link)
+	}
+	col += 8
+	for _, id := range fleet.CheckIDs {
+		if c := r.Check(id); c != nil {
+			ci := statusIndex(c.Status)
+			sw.str(col+1, c.Status.String(), st.text[ci])
+			sw.num(col+2, c.Utilisation, st.pct[ci])
+		}
+		col += 2
 	}
 	if w.proposed {
 		if p := r.Proposed; p != nil {
@@ -411,46 +439,31 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 			if p.Status != r.Status {
 				changes = "yes"
 			}
-			w.row = append(w.row, excelize.Cell{Value: p.Status.String(), StyleID: st.text[statusIndex(p.Status)]}, changes)
-		} else {
-			w.row = append(w.row, nil, nil)
+			sw.str(col+1, p.Status.String(), st.text[statusIndex(p.Status)])
+			sw.str(col+2, changes, 0)
 		}
 	}
-	cell, _ := excelize.CoordinatesToCellName(1, row)
-	if err := w.reg.SetRow(cell, w.row); err != nil {
+	if err := sw.endRow(); err != nil {
 		return w.fail("register row %d: %w", row, err)
 	}
 	return nil
 }
 
-// inputCell returns a register cell as given: a number, a date, or text. Text is always
-// a text cell, so "=1+2" from the register stays the string "=1+2".
-func (w *Writer) inputCell(c fleet.Cell) any {
+// inputCell writes a register cell as given: a number, a date, or text. Text is always
+// a text cell, so "=1+2" from the register stays the string "=1+2". An empty cell is
+// not written.
+func (w *Writer) inputCell(col int, c fleet.Cell) {
 	switch {
 	case c.IsDate && !c.Date.IsZero():
-		return excelize.Cell{Value: c.Date, StyleID: w.st.date}
+		w.reg.date(col, c.Date, w.st.date)
+		return
 	case c.IsNumber:
-		if v, err := strconv.ParseFloat(strings.TrimSpace(c.Text), 64); err == nil && !math.IsInf(v, 0) && !math.IsNaN(v) {
-			return v
+		if v, err := strconv.ParseFloat(strings.TrimSpace(c.Text), 64); err == nil && finite(v) {
+			w.reg.num(col, v, 0)
+			return
 		}
 	}
-	return text(c.Text)
-}
-
-// text returns s, or nil for an empty string (no cell).
-func text(s string) any {
-	if s == "" {
-		return nil
-	}
-	return s
-}
-
-// num returns v, or nil for NaN and ±Inf (an empty cell).
-func num(v float64) any {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return nil
-	}
-	return v
+	w.reg.text(col, c.Text, 0)
 }
 
 func clamp(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
@@ -528,12 +541,9 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if s == nil {
 		s = fleet.NewSummary(0)
 	}
+	defer w.removeSpools()
 	f := w.f
-	lastCol, _ := excelize.ColumnNumberToName(max(w.nCols, 1))
-	if err := f.AutoFilter(SheetRegister, "A1:"+lastCol+strconv.Itoa(max(w.regRow, 2)), nil); err != nil {
-		return w.fail("register filter: %w", err)
-	}
-	if err := w.reg.Flush(); err != nil {
+	if err := w.finishStream(SheetRegister, w.reg, w.nCols, w.regRow); err != nil {
 		return w.fail("register: %w", err)
 	}
 	if err := w.finishChecks(); err != nil {
@@ -548,15 +558,21 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if err := w.writeAudit(info); err != nil {
 		return w.fail("audit: %w", err)
 	}
-	// excelize assembles the whole zip in a bytes.Buffer before writing it out, which for
-	// a register of a million hoists is gigabytes. A zip writer of our own, handed to
-	// excelize through SetZipWriter, writes every part straight to w.out instead (the
-	// buffer excelize passes is left empty), with the fastest deflate level.
+	// excelize assembles the whole zip in a bytes.Buffer before writing it out. A zip
+	// writer of our own, handed to excelize through SetZipWriter, writes every part
+	// straight to w.out instead (the buffer excelize passes is left empty), with the
+	// fastest deflate level, and the streamed sheets' compressed entries in place of
+	// their placeholders.
 	zw := zip.NewWriter(w.out)
 	zw.RegisterCompressor(zip.Deflate, func(out io.Writer) (io.WriteCloser, error) {
 		return flate.NewWriter(out, flate.BestSpeed)
 	})
-	f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return zw })
+	sz := &swapZip{zw: zw, sheets: w.streamed, read: func(name string) ([]byte, bool) {
+		v, ok := f.Pkg.Load(name)
+		b, isBytes := v.([]byte)
+		return b, ok && isBytes
+	}}
+	f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return sz })
 	if err := f.Write(io.Discard); err != nil {
 		return w.fail("write: %w", err)
 	}
@@ -566,11 +582,25 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	return nil
 }
 
-// Abort releases the workbook and its temporary files.
-func (w *Writer) Abort() {
+// removeSpools removes the streamed sheets' temporary files.
+func (w *Writer) removeSpools() {
+	for _, sp := range w.spools {
+		sp.remove()
+	}
+	w.spools = nil
+}
+
+// release closes the workbook and removes the temporary files.
+func (w *Writer) release() {
 	if w.f != nil {
 		_ = w.f.Close()
 	}
+	w.removeSpools()
+}
+
+// Abort releases the workbook and its temporary files.
+func (w *Writer) Abort() {
+	w.release()
 	w.done = true
 	if w.err == nil {
 		w.err = fmt.Errorf("xlsxout: aborted")
