@@ -44,8 +44,8 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 
 	g, ctx := errgroup.WithContext(ctx)
 	slots := make(chan struct{}, buffer) // a slot is held from read until written
-	jobs := make(chan *Asset, workers)
-	done := make(chan *Result, workers)
+	jobs := make(chan *Asset, buffer)    // deep queues: fewer hand-offs that leave a core idle
+	done := make(chan *Result, buffer)
 
 	g.Go(func() error { // reader
 		defer close(jobs)
