@@ -72,10 +72,14 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 	})
 	workersDone := make(chan struct{})
 	var wg errgroup.Group
+	prep, _ := sink.(Preparer)
 	for range workers {
 		wg.Go(func() error {
 			for a := range jobs {
 				r := c.Check(a)
+				if prep != nil {
+					prep.Prepare(r)
+				}
 				select {
 				case done <- r:
 				case <-ctx.Done():

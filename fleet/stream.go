@@ -25,6 +25,15 @@ type Sink interface {
 	Abort()
 }
 
+// Preparer is implemented by a Sink that can do part of its work for a result in the
+// worker that checked it, before the result reaches Write: typically encoding it, so that
+// the encoding runs on every core while Write, called in register order by one goroutine,
+// only copies bytes out. Prepare is called concurrently from several workers, after Begin;
+// it must not touch state that Write uses, and may leave its work in Result.Prepared.
+type Preparer interface {
+	Prepare(r *Result)
+}
+
 // RuleUse is one rule row in force, as the audit sheet lists it.
 type RuleUse struct {
 	ID         string

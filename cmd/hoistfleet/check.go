@@ -199,9 +199,10 @@ func openRegister(name, sheet string, st Streams) (*input, error) {
 // output is a file written atomically: a temporary file in the same directory, renamed
 // over the target only when complete.
 type output struct {
-	path string
-	tmp  *os.File
-	w    io.Writer
+	path  string
+	tmp   *os.File
+	flush *flusher // syncs tmp in the background as it grows
+	w     io.Writer
 }
 
 func createOutput(path string, st Streams) (*output, error) {
@@ -218,12 +219,17 @@ func createOutput(path string, st Streams) (*output, error) {
 		os.Remove(tmp.Name())
 		return nil, fmt.Errorf("writing the results: %w", err)
 	}
-	return &output{path: path, tmp: tmp, w: tmp}, nil
+	fl := newFlusher(tmp, tmp.Sync)
+	return &output{path: path, tmp: tmp, flush: fl, w: fl}, nil
 }
 
 func (o *output) commit() error {
 	if o.tmp == nil {
 		return nil
+	}
+	if err := o.flush.Close(); err != nil {
+		o.abort()
+		return fmt.Errorf("writing %s: %w", o.path, err)
 	}
 	if err := o.tmp.Sync(); err != nil {
 		o.abort()
@@ -242,6 +248,7 @@ func (o *output) commit() error {
 
 func (o *output) abort() {
 	if o.tmp != nil {
+		o.flush.Close()
 		o.tmp.Close()
 		os.Remove(o.tmp.Name())
 	}
@@ -377,6 +384,13 @@ type hashingSink struct {
 	fleet.Sink
 	in   *input
 	info *fleet.RunInfo
+}
+
+// Prepare passes the workers' share of the writing on to the wrapped sink.
+func (s *hashingSink) Prepare(r *fleet.Result) {
+	if p, ok := s.Sink.(fleet.Preparer); ok {
+		p.Prepare(r)
+	}
 }
 
 func (s *hashingSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {

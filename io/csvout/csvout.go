@@ -27,6 +27,7 @@ import (
 	"io"
 	"math"
 	"strconv"
+	"sync"
 	"unicode/utf8"
 
 	"hoistfleet/fleet"
@@ -62,8 +63,24 @@ const flushAt = 64 << 10
 // A hoist's records are built in one buffer and handed to the underlying writer in
 // blocks of about 64 KiB. The text of check ids, units, rules, sources, sites and
 // numbers that repeat from record to record is encoded once and copied after that.
+//
+// Writer is also a fleet.Preparer: the pipeline's workers encode each hoist's records
+// (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
+// copies them out, so the encoding runs on every core.
 type Writer struct {
-	out      io.Writer
+	out   io.Writer
+	opts  Options
+	enc   *encoder  // encodes in Write the results no worker prepared
+	pool  sync.Pool // *encoder for Prepare, configured like enc
+	bufs  sync.Pool // *[]byte: prepared encodings, returned once written
+	buf   []byte    // output not yet written to out
+	begun bool
+	err   error
+}
+
+// encoder turns results into records. Its caches only save work: whatever it encoded
+// before, the bytes of a result are the same.
+type encoder struct {
 	opts     Options
 	proposed bool
 	fc       fieldCoder
@@ -79,11 +96,14 @@ type Writer struct {
 	messages     []freeMemo // by check index: the last message
 	clean        [][]string // by check and figure index: the last name without special bytes
 	nums         *numCache
-	buf          []byte // output not yet written to out
 	pre          []byte // the hoist-level fields of the current hoist, reused
 	tmp          []byte // scratch, reused
-	begun        bool
-	err          error
+}
+
+// clone returns an encoder with e's configuration and empty caches.
+func (e *encoder) clone() *encoder {
+	return &encoder{opts: e.opts, proposed: e.proposed, fc: e.fc, comma1: e.comma1,
+		fixedSpecial: e.fixedSpecial, status: e.status, nums: new(numCache)}
 }
 
 // New returns a Writer writing to w. Output is buffered: End flushes it.
@@ -91,10 +111,13 @@ func New(w io.Writer, opts Options) *Writer {
 	if opts.Comma == 0 {
 		opts.Comma = ','
 	}
-	return &Writer{out: w, opts: opts, nums: new(numCache), buf: make([]byte, 0, flushAt+16<<10)}
+	return &Writer{out: w, opts: opts, buf: make([]byte, 0, flushAt+16<<10)}
 }
 
-var _ fleet.Sink = (*Writer)(nil)
+var (
+	_ fleet.Sink     = (*Writer)(nil)
+	_ fleet.Preparer = (*Writer)(nil)
+)
 
 // Begin writes the header. The proposed_* columns are included when opts.Proposed is set,
 // info.RatedLoadFactor > 0, or h has a column whose schema key is proposed_rated_load.
@@ -106,37 +129,39 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 		w.err = fmt.Errorf("csvout: invalid separator %q", w.opts.Comma)
 		return w.err
 	}
-	w.fc = newFieldCoder(w.opts.Comma)
+	e := &encoder{opts: w.opts, fc: newFieldCoder(w.opts.Comma), nums: new(numCache)}
 	if w.opts.Comma < utf8.RuneSelf {
-		w.comma1 = byte(w.opts.Comma)
+		e.comma1 = byte(w.opts.Comma)
 	}
-	w.fixedSpecial = hasSpecial(&w.fc, "; =0123456789.-+e/na")
-	for i := range w.status {
-		w.status[i] = string(appendText(&w.fc, nil, fleet.Status(i).String()))
+	e.fixedSpecial = hasSpecial(&e.fc, "; =0123456789.-+e/na")
+	for i := range e.status {
+		e.status[i] = string(appendText(&e.fc, nil, fleet.Status(i).String()))
 	}
-	w.proposed = w.opts.Proposed || (info != nil && info.RatedLoadFactor > 0)
+	e.proposed = w.opts.Proposed || (info != nil && info.RatedLoadFactor > 0)
 	if h != nil {
 		for _, c := range h.Columns {
 			if c.Key == "proposed_rated_load" {
-				w.proposed = true
+				e.proposed = true
 			}
 		}
 	}
+	w.enc = e
+	w.pool.New = func() any { return e.clone() }
 	b := w.buf
 	if w.opts.BOM {
 		b = append(b, 0xEF, 0xBB, 0xBF)
 	}
 	cols := Columns
-	if w.proposed {
+	if e.proposed {
 		cols = append(append([]string{}, Columns...), ProposedColumns...)
 	}
 	for i, c := range cols {
 		if i > 0 {
-			b = w.sep(b)
+			b = e.sep(b)
 		}
 		b = append(b, c...)
 	}
-	w.buf = w.eol(b)
+	w.buf = e.eol(b)
 	w.begun = true
 	return w.err
 }
@@ -154,131 +179,165 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.err = fmt.Errorf("csvout: result without an asset")
 		return w.err
 	}
-	w.pre = w.hoist(w.pre[:0], r)
-	b := w.buf
-	if len(r.Checks) == 0 {
-		b = w.noChecks(b, r)
+	if p, ok := r.Prepared.(*prepared); ok && p.w == w {
+		w.buf = append(w.buf, *p.b...)
+		*p.b = (*p.b)[:0]
+		w.bufs.Put(p.b)
+		r.Prepared = nil
+	} else {
+		w.buf = w.enc.encode(w.buf, r)
 	}
-	for len(w.memos) < len(r.Checks) {
-		w.memos = append(w.memos, [4]memo{})
-		w.messages = append(w.messages, freeMemo{})
-		w.clean = append(w.clean, nil)
-	}
-	for i := range r.Checks {
-		b = w.check(b, r, i)
-	}
-	w.buf = b
-	if len(b) >= flushAt {
+	if len(w.buf) >= flushAt {
 		w.flush()
 	}
 	return w.err
 }
 
+// prepared is a result's records encoded by Prepare, for the Writer that made them.
+type prepared struct {
+	w *Writer
+	b *[]byte
+}
+
+// Prepare encodes r's records (fleet.Preparer): it runs in the pipeline's workers,
+// concurrently, with an encoder of its own, and leaves the bytes in r.Prepared for Write.
+// Before Begin, or on a result without an asset, it does nothing (Write reports those).
+func (w *Writer) Prepare(r *fleet.Result) {
+	if w.enc == nil || r == nil || r.Asset == nil {
+		return
+	}
+	e := w.pool.Get().(*encoder)
+	b, _ := w.bufs.Get().(*[]byte)
+	if b == nil {
+		b = new([]byte)
+	}
+	*b = e.encode((*b)[:0], r)
+	w.pool.Put(e)
+	r.Prepared = &prepared{w: w, b: b}
+}
+
+// encode appends the records of r (one per check, one when it has none).
+func (e *encoder) encode(b []byte, r *fleet.Result) []byte {
+	e.pre = e.hoist(e.pre[:0], r)
+	if len(r.Checks) == 0 {
+		b = e.noChecks(b, r)
+	}
+	for len(e.memos) < len(r.Checks) {
+		e.memos = append(e.memos, [4]memo{})
+		e.messages = append(e.messages, freeMemo{})
+		e.clean = append(e.clean, nil)
+	}
+	for i := range r.Checks {
+		b = e.check(b, r, i)
+	}
+	return b
+}
+
 // hoist appends the hoist-level fields (row … max_rated_load_kg) and a separator.
-func (w *Writer) hoist(b []byte, r *fleet.Result) []byte {
+func (e *encoder) hoist(b []byte, r *fleet.Result) []byte {
 	site := ""
 	if v := r.Asset.Get("site"); v.State == fleet.OK {
 		site = v.Text
 	}
 	b = strconv.AppendInt(b, int64(r.Asset.Row), 10)
-	b = w.sep(b)
-	b = appendText(&w.fc, b, r.Asset.ID)
-	b = w.sep(b)
-	b = w.texts.appendText(&w.fc, &w.site, b, site)
-	b = w.sep(b)
-	b = w.appendStatus(b, r.Status)
-	b = w.sep(b)
-	b = w.texts.appendText(&w.fc, &w.gov, b, r.GoverningCheck)
-	b = w.sep(b)
-	b = w.nums.appendNum(b, r.MaxRatedLoadKg)
-	return w.sep(b)
+	b = e.sep(b)
+	b = appendText(&e.fc, b, r.Asset.ID)
+	b = e.sep(b)
+	b = e.texts.appendText(&e.fc, &e.site, b, site)
+	b = e.sep(b)
+	b = e.appendStatus(b, r.Status)
+	b = e.sep(b)
+	b = e.texts.appendText(&e.fc, &e.gov, b, r.GoverningCheck)
+	b = e.sep(b)
+	b = e.nums.appendNum(b, r.MaxRatedLoadKg)
+	return e.sep(b)
 }
 
 // noChecks appends the one record of a hoist without checks, its messages in the
 // message field.
-func (w *Writer) noChecks(b []byte, r *fleet.Result) []byte {
-	b = append(b, w.pre...)
-	b = w.appendEmpty(b, 10)
-	msg := w.tmp[:0]
+func (e *encoder) noChecks(b []byte, r *fleet.Result) []byte {
+	b = append(b, e.pre...)
+	b = e.appendEmpty(b, 10)
+	msg := e.tmp[:0]
 	for i, m := range r.Messages {
 		if i > 0 {
 			msg = append(msg, "; "...)
 		}
 		msg = append(msg, m...)
 	}
-	w.tmp = msg
-	b = appendText(&w.fc, b, msg)
-	b = w.sep(b) // figures
-	if w.proposed {
-		b = w.sep(b)
+	e.tmp = msg
+	b = appendText(&e.fc, b, msg)
+	b = e.sep(b) // figures
+	if e.proposed {
+		b = e.sep(b)
 		if r.Proposed != nil {
-			b = w.appendStatus(b, r.Proposed.Status)
+			b = e.appendStatus(b, r.Proposed.Status)
 		}
-		b = w.appendEmpty(b, 2)
+		b = e.appendEmpty(b, 2)
 	}
-	return w.eol(b)
+	return e.eol(b)
 }
 
 // check appends the record of check i of r.
-func (w *Writer) check(b []byte, r *fleet.Result, i int) []byte {
-	c, m := &r.Checks[i], &w.memos[i]
-	b = append(b, w.pre...)
-	b = w.texts.appendText(&w.fc, &m[0], b, c.ID)
-	b = w.sep(b)
-	b = w.appendStatus(b, c.Status)
-	b = w.sep(b)
-	b = w.nums.appendNum(b, c.Demand)
-	b = w.sep(b)
-	b = w.nums.appendNum(b, c.Capacity)
-	b = w.sep(b)
-	b = w.texts.appendText(&w.fc, &m[1], b, c.Unit)
-	b = w.sep(b)
-	b = w.nums.appendNum(b, c.Utilisation)
-	b = w.sep(b)
-	b = w.nums.appendNum(b, c.Margin)
-	b = w.sep(b)
-	b = w.nums.appendNum(b, c.LimitRatedLoadKg)
-	b = w.sep(b)
-	b = w.texts.appendText(&w.fc, &m[2], b, c.Rule)
-	b = w.sep(b)
-	b = w.texts.appendText(&w.fc, &m[3], b, c.Source)
-	b = w.sep(b)
-	b = w.messages[i].appendText(&w.fc, b, c.Message)
-	b = w.sep(b)
-	b = w.appendFigures(b, c, i)
-	if w.proposed {
-		b = w.sep(b)
+func (e *encoder) check(b []byte, r *fleet.Result, i int) []byte {
+	c, m := &r.Checks[i], &e.memos[i]
+	b = append(b, e.pre...)
+	b = e.texts.appendText(&e.fc, &m[0], b, c.ID)
+	b = e.sep(b)
+	b = e.appendStatus(b, c.Status)
+	b = e.sep(b)
+	b = e.nums.appendNum(b, c.Demand)
+	b = e.sep(b)
+	b = e.nums.appendNum(b, c.Capacity)
+	b = e.sep(b)
+	b = e.texts.appendText(&e.fc, &m[1], b, c.Unit)
+	b = e.sep(b)
+	b = e.nums.appendNum(b, c.Utilisation)
+	b = e.sep(b)
+	b = e.nums.appendNum(b, c.Margin)
+	b = e.sep(b)
+	b = e.nums.appendNum(b, c.LimitRatedLoadKg)
+	b = e.sep(b)
+	b = e.texts.appendText(&e.fc, &m[2], b, c.Rule)
+	b = e.sep(b)
+	b = e.texts.appendText(&e.fc, &m[3], b, c.Source)
+	b = e.sep(b)
+	b = e.messages[i].appendText(&e.fc, b, c.Message)
+	b = e.sep(b)
+	b = e.appendFigures(b, c, i)
+	if e.proposed {
+		b = e.sep(b)
 		if p := r.Proposed; p != nil {
-			b = w.appendStatus(b, p.Status)
-			b = w.sep(b)
+			b = e.appendStatus(b, p.Status)
+			b = e.sep(b)
 			if pc := p.Check(c.ID); pc != nil {
-				b = w.appendStatus(b, pc.Status)
-				b = w.sep(b)
-				b = w.nums.appendNum(b, pc.Utilisation)
+				b = e.appendStatus(b, pc.Status)
+				b = e.sep(b)
+				b = e.nums.appendNum(b, pc.Utilisation)
 			} else {
-				b = w.sep(b)
+				b = e.sep(b)
 			}
 		} else {
-			b = w.appendEmpty(b, 2)
+			b = e.appendEmpty(b, 2)
 		}
 	}
-	return w.eol(b)
+	return e.eol(b)
 }
 
 // appendFigures appends the figures field of c: AppendFigures, encoded as a text field.
 // It is built in place; only a field that needs a guard or quotes is encoded again.
 // ci is the check's index in its result.
-func (w *Writer) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
+func (e *encoder) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
 	if len(c.Figures) == 0 {
 		return b
 	}
 	start := len(b)
-	special := w.fixedSpecial
-	clean := w.clean[ci]
+	special := e.fixedSpecial
+	clean := e.clean[ci]
 	for len(clean) < len(c.Figures) {
 		clean = append(clean, "")
 	}
-	w.clean[ci] = clean
+	e.clean[ci] = clean
 	for i := range c.Figures {
 		f := &c.Figures[i]
 		if i > 0 {
@@ -287,7 +346,7 @@ func (w *Writer) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
 		b = append(b, f.Name...)
 		b = append(b, '=')
 		if f.Name != clean[i] {
-			if hasSpecial(&w.fc, f.Name) {
+			if hasSpecial(&e.fc, f.Name) {
 				special = true
 			} else {
 				clean[i] = f.Name
@@ -296,45 +355,45 @@ func (w *Writer) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
 		switch {
 		case f.Text != "":
 			b = append(b, f.Text...)
-			special = special || hasSpecial(&w.fc, f.Text)
+			special = special || hasSpecial(&e.fc, f.Text)
 		case math.IsNaN(f.Value) || math.IsInf(f.Value, 0):
 			b = append(b, "n/a"...)
 		default:
-			b = w.nums.appendG(b, f.Value)
+			b = e.nums.appendG(b, f.Value)
 		}
 	}
 	if c0 := b[start]; !special && c0 != ' ' && !isGuardByte(c0) {
 		return b
 	}
-	w.tmp = append(w.tmp[:0], b[start:]...)
-	return appendText(&w.fc, b[:start], w.tmp)
+	e.tmp = append(e.tmp[:0], b[start:]...)
+	return appendText(&e.fc, b[:start], e.tmp)
 }
 
 // appendStatus appends a status word.
-func (w *Writer) appendStatus(b []byte, s fleet.Status) []byte {
-	if s >= 0 && int(s) < len(w.status) {
-		return append(b, w.status[s]...)
+func (e *encoder) appendStatus(b []byte, s fleet.Status) []byte {
+	if s >= 0 && int(s) < len(e.status) {
+		return append(b, e.status[s]...)
 	}
-	return appendText(&w.fc, b, s.String())
+	return appendText(&e.fc, b, s.String())
 }
 
-func (w *Writer) sep(b []byte) []byte {
-	if w.comma1 != 0 {
-		return append(b, w.comma1)
+func (e *encoder) sep(b []byte) []byte {
+	if e.comma1 != 0 {
+		return append(b, e.comma1)
 	}
-	return append(b, w.fc.comma...)
+	return append(b, e.fc.comma...)
 }
 
 // appendEmpty appends n separators (n empty fields after the current one).
-func (w *Writer) appendEmpty(b []byte, n int) []byte {
+func (e *encoder) appendEmpty(b []byte, n int) []byte {
 	for range n {
-		b = w.sep(b)
+		b = e.sep(b)
 	}
 	return b
 }
 
-func (w *Writer) eol(b []byte) []byte {
-	if w.opts.UseCRLF {
+func (e *encoder) eol(b []byte) []byte {
+	if e.opts.UseCRLF {
 		return append(b, '\r', '\n')
 	}
 	return append(b, '\n')
