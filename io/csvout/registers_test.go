@@ -7,6 +7,7 @@ import (
 	"io"
 	"os/exec"
 	"sync"
+	"sync/atomic"
 	"testing"
 	"time"
 
@@ -98,16 +99,35 @@ func runSinks(t testing.TB, reg namedRegister, c *fleet.Checker, sinks ...fleet.
 	}
 	defer src.Close()
 	info := &fleet.RunInfo{Tool: "hoistfleet", Version: "test", Input: reg.name, AsOf: asOf, RatedLoadFactor: c.Options().RatedLoadFactor}
-	if _, err := fleet.Run(context.Background(), src, teeSink(sinks), c, info, nil); err != nil {
+	tee := &teeSink{sinks: sinks}
+	if _, err := fleet.Run(context.Background(), src, tee, c, info, nil); err != nil {
 		t.Fatal(err)
+	}
+	// The Writer under test encodes in the workers (fleet.Preparer): every result written
+	// must have been prepared, so that the comparison covers that path.
+	if tee.prepared.Load() != tee.written.Load() || tee.written.Load() == 0 {
+		t.Fatalf("%d results prepared, %d written", tee.prepared.Load(), tee.written.Load())
 	}
 }
 
-// teeSink hands every call to each of its sinks.
-type teeSink []fleet.Sink
+// teeSink hands every call to each of its sinks; Prepare goes to those that are
+// fleet.Preparers (called concurrently by the pipeline's workers).
+type teeSink struct {
+	sinks             []fleet.Sink
+	prepared, written atomic.Int64
+}
 
-func (ts teeSink) Begin(h *fleet.Header, info *fleet.RunInfo) error {
-	for _, s := range ts {
+func (ts *teeSink) Prepare(r *fleet.Result) {
+	for _, s := range ts.sinks {
+		if p, ok := s.(fleet.Preparer); ok {
+			p.Prepare(r)
+			ts.prepared.Add(1)
+		}
+	}
+}
+
+func (ts *teeSink) Begin(h *fleet.Header, info *fleet.RunInfo) error {
+	for _, s := range ts.sinks {
 		if err := s.Begin(h, info); err != nil {
 			return err
 		}
@@ -115,8 +135,9 @@ func (ts teeSink) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	return nil
 }
 
-func (ts teeSink) Write(r *fleet.Result) error {
-	for _, s := range ts {
+func (ts *teeSink) Write(r *fleet.Result) error {
+	ts.written.Add(1)
+	for _, s := range ts.sinks {
 		if err := s.Write(r); err != nil {
 			return err
 		}
@@ -124,8 +145,8 @@ func (ts teeSink) Write(r *fleet.Result) error {
 	return nil
 }
 
-func (ts teeSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
-	for _, s := range ts {
+func (ts *teeSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
+	for _, s := range ts.sinks {
 		if err := s.End(sum, info); err != nil {
 			return err
 		}
@@ -133,8 +154,8 @@ func (ts teeSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
 	return nil
 }
 
-func (ts teeSink) Abort() {
-	for _, s := range ts {
+func (ts *teeSink) Abort() {
+	for _, s := range ts.sinks {
 		s.Abort()
 	}
 }

@@ -25,6 +25,7 @@ import (
 	"fmt"
 	"io"
 	"strconv"
+	"sync"
 
 	"hoistfleet/calc"
 	"hoistfleet/fleet"
@@ -43,8 +44,22 @@ const flushAt = 64 << 10
 // The lines are encoded by hand into one buffer, handed to the underlying writer in
 // blocks of about 64 KiB. The JSON form of texts and numbers that repeat from check to
 // check and hoist to hoist is made once and copied after that.
+//
+// Writer is also a fleet.Preparer: the pipeline's workers encode each hoist's line
+// (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
+// copies it out, so the encoding runs on every core.
 type Writer struct {
-	out   io.Writer
+	out  io.Writer
+	enc  *encoder  // encodes in Write the results no worker prepared
+	pool sync.Pool // *encoder for Prepare
+	bufs sync.Pool // *[]byte: prepared lines, returned once written
+	buf  []byte    // output not yet written to out
+	err  error
+}
+
+// encoder turns results into lines. Its caches only save work: whatever it encoded
+// before, the bytes of a result are the same.
+type encoder struct {
 	texts textCache
 	nums  *numCache
 	// memos remember the last texts written in each place of a line: the hoist's, then
@@ -52,8 +67,14 @@ type Writer struct {
 	hoist   hoistMemos
 	checks  []checkMemos
 	pchecks []checkMemos
-	buf     []byte // output not yet written to out
-	err     error
+}
+
+func newEncoder() *encoder { return &encoder{nums: new(numCache)} }
+
+// prepared is a result's line encoded by Prepare, for the Writer that made it.
+type prepared struct {
+	w *Writer
+	b *[]byte
 }
 
 type hoistMemos struct {
@@ -70,10 +91,15 @@ type checkMemos struct {
 
 // New returns a Writer writing to w. Nothing is guaranteed to reach w before End.
 func New(w io.Writer, opts Options) *Writer {
-	return &Writer{out: w, nums: new(numCache), buf: make([]byte, 0, flushAt+16<<10)}
+	wr := &Writer{out: w, enc: newEncoder(), buf: make([]byte, 0, flushAt+16<<10)}
+	wr.pool.New = func() any { return newEncoder() }
+	return wr
 }
 
-var _ fleet.Sink = (*Writer)(nil)
+var (
+	_ fleet.Sink     = (*Writer)(nil)
+	_ fleet.Preparer = (*Writer)(nil)
+)
 
 // Begin writes nothing: JSON lines have no header.
 func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error { return w.err }
@@ -87,61 +113,85 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.err = fmt.Errorf("jsonout: result without an asset")
 		return w.err
 	}
-	w.buf = w.appendHoist(w.buf, r)
+	if p, ok := r.Prepared.(*prepared); ok && p.w == w {
+		w.buf = append(w.buf, *p.b...)
+		*p.b = (*p.b)[:0]
+		w.bufs.Put(p.b)
+		r.Prepared = nil
+	} else {
+		w.buf = w.enc.appendHoist(w.buf, r)
+	}
 	if len(w.buf) >= flushAt {
 		w.flush()
 	}
 	return w.err
 }
 
+// Prepare encodes r's line (fleet.Preparer): it runs in the pipeline's workers,
+// concurrently, with an encoder of its own, and leaves the bytes in r.Prepared for Write.
+// A result without an asset is left to Write, which reports it.
+func (w *Writer) Prepare(r *fleet.Result) {
+	if r == nil || r.Asset == nil {
+		return
+	}
+	e := w.pool.Get().(*encoder)
+	b, _ := w.bufs.Get().(*[]byte)
+	if b == nil {
+		b = new([]byte)
+	}
+	*b = e.appendHoist((*b)[:0], r)
+	w.pool.Put(e)
+	r.Prepared = &prepared{w: w, b: b}
+}
+
 // appendHoist appends the line of r: the object of one hoist and a newline.
-func (w *Writer) appendHoist(b []byte, r *fleet.Result) []byte {
-	hm := &w.hoist
+func (e *encoder) appendHoist(b []byte, r *fleet.Result) []byte {
+	hm := &e.hoist
 	b = append(b, `{"asset_id":`...)
 	b = appendString(b, r.Asset.ID)
 	b = append(b, `,"row":`...)
 	b = strconv.AppendInt(b, int64(r.Asset.Row), 10)
 	b = append(b, `,"status":`...)
-	b = w.texts.appendString(&hm.status, b, r.Status.String())
+	b = e.texts.appendString(&hm.status, b, r.Status.String())
 	b = append(b, `,"governing_check":`...)
-	b = w.appendNullText(&hm.governing, b, r.GoverningCheck)
+	b = e.appendNullText(&hm.governing, b, r.GoverningCheck)
 	b = append(b, `,"worst_check":`...)
-	b = w.appendNullText(&hm.worst, b, r.WorstCheck)
+	b = e.appendNullText(&hm.worst, b, r.WorstCheck)
 	b = append(b, `,"min_margin":`...)
-	b = w.nums.appendNumber(b, r.MinMargin)
+	b = e.nums.appendNumber(b, r.MinMargin)
 	b = append(b, `,"max_rated_load_kg":`...)
-	b = w.nums.appendNumber(b, r.MaxRatedLoadKg)
+	b = e.nums.appendNumber(b, r.MaxRatedLoadKg)
 	b = append(b, `,"messages":`...)
 	b = appendStrings(b, r.Messages, &hm.messages)
 	b = append(b, `,"defaults_used":`...)
 	b = appendStrings(b, r.DefaultsUsed, &hm.defaults)
 	b = append(b, `,"checks":`...)
-	w.checks = growMemos(w.checks, len(r.Checks))
-	b = w.appendChecks(b, r.Checks, w.checks)
+	e.checks = growMemos(e.checks, len(r.Checks))
+	b = e.appendChecks(b, r.Checks, e.checks)
 	b = append(b, `,"site":`...)
 	site := ""
 	if v := r.Asset.Get("site"); v.State == fleet.OK {
 		site = v.Text
 	}
-	b = w.appendNullText(&hm.site, b, site)
+	b = e.appendNullText(&hm.site, b, site)
 	b = append(b, `,"rated_load_kg":`...)
-	b = w.nums.appendNumber(b, r.RatedLoadKg)
+	b = e.nums.appendNumber(b, r.RatedLoadKg)
 	b = append(b, `,"rating_note":`...)
 	b = hm.note.appendNullText(b, r.Note)
 	b = append(b, `,"derived":`...)
 	b = appendStrings(b, r.Derived, &hm.derived)
 	if p := r.Proposed; p != nil {
 		b = append(b, `,"proposed":{"rated_load_kg":`...)
-		b = w.nums.appendNumber(b, p.RatedLoadKg)
+		b = e.nums.appendNumber(b, p.RatedLoadKg)
 		b = append(b, `,"status":`...)
-		b = w.texts.appendString(&hm.pstatus, b, p.Status.String())
+		b = e.texts.appendString(&hm.pstatus, b, p.Status.String())
 		b = append(b, `,"worst_check":`...)
-		b = w.appendNullText(&hm.pworst, b, p.WorstCheck)
+		b = e.appendNullText(&hm.pworst, b, p.WorstCheck)
 		b = append(b, `,"min_margin":`...)
-		b = w.nums.appendNumber(b, p.MinMargin)
+		b = e.nums.appendNumber(b, p.MinMargin)
 		b = append(b, `,"checks":`...)
-		w.pchecks = growMemos(w.pchecks, len(p.Checks))
-		b = w.appendChecks(b, p.Checks, w.pchecks)
+		e.pchecks = growMemos(e.pchecks, len(p.Checks))
+		b = e.appendChecks(b, p.Checks, e.pchecks)
 		b = append(b, '}')
 	}
 	return append(b, '}', '\n')
@@ -155,7 +205,7 @@ func growMemos(ms []checkMemos, n int) []checkMemos {
 }
 
 // appendChecks appends the array of checks cs; ms has a memo for each.
-func (w *Writer) appendChecks(b []byte, cs []fleet.CheckResult, ms []checkMemos) []byte {
+func (e *encoder) appendChecks(b []byte, cs []fleet.CheckResult, ms []checkMemos) []byte {
 	b = append(b, '[')
 	for i := range cs {
 		if i > 0 {
@@ -163,27 +213,27 @@ func (w *Writer) appendChecks(b []byte, cs []fleet.CheckResult, ms []checkMemos)
 		}
 		c, m := &cs[i], &ms[i]
 		b = append(b, `{"id":`...)
-		b = w.texts.appendString(&m.id, b, c.ID)
+		b = e.texts.appendString(&m.id, b, c.ID)
 		b = append(b, `,"status":`...)
-		b = w.texts.appendString(&m.status, b, c.Status.String())
+		b = e.texts.appendString(&m.status, b, c.Status.String())
 		b = append(b, `,"demand":`...)
-		b = w.nums.appendNumber(b, c.Demand)
+		b = e.nums.appendNumber(b, c.Demand)
 		b = append(b, `,"capacity":`...)
-		b = w.nums.appendNumber(b, c.Capacity)
+		b = e.nums.appendNumber(b, c.Capacity)
 		b = append(b, `,"unit":`...)
-		b = w.texts.appendString(&m.unit, b, c.Unit)
+		b = e.texts.appendString(&m.unit, b, c.Unit)
 		b = append(b, `,"utilisation":`...)
-		b = w.nums.appendNumber(b, c.Utilisation)
+		b = e.nums.appendNumber(b, c.Utilisation)
 		b = append(b, `,"limit_rated_load_kg":`...)
-		b = w.nums.appendNumber(b, c.LimitRatedLoadKg)
+		b = e.nums.appendNumber(b, c.LimitRatedLoadKg)
 		b = append(b, `,"rule":`...)
-		b = w.texts.appendString(&m.rule, b, c.Rule)
+		b = e.texts.appendString(&m.rule, b, c.Rule)
 		b = append(b, `,"source":`...)
-		b = w.texts.appendString(&m.source, b, c.Source)
+		b = e.texts.appendString(&m.source, b, c.Source)
 		b = append(b, `,"figures":`...)
-		b = w.appendFigures(b, c.Figures, m)
+		b = e.appendFigures(b, c.Figures, m)
 		b = append(b, `,"margin":`...)
-		b = w.nums.appendNumber(b, c.Margin)
+		b = e.nums.appendNumber(b, c.Margin)
 		b = append(b, `,"message":`...)
 		b = m.message.appendNullText(b, c.Message)
 		b = append(b, '}')
@@ -198,7 +248,7 @@ const dedupMax = 32
 // appendFigures appends a check's figures as one object {name: number or text}, in the
 // check's own order. A figure with Text is written as a string, otherwise as a number
 // (null when NaN or infinite). A repeated name keeps its first value.
-func (w *Writer) appendFigures(b []byte, fs []calc.Figure, m *checkMemos) []byte {
+func (e *encoder) appendFigures(b []byte, fs []calc.Figure, m *checkMemos) []byte {
 	for len(m.figures) < len(fs) {
 		m.figures = append(m.figures, memo{})
 	}
@@ -222,12 +272,12 @@ func (w *Writer) appendFigures(b []byte, fs []calc.Figure, m *checkMemos) []byte
 			b = append(b, ',')
 		}
 		first = false
-		b = w.texts.appendString(&m.figures[i], b, f.Name)
+		b = e.texts.appendString(&m.figures[i], b, f.Name)
 		b = append(b, ':')
 		if f.Text != "" {
 			b = appendString(b, f.Text)
 		} else {
-			b = w.nums.appendNumber(b, f.Value)
+			b = e.nums.appendNumber(b, f.Value)
 		}
 	}
 	return append(b, '}')
@@ -244,11 +294,11 @@ func repeated(fs []calc.Figure, i int) bool {
 }
 
 // appendNullText appends s as a JSON string, remembering it in m, or null when empty.
-func (w *Writer) appendNullText(m *memo, b []byte, s string) []byte {
+func (e *encoder) appendNullText(m *memo, b []byte, s string) []byte {
 	if s == "" {
 		return append(b, "null"...)
 	}
-	return w.texts.appendString(m, b, s)
+	return e.texts.appendString(m, b, s)
 }
 
 // flush writes the buffered output to the underlying writer.
