@@ -76,13 +76,15 @@ func MotorAccelTorqueLimitKg(h Hoist) float64 {
 // with C the rated output torque; 0 when T_stop alone exceeds C or even the hook block
 // cannot be accelerated within it. NaN for inputs the check refuses.
 func GearboxTorqueLimitKg(h Hoist) float64 {
-	h.SkipRecord, h.SkipDetail = true, false
-	o, err := GearboxTorque(h) // the check's own validation, and T_stop
+	h.SkipRecord, h.SkipDetail = true, true
+	// With no rated load the demand is max(T_acc(0), T_stop): above the rating, the check
+	// fails whatever the load; within it, T_stop ≤ C and T_acc alone sets the limit.
+	o, err := GearboxTorque(h.WithRatedLoad(0)) // also the check's own validation
 	if err != nil {
 		return math.NaN()
 	}
 	c := h.GearboxRatedTorqueNm
-	if stop := o.Figure("stop_drum_torque_nm"); stop > c {
+	if o.Demand > c {
 		return 0
 	}
 	t, _ := dynTrainOf(h)

@@ -52,7 +52,7 @@ func RopeDesignFactor(h Hoist, zRequired float64, staticBasis bool) (Outcome, er
 	if err := stRule("required design factor", zRequired); err != nil {
 		return Outcome{}, err
 	}
-	rec := !h.SkipRecord
+	rec := !h.SkipRecord && !h.SkipDetail
 	f, etaR, etaD, steps := stTension(h)
 	w := h.WeightN()
 	n := float64(h.Parts)
@@ -78,6 +78,9 @@ func RopeDesignFactor(h Hoist, zRequired float64, staticBasis bool) (Outcome, er
 			stStep("Z_act", "MBF / F_Z", "%s / %s", z, "1", mbf, fz),
 			stStep("u", "Z F_Z / MBF", "%s × %s / %s", u, "1", zRequired, fz, mbf),
 		)
+	}
+	if h.SkipDetail {
+		return Outcome{Demand: zRequired, Capacity: z, Unit: "1", Utilisation: u, Verdict: ByUtilisation}, nil
 	}
 	o := Outcome{
 		Demand:      zRequired,

@@ -116,7 +116,7 @@ func DrumCapacity(h Hoist, minDeadWraps float64) (Outcome, error) {
 		return Outcome{}, &RangeError{Field: "", Msg: fmt.Sprintf("rule value minimum dead wraps must be zero or more (got %s): check the rule table", stGot(minDeadWraps))}
 	}
 
-	rec := !h.SkipRecord
+	rec := !h.SkipRecord && !h.SkipDetail
 	ne := h.PartsPerEnd()
 	d := h.DrumDiameterM
 	g := h.Grooves
@@ -330,7 +330,7 @@ func MotorTorque(h Hoist) (Outcome, error) {
 	if err := stCheckMotor(h); err != nil {
 		return Outcome{}, err
 	}
-	rec := !h.SkipRecord
+	rec := !h.SkipRecord && !h.SkipDetail
 	f, etaR, _, steps := stTension(h)
 	steps = append(steps, stRadiusSteps(h)...)
 	e := float64(h.RopeEnds)
@@ -359,6 +359,9 @@ func MotorTorque(h Hoist) (Outcome, error) {
 			stStep("M_r", "P / ω_m", "%s / %s", mr, "N m", h.MotorPowerW, omega),
 			stStep("u", "M / M_r", "%s / %s", u, "1", best, mr),
 		)
+	}
+	if h.SkipDetail {
+		return Outcome{Demand: best, Capacity: mr, Unit: "N m", Utilisation: u, Verdict: ByUtilisation}, nil
 	}
 	o := Outcome{
 		Demand:      best,
@@ -427,7 +430,7 @@ func MotorPower(h Hoist) (Outcome, error) {
 	v := h.HoistSpeedMS
 	etaRD := h.RopeSystemEff()
 	etaH := etaRD * h.GearEff
-	rec := !h.SkipRecord
+	rec := !h.SkipRecord && !h.SkipDetail
 	var steps []Step
 	if rec {
 		steps = []Step{
@@ -457,6 +460,9 @@ func MotorPower(h Hoist) (Outcome, error) {
 	u := best / h.MotorPowerW
 	if rec {
 		steps = append(steps, stStep("u", "P_req / P", "%s / %s", u, "1", best, h.MotorPowerW))
+	}
+	if h.SkipDetail {
+		return Outcome{Demand: best, Capacity: h.MotorPowerW, Unit: "W", Utilisation: u, Verdict: ByUtilisation}, nil
 	}
 	o := Outcome{
 		Demand:      best,
@@ -595,7 +601,7 @@ func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
 		return Outcome{}, err
 	}
 
-	rec := !h.SkipRecord
+	rec := !h.SkipRecord && !h.SkipDetail
 	f, _, _, steps := stTension(h)
 	steps = append(steps, stRadiusSteps(h)...)
 	e := float64(h.RopeEnds)
@@ -639,6 +645,9 @@ func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
 	where := "motor shaft"
 	if h.BrakeOnDrum {
 		where = "drum"
+	}
+	if h.SkipDetail {
+		return Outcome{Demand: demand, Capacity: capacity, Unit: "N m", Utilisation: u, Verdict: ByUtilisation}, nil
 	}
 	note := "brake on the " + where
 	if each && h.Brakes > 1 {
