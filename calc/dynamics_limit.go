@@ -12,23 +12,23 @@ import "math"
 //	m_L = F_b / (η g) − m_H, at the largest radius (r_L), where F_b is smallest.
 //
 // Inertias do not enter: they set how fast the load stops, not whether it can. Special
-// cases: NaN for a self-locking train with a motor-shaft brake (η_gb ≤ 0: the stop does
-// not depend on the brake alone) and for inputs the dynamics checks refuse (the check
-// itself reports those); a negative result means the brakes cannot stop even the hook
+// cases: NaN for a self-locking train (η_gb ≤ 0), whatever the brake's location: BrakeStop
+// then reports information only (the gear holds the load), so the check sets no limit;
+// NaN for inputs the dynamics checks refuse (the check itself reports those); a negative result means the brakes cannot stop even the hook
 // block, and is returned as 0.
 func BrakeStopLimitKg(h Hoist) float64 {
 	t, err := dynTrainOf(h)
 	if err != nil {
 		return math.NaN()
 	}
+	if t.selfLocking() {
+		return math.NaN() // BrakeStop: the gear holds the load, an information result
+	}
 	r := t.radii[t.nr-1]
 	var fb, eta float64
 	if h.BrakeOnDrum {
 		fb, eta = float64(h.Brakes)*h.BrakeTorqueNm*t.ne/r, t.etaRD
 	} else {
-		if t.selfLocking() {
-			return math.NaN()
-		}
 		fb, eta = float64(h.Brakes)*h.BrakeTorqueNm*t.i*t.ne/r, t.etaL
 	}
 	m := fb/(eta*t.g) - h.HookBlockKg
@@ -76,15 +76,16 @@ func MotorAccelTorqueLimitKg(h Hoist) float64 {
 // with C the rated output torque; 0 when T_stop alone exceeds C or even the hook block
 // cannot be accelerated within it. NaN for inputs the check refuses.
 func GearboxTorqueLimitKg(h Hoist) float64 {
-	h.SkipRecord, h.SkipDetail = true, true
-	// With no rated load the demand is max(T_acc(0), T_stop): above the rating, the check
-	// fails whatever the load; within it, T_stop ≤ C and T_acc alone sets the limit.
-	o, err := GearboxTorque(h.WithRatedLoad(0)) // also the check's own validation
+	// T_stop does not depend on the rated load: read it at the hoist's own load, where the
+	// check runs (at no load a train with no hook block and no inertia has nothing to move
+	// and the check refuses it).
+	h.SkipRecord, h.SkipDetail = true, false
+	o, err := GearboxTorque(h) // also the check's own validation
 	if err != nil {
 		return math.NaN()
 	}
 	c := h.GearboxRatedTorqueNm
-	if o.Demand > c {
+	if stop := o.Figure("stop_drum_torque_nm"); stop > c {
 		return 0
 	}
 	t, _ := dynTrainOf(h)

@@ -34,8 +34,18 @@ func TestBrakeStopLimitKg(t *testing.T) {
 	}
 	locked := base
 	locked.GearBackEff = 0
-	if v := calc.BrakeStopLimitKg(locked); !math.IsNaN(v) {
-		t.Errorf("self-locking train: limit %v, want NaN", v)
+	lockedDrum := drum
+	lockedDrum.GearBackEff = -0.2
+	for name, h := range map[string]calc.Hoist{"motor-shaft brake": locked, "drum brake": lockedDrum} {
+		if v := calc.BrakeStopLimitKg(h); !math.IsNaN(v) {
+			t.Errorf("self-locking train, %s: limit %v, want NaN", name, v)
+		}
+		// BrakeStop never fails such a train: information whatever the load.
+		for _, m := range []float64{0, 5000, 1e6} {
+			if o, err := calc.BrakeStop(h.WithRatedLoad(m), math.NaN()); err != nil || o.Verdict != calc.Info {
+				t.Errorf("self-locking train, %s, %g kg: verdict %v (err %v), want Info", name, m, o.Verdict, err)
+			}
+		}
 	}
 }
 
@@ -89,6 +99,17 @@ func TestTorqueLimitsKg(t *testing.T) {
 	}
 	if o, _ := calc.GearboxTorque(strong.WithRatedLoad(0)); !(o.Utilisation > 1) {
 		t.Errorf("stop torque above the rating: utilisation %v at no load, want > 1", o.Utilisation)
+	}
+	// No hook block and no inertia: the check refuses an empty hook ("nothing to move")
+	// but runs at any load, and so must the limit (it once came out NaN here and a
+	// failing gearbox dropped out of the rating).
+	bare := base
+	bare.HookBlockKg, bare.DrumInertiaKgM2, bare.MotorInertiaKgM2 = 0, 0, 0
+	bare.BrakeOnDrum, bare.BrakeTorqueNm, bare.GearboxRatedTorqueNm = true, 20000, 1500
+	lim := calc.GearboxTorqueLimitKg(bare)
+	o, err := calc.GearboxTorque(bare.WithRatedLoad(lim * (1 + 1e-6)))
+	if !(lim > 0) || err != nil || !(o.Utilisation > 1) {
+		t.Errorf("no hook block, no inertia: limit %v, utilisation just above it %v (err %v)", lim, o.Utilisation, err)
 	}
 	bad := base
 	bad.MotorPowerW = 0

@@ -1022,6 +1022,10 @@ func limitFunc(p preparedCheck) func(h calc.Hoist) (float64, bool) {
 // maxSearchKg bounds the rated-load search: no drum hoist in a register carries more.
 const maxSearchKg = 1e7
 
+// noLoadKg stands in for an empty hook where the checks cannot evaluate one (no hook block
+// and no inertia: nothing to move): far below the 0.1 kg the rating is given to.
+const noLoadKg = 1e-3
+
 // limitLoad is the rated load at which the check reaches its limit (design.md: closed form
 // where linear, bisection otherwise, floored to 0.1 kg). NaN when the limit is not
 // reached below maxSearchKg or cannot be evaluated; 0 when the check fails at no load.
@@ -1041,8 +1045,17 @@ func (c *Checker) limitLoad(h calc.Hoist, p preparedCheck, o calc.Outcome) float
 		}
 	}
 	f := limitFunc(p)
+	// atNoLoad evaluates the check with no rated load on the hook. A train with no hook
+	// block and no inertia has nothing to move then, and the checks refuse it: a load far
+	// below the 0.1 kg resolution stands in for it.
+	atNoLoad := func() (float64, bool) {
+		if f0, ok := f(h.WithRatedLoad(0)); ok {
+			return f0, true
+		}
+		return f(h.WithRatedLoad(noLoadKg))
+	}
 	if p.spec.linear && !math.IsNaN(o.Utilisation) && h.RatedLoadKg > 0 {
-		f0, ok := f(h.WithRatedLoad(0))
+		f0, ok := atNoLoad()
 		if !ok {
 			return math.NaN()
 		}
@@ -1064,7 +1077,7 @@ func (c *Checker) limitLoad(h calc.Hoist, p preparedCheck, o calc.Outcome) float
 	var lo, hi float64
 	if fr <= 0 {
 		// Passes at the rated load: bracket upwards.
-		lo, hi = h.RatedLoadKg, math.Max(2*h.RatedLoadKg, 100)
+		lo, hi = h.RatedLoadKg, math.Min(math.Max(2*h.RatedLoadKg, 100), maxSearchKg)
 		for {
 			fh, ok := f(h.WithRatedLoad(hi))
 			if !ok {
@@ -1073,15 +1086,15 @@ func (c *Checker) limitLoad(h calc.Hoist, p preparedCheck, o calc.Outcome) float
 			if fh > 0 {
 				break
 			}
-			lo = hi
-			hi *= 2
-			if hi > maxSearchKg {
+			if hi >= maxSearchKg { // as the closed forms: no limit below maxSearchKg
 				return math.NaN()
 			}
+			lo = hi
+			hi = math.Min(2*hi, maxSearchKg)
 		}
 	} else {
 		// Fails at the rated load: the limit lies below it, if anywhere.
-		f0, ok := f(h.WithRatedLoad(0))
+		f0, ok := atNoLoad()
 		if !ok {
 			return math.NaN()
 		}
@@ -1183,6 +1196,13 @@ func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckR
 		}
 		if spec.loadDependent && (cr.Status == StatusError || cr.Status == StatusUnchecked) {
 			notRun = append(notRun, cr.ID)
+		}
+		if spec.loadDependent && cr.Status == StatusFail && math.IsNaN(cr.LimitRatedLoadKg) {
+			// Failing at the rated load without a limit found: leaving it out would rate
+			// the hoist above a load it already fails at.
+			rt.GoverningCheck = cr.ID
+			rt.Note = cr.ID + " fails and the load at which it would pass could not be found: no rating can be given"
+			return rt
 		}
 	}
 	if len(notRun) > 0 {

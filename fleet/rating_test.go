@@ -402,3 +402,54 @@ func TestLimitIndependentOfRatedLoad(t *testing.T) {
 		}
 	}
 }
+
+// TestRatingWithNothingToMoveAtNoLoad: a hoist entered with no hook block mass and no
+// inertias (the dynamics checks refuse an empty hook then: nothing to move) whose gearbox
+// is overloaded at its rated load. The gearbox limit must still be found and govern the
+// rating: the rating once skipped it and rated the hoist above a load the gearbox fails
+// at. Winch A with a 3 000 N m gearbox: T_acc = e m (g + a) r / (n η_RD) at 5 t is about
+// 2 × 5000 × 9.96 × 0.15 / (4 × 0.99) ≈ 3 770 N m > 3 000 N m.
+func TestRatingWithNothingToMoveAtNoLoad(t *testing.T) {
+	c := isoChecker(t)
+	a := winchA(t).num("hook_block_mass", 0).num("drum_inertia", 0).num("motor_inertia", 0).
+		num("gearbox_rated_torque", 3000).asset()
+	r := c.Check(a)
+	gb := r.Check("gearbox-torque")
+	if gb == nil || gb.Status != StatusFail {
+		t.Fatalf("gearbox-torque: %+v, want fail", gb)
+	}
+	if math.IsNaN(gb.LimitRatedLoadKg) || !(gb.LimitRatedLoadKg < 5000) {
+		t.Fatalf("gearbox-torque limit %v kg, want a load below the 5000 kg rating", gb.LimitRatedLoadKg)
+	}
+	if r.GoverningCheck != "gearbox-torque" || !(r.MaxRatedLoadKg <= gb.LimitRatedLoadKg) {
+		t.Errorf("rating %v kg governed by %q, want at most %v kg governed by gearbox-torque", r.MaxRatedLoadKg, r.GoverningCheck, gb.LimitRatedLoadKg)
+	}
+	// At the rating the gearbox passes (re-evaluated, not read back).
+	at := c.Check(winchA(t).num("hook_block_mass", 0).num("drum_inertia", 0).num("motor_inertia", 0).
+		num("gearbox_rated_torque", 3000).num("rated_load", r.MaxRatedLoadKg).asset())
+	if g := at.Check("gearbox-torque"); g == nil || g.Status == StatusFail {
+		t.Errorf("at the rating %v kg gearbox-torque is %+v", r.MaxRatedLoadKg, g)
+	}
+}
+
+// TestRatingNullWhenAFailingLimitIsUnknown: a load-dependent check that fails at the
+// rated load but whose limit could not be found gives no rating, rather than a rating
+// from the other checks that ignores it.
+func TestRatingNullWhenAFailingLimitIsUnknown(t *testing.T) {
+	c := isoChecker(t)
+	d := c.resolve(winchA(t).asset())
+	spec := func(id string) *checkSpec { return &checkSpec{id: id, loadDependent: true} }
+	prepared := []preparedCheck{{spec: spec("motor-torque")}, {spec: spec("gearbox-torque")}}
+	checks := []CheckResult{
+		{ID: "motor-torque", Status: StatusPass, LoadDependent: true, LimitRatedLoadKg: 8000},
+		{ID: "gearbox-torque", Status: StatusFail, LoadDependent: true, LimitRatedLoadKg: math.NaN()},
+	}
+	rt := c.rating(d, prepared, checks)
+	if !math.IsNaN(rt.MaxRatedLoadKg) || rt.GoverningCheck != "gearbox-torque" {
+		t.Errorf("rating %v governed by %q, want none, gearbox-torque", rt.MaxRatedLoadKg, rt.GoverningCheck)
+	}
+	checks[1].LimitRatedLoadKg = 4200 // found: the smaller limit governs
+	if rt := c.rating(d, prepared, checks); rt.MaxRatedLoadKg != 4200 || rt.GoverningCheck != "gearbox-torque" {
+		t.Errorf("rating %v governed by %q, want 4200 kg, gearbox-torque", rt.MaxRatedLoadKg, rt.GoverningCheck)
+	}
+}
