@@ -7,6 +7,7 @@ import (
 	"unicode/utf8"
 
 	"hoistfleet/fleet"
+	"hoistfleet/io/sinktest"
 )
 
 // The differential tests: the Writer must write exactly the bytes the previous writer
@@ -76,7 +77,7 @@ func TestSameAsReferenceRandom(t *testing.T) {
 	}
 	for i, o := range dialects {
 		t.Run(dialectName(o), func(t *testing.T) {
-			got, want := writeBoth(t, o, &fleet.Header{}, &fleet.RunInfo{}, randomResults(uint64(i), n))
+			got, want := writeBoth(t, o, &fleet.Header{}, &fleet.RunInfo{}, sinktest.RandomResults(uint64(i), n))
 			sameBytes(t, got, want)
 		})
 	}
@@ -85,7 +86,7 @@ func TestSameAsReferenceRandom(t *testing.T) {
 // TestSameAsReferenceCacheTurnover writes more distinct texts than the text cache holds,
 // so that it is emptied and refilled.
 func TestSameAsReferenceCacheTurnover(t *testing.T) {
-	rs := randomResults(99, 200)
+	rs := sinktest.RandomResults(99, 200)
 	for i, r := range rs {
 		if r.Asset.Fields == nil {
 			r.Asset.Fields = map[string]fleet.Value{}
@@ -105,16 +106,16 @@ func TestSameAsReferenceCacheTurnover(t *testing.T) {
 // TestSameAsReferenceRegisters runs fleet over the demo registers and a generated one,
 // both writers taking the same results, with and without re-rating.
 func TestSameAsReferenceRegisters(t *testing.T) {
-	regs := demoRegisters(t)
+	regs := sinktest.DemoRegisters(t)
 	if !testing.Short() {
-		regs = append(regs, generatedRegister(t, 400, "si", 3), generatedRegister(t, 200, "us", 4))
+		regs = append(regs, sinktest.GeneratedRegister(t, 400, "si", 3), sinktest.GeneratedRegister(t, 200, "us", 4))
 	}
 	for _, reg := range regs {
 		for _, factor := range []float64{0, 1.25} {
 			for _, o := range []Options{{}, {Comma: ';', UseCRLF: true, BOM: true}} {
-				t.Run(fmt.Sprintf("%s/factor=%v/%s", reg.name, factor, dialectName(o)), func(t *testing.T) {
+				t.Run(fmt.Sprintf("%s/factor=%v/%s", reg.Name, factor, dialectName(o)), func(t *testing.T) {
 					var got, want bytes.Buffer
-					runSinks(t, reg, newChecker(t, "iso", factor), New(&got, o), refNew(&want, o))
+					sinktest.RunSinks(t, reg, sinktest.NewChecker(t, "iso", factor), New(&got, o), refNew(&want, o))
 					if got.Len() == 0 {
 						t.Fatal("nothing written")
 					}

@@ -6,6 +6,8 @@ import (
 	"strings"
 	"testing"
 	"unicode/utf8"
+
+	"hoistfleet/io/sinktest"
 )
 
 // checkField writes s as the second field of a record (the first is x, or y when x is
@@ -55,7 +57,7 @@ func TestFieldRoundTripRandom(t *testing.T) {
 		n = 10_000
 	}
 	for range n {
-		s := randText(rng)
+		s := sinktest.RandText(rng)
 		if rng.IntN(4) == 0 { // random bytes too
 			b := make([]byte, rng.IntN(12))
 			for i := range b {
@@ -68,7 +70,7 @@ func TestFieldRoundTripRandom(t *testing.T) {
 }
 
 func FuzzField(f *testing.F) {
-	for i, p := range textPieces {
+	for i, p := range sinktest.TextPieces {
 		f.Add(p, readableCommas[i%len(readableCommas)])
 		f.Add(p+"x"+p, ',')
 		f.Add(" "+p, ';')

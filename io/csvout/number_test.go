@@ -5,16 +5,18 @@ import (
 	"math/rand/v2"
 	"strconv"
 	"testing"
+
+	"hoistfleet/io/sinktest"
 )
 
 // TestAppendGMatchesStrconv: the fast path for whole numbers and the number cache write
 // what strconv.AppendFloat(f, 'g', -1, 64) writes, for edge values and random ones.
 func TestAppendGMatchesStrconv(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
-	vals := append([]float64{}, edgeFloats...)
+	vals := append([]float64{}, sinktest.EdgeFloats...)
 	vals = append(vals, 999999.5, -0.5, 5e-324, -5e-324, 1e-323, 123456.0000000001, 0.000001, -1e21, math.Nextafter(1e6, 0), math.Nextafter(-1e6, 0))
 	for range 200_000 {
-		vals = append(vals, randFloat(rng))
+		vals = append(vals, sinktest.RandFloat(rng))
 	}
 	var c numCache
 	for pass := range 2 { // the second pass reads most numbers from the cache
@@ -41,7 +43,7 @@ func TestAppendGMatchesStrconv(t *testing.T) {
 
 // BenchmarkAppendNum formats the numbers of real results, through the cache and not.
 func BenchmarkAppendNum(b *testing.B) {
-	_, rs := benchRealResults(b)
+	_, rs := sinktest.BenchResults(b)
 	var vals []float64
 	for _, r := range rs {
 		for _, c := range r.Checks {

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"hoistfleet/fleet"
+	"hoistfleet/io/sinktest"
 )
 
 // TestAbortDropsOutput: after Abort nothing buffered reaches the writer.
@@ -53,7 +54,7 @@ func TestShortWrite(t *testing.T) {
 func TestLargeOutputInBlocks(t *testing.T) {
 	var buf bytes.Buffer
 	cw := &countWrites{w: &buf}
-	rs := randomResults(5, 2000)
+	rs := sinktest.RandomResults(5, 2000)
 	w := New(cw, Options{})
 	_ = w.Begin(&fleet.Header{}, nil)
 	for _, r := range rs {

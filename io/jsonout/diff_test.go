@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"hoistfleet/fleet"
+	"hoistfleet/io/sinktest"
 )
 
 // The differential tests: the Writer must write exactly the bytes the previous writer
@@ -61,7 +62,7 @@ func TestSameAsReferenceRandom(t *testing.T) {
 		n = 300
 	}
 	for seed := range uint64(3) {
-		got, want := writeBoth(t, randomResults(seed, n))
+		got, want := writeBoth(t, sinktest.RandomResults(seed, n))
 		sameBytes(t, got, want)
 	}
 }
@@ -69,7 +70,7 @@ func TestSameAsReferenceRandom(t *testing.T) {
 // TestSameAsReferenceManyFigures covers the figure objects large enough to find
 // repeated names with a map.
 func TestSameAsReferenceManyFigures(t *testing.T) {
-	rs := randomResults(7, 50)
+	rs := sinktest.RandomResults(7, 50)
 	for _, r := range rs {
 		for j := range r.Checks {
 			c := &r.Checks[j]
@@ -86,7 +87,7 @@ func TestSameAsReferenceManyFigures(t *testing.T) {
 // TestSameAsReferenceCacheTurnover writes more distinct texts than the text cache holds,
 // so that it is emptied and refilled.
 func TestSameAsReferenceCacheTurnover(t *testing.T) {
-	rs := randomResults(99, 200)
+	rs := sinktest.RandomResults(99, 200)
 	for i, r := range rs {
 		for j := range r.Checks {
 			r.Checks[j].Rule = fmt.Sprintf("rule %d.%d", i, j)
@@ -102,15 +103,15 @@ func TestSameAsReferenceCacheTurnover(t *testing.T) {
 // TestSameAsReferenceRegisters runs fleet over the demo registers and a generated one,
 // both writers taking the same results, with and without re-rating.
 func TestSameAsReferenceRegisters(t *testing.T) {
-	regs := demoRegisters(t)
+	regs := sinktest.DemoRegisters(t)
 	if !testing.Short() {
-		regs = append(regs, generatedRegister(t, 400, "si", 3), generatedRegister(t, 200, "us", 4))
+		regs = append(regs, sinktest.GeneratedRegister(t, 400, "si", 3), sinktest.GeneratedRegister(t, 200, "us", 4))
 	}
 	for _, reg := range regs {
 		for _, factor := range []float64{0, 1.25} {
-			t.Run(fmt.Sprintf("%s/factor=%v", reg.name, factor), func(t *testing.T) {
+			t.Run(fmt.Sprintf("%s/factor=%v", reg.Name, factor), func(t *testing.T) {
 				var got, want bytes.Buffer
-				runSinks(t, reg, newChecker(t, "iso", factor), New(&got, Options{}), refNew(&want, Options{}))
+				sinktest.RunSinks(t, reg, sinktest.NewChecker(t, "iso", factor), New(&got, Options{}), refNew(&want, Options{}))
 				if got.Len() == 0 {
 					t.Fatal("nothing written")
 				}

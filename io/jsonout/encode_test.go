@@ -6,6 +6,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"hoistfleet/io/sinktest"
 )
 
 // jsonString is s as encoding/json writes it with SetEscapeHTML(false), as the lines
@@ -47,7 +49,7 @@ func TestAppendStringRandom(t *testing.T) {
 		checkString(t, string([]byte{byte(c)}))
 	}
 	for range n {
-		s := randText(rng)
+		s := sinktest.RandText(rng)
 		if rng.IntN(3) == 0 {
 			b := make([]byte, rng.IntN(12))
 			for i := range b {
@@ -60,7 +62,7 @@ func TestAppendStringRandom(t *testing.T) {
 }
 
 func FuzzAppendString(f *testing.F) {
-	for _, p := range textPieces {
+	for _, p := range sinktest.TextPieces {
 		f.Add(p)
 		f.Add("a" + p + "b" + p)
 	}
@@ -71,10 +73,10 @@ func FuzzAppendString(f *testing.F) {
 // on edge values and random ones (random bits cover subnormals and the extremes).
 func TestAppendNumberRandom(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 8))
-	vals := append([]float64{}, edgeFloats...)
+	vals := append([]float64{}, sinktest.EdgeFloats...)
 	vals = append(vals, 1e15, 1e15-1, -1e15+1, 1e15+2, 999999999999999.9, 5e-324, 1e-6, math.Nextafter(1e-6, 0), math.Nextafter(1e21, 0), -1e21, 1e-7)
 	for range 200_000 {
-		vals = append(vals, randFloat(rng))
+		vals = append(vals, sinktest.RandFloat(rng))
 	}
 	var c numCache
 	for pass := range 2 { // the second pass reads most numbers from the cache

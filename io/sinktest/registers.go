@@ -1,4 +1,8 @@
-package jsonout
+// Package sinktest is test support for the result writers (io/csvout, io/jsonout): real
+// results from the demo registers and from cmd/hoistgen registers checked by fleet, a
+// sink that tees one run to several writers (and counts Prepare calls), random results
+// with awkward text and numbers, and a benchmark loop. It is imported only by tests.
+package sinktest
 
 import (
 	"bytes"
@@ -19,24 +23,24 @@ import (
 // Real results for the differential tests and the benchmarks: the demo registers and a
 // register made by cmd/hoistgen, checked by fleet with a fixed as-of date.
 
-var asOf = time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)
+var AsOf = time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)
 
-// namedRegister is one CSV register and its file name.
-type namedRegister struct {
-	name string
-	data []byte
+// Register is one CSV register and its file name.
+type Register struct {
+	Name string
+	Data []byte
 }
 
-// demoRegisters returns the embedded demo registers.
-func demoRegisters(t testing.TB) []namedRegister {
+// DemoRegisters returns the embedded demo registers.
+func DemoRegisters(t testing.TB) []Register {
 	t.Helper()
 	names, files, err := templates.DemoRegisters()
 	if err != nil {
 		t.Fatal(err)
 	}
-	var out []namedRegister
+	var out []Register
 	for _, n := range names {
-		out = append(out, namedRegister{n, files[n]})
+		out = append(out, Register{n, files[n]})
 	}
 	if len(out) == 0 {
 		t.Fatal("no demo registers")
@@ -49,9 +53,9 @@ var (
 	genCache = map[string][]byte{}
 )
 
-// generatedRegister runs cmd/hoistgen (go run) for n rows of the given units and seed.
+// GeneratedRegister runs cmd/hoistgen (go run) for n rows of the given units and seed.
 // It skips the test in -short mode or when the go command is not at hand.
-func generatedRegister(t testing.TB, n int, units string, seed int) namedRegister {
+func GeneratedRegister(t testing.TB, n int, units string, seed int) Register {
 	t.Helper()
 	if testing.Short() {
 		t.Skip("runs cmd/hoistgen")
@@ -64,7 +68,7 @@ func generatedRegister(t testing.TB, n int, units string, seed int) namedRegiste
 	genMu.Lock()
 	defer genMu.Unlock()
 	if b, ok := genCache[key]; ok {
-		return namedRegister{key, b}
+		return Register{key, b}
 	}
 	cmd := exec.Command(goCmd, "run", "hoistfleet/cmd/hoistgen", "-n", fmt.Sprint(n), "--seed", fmt.Sprint(seed), "--units", units, "-o", "-")
 	var stderr bytes.Buffer
@@ -74,32 +78,32 @@ func generatedRegister(t testing.TB, n int, units string, seed int) namedRegiste
 		t.Fatalf("hoistgen: %v\n%s", err, stderr.Bytes())
 	}
 	genCache[key] = b
-	return namedRegister{key, b}
+	return Register{key, b}
 }
 
-func newChecker(t testing.TB, profile string, factor float64) *fleet.Checker {
+func NewChecker(t testing.TB, profile string, factor float64) *fleet.Checker {
 	t.Helper()
 	tab, err := templates.Profile(profile)
 	if err != nil {
 		t.Fatal(err)
 	}
-	c, err := fleet.NewChecker(fleet.Options{Rules: tab, MarginalBand: 0.10, AsOf: asOf, RatedLoadFactor: factor})
+	c, err := fleet.NewChecker(fleet.Options{Rules: tab, MarginalBand: 0.10, AsOf: AsOf, RatedLoadFactor: factor})
 	if err != nil {
 		t.Fatal(err)
 	}
 	return c
 }
 
-// runSinks runs fleet over reg once, every result going to each of sinks in turn.
-func runSinks(t testing.TB, reg namedRegister, c *fleet.Checker, sinks ...fleet.Sink) {
+// RunSinks runs fleet over reg once, every result going to each of sinks in turn.
+func RunSinks(t testing.TB, reg Register, c *fleet.Checker, sinks ...fleet.Sink) {
 	t.Helper()
-	src, err := register.NewCSV(bytes.NewReader(reg.data), reg.name)
+	src, err := register.NewCSV(bytes.NewReader(reg.Data), reg.Name)
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer src.Close()
-	info := &fleet.RunInfo{Tool: "hoistfleet", Version: "test", Input: reg.name, AsOf: asOf, RatedLoadFactor: c.Options().RatedLoadFactor}
-	tee := &teeSink{sinks: sinks}
+	info := &fleet.RunInfo{Tool: "hoistfleet", Version: "test", Input: reg.Name, AsOf: AsOf, RatedLoadFactor: c.Options().RatedLoadFactor}
+	tee := &TeeSink{sinks: sinks}
 	if _, err := fleet.Run(context.Background(), src, tee, c, info, nil); err != nil {
 		t.Fatal(err)
 	}
@@ -110,14 +114,14 @@ func runSinks(t testing.TB, reg namedRegister, c *fleet.Checker, sinks ...fleet.
 	}
 }
 
-// teeSink hands every call to each of its sinks; Prepare goes to those that are
+// TeeSink hands every call to each of its sinks; Prepare goes to those that are
 // fleet.Preparers (called concurrently by the pipeline's workers).
-type teeSink struct {
+type TeeSink struct {
 	sinks             []fleet.Sink
 	prepared, written atomic.Int64
 }
 
-func (ts *teeSink) Prepare(r *fleet.Result) {
+func (ts *TeeSink) Prepare(r *fleet.Result) {
 	for _, s := range ts.sinks {
 		if p, ok := s.(fleet.Preparer); ok {
 			p.Prepare(r)
@@ -126,7 +130,7 @@ func (ts *teeSink) Prepare(r *fleet.Result) {
 	}
 }
 
-func (ts *teeSink) Begin(h *fleet.Header, info *fleet.RunInfo) error {
+func (ts *TeeSink) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	for _, s := range ts.sinks {
 		if err := s.Begin(h, info); err != nil {
 			return err
@@ -135,7 +139,7 @@ func (ts *teeSink) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	return nil
 }
 
-func (ts *teeSink) Write(r *fleet.Result) error {
+func (ts *TeeSink) Write(r *fleet.Result) error {
 	ts.written.Add(1)
 	for _, s := range ts.sinks {
 		if err := s.Write(r); err != nil {
@@ -145,7 +149,7 @@ func (ts *teeSink) Write(r *fleet.Result) error {
 	return nil
 }
 
-func (ts *teeSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
+func (ts *TeeSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
 	for _, s := range ts.sinks {
 		if err := s.End(sum, info); err != nil {
 			return err
@@ -154,16 +158,16 @@ func (ts *teeSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
 	return nil
 }
 
-func (ts *teeSink) Abort() {
+func (ts *TeeSink) Abort() {
 	for _, s := range ts.sinks {
 		s.Abort()
 	}
 }
 
-// checkedResults reads reg and checks every hoist directly (one fresh Result each).
-func checkedResults(t testing.TB, reg namedRegister, c *fleet.Checker) (*fleet.Header, []*fleet.Result) {
+// CheckedResults reads reg and checks every hoist directly (one fresh Result each).
+func CheckedResults(t testing.TB, reg Register, c *fleet.Checker) (*fleet.Header, []*fleet.Result) {
 	t.Helper()
-	src, err := register.NewCSV(bytes.NewReader(reg.data), reg.name)
+	src, err := register.NewCSV(bytes.NewReader(reg.Data), reg.Name)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,4 +1,4 @@
-package csvout
+package sinktest
 
 import (
 	"math"
@@ -13,39 +13,39 @@ import (
 // to CSV (separators, quotes, line ends, formula starts, spaces, multi-byte runes and
 // invalid UTF-8) and numbers at the edges of float formatting.
 
-var textPieces = []string{"", "a", "H-01", "pass", ",", ";", "\t", " ", "\"", "\r", "\n", "\r\n", "=", "+", "-", "@", "'",
+var TextPieces = []string{"", "a", "H-01", "pass", ",", ";", "\t", " ", "\"", "\r", "\n", "\r\n", "=", "+", "-", "@", "'",
 	"é", "€", "≥", "²", "°", "\uFFFD", "\xff", "\xe2\x82", "0", "1.5", "e", "n/a", "; ", "a=b", "Zp ≥ 5.6 (M6)",
 	"ISO 4308-1 (edition not recorded), coefficient h1, drums [memory, medium]", "\u2028", "\u2029", "<", ">", "&", "\\", "\x00", "\x1f", "\x7f"}
 
-// randText joins up to 6 random pieces.
-func randText(rng *rand.Rand) string {
+// RandText joins up to 6 random pieces.
+func RandText(rng *rand.Rand) string {
 	n := rng.IntN(7)
 	var sb strings.Builder
 	for range n {
-		sb.WriteString(textPieces[rng.IntN(len(textPieces))])
+		sb.WriteString(TextPieces[rng.IntN(len(TextPieces))])
 	}
 	return sb.String()
 }
 
-// pickText is randText most of the time and one of a few fixed texts otherwise, so that
+// pickText is RandText most of the time and one of a few fixed texts otherwise, so that
 // the writer's caches see repeats as well as new texts.
 func pickText(rng *rand.Rand, fixed ...string) string {
 	if rng.IntN(3) > 0 && len(fixed) > 0 {
 		return fixed[rng.IntN(len(fixed))]
 	}
-	return randText(rng)
+	return RandText(rng)
 }
 
-var edgeFloats = []float64{0, math.Copysign(0, -1), 1, -1, 0.1, 0.2, 1.0 / 3, 2.0 / 3, 100.0 / 365, 9.80665, 6480.5, 1e-4, 1e-5, 9.99e-5,
+var EdgeFloats = []float64{0, math.Copysign(0, -1), 1, -1, 0.1, 0.2, 1.0 / 3, 2.0 / 3, 100.0 / 365, 9.80665, 6480.5, 1e-4, 1e-5, 9.99e-5,
 	1e-6, 9.99e-7, 1e-7, 1.5e-9, 123456, 999999, 1e6, 1e6 - 0.5, -999999, -1e6, 123456789, 1e15, 1e20, 1e21, 1e22, 1e-300,
 	math.SmallestNonzeroFloat64, 2.2250738585072014e-308, math.MaxFloat64, -math.MaxFloat64, 1 << 53, 1<<53 + 2,
 	0.30000000000000004, 16257.708885941633, 1.2777814192843628e-05, math.NaN(), math.Inf(1), math.Inf(-1)}
 
-// randFloat is an edge value, a whole number, or random bits.
-func randFloat(rng *rand.Rand) float64 {
+// RandFloat is an edge value, a whole number, or random bits.
+func RandFloat(rng *rand.Rand) float64 {
 	switch rng.IntN(5) {
 	case 0:
-		return edgeFloats[rng.IntN(len(edgeFloats))]
+		return EdgeFloats[rng.IntN(len(EdgeFloats))]
 	case 1:
 		return float64(rng.IntN(4_000_000) - 2_000_000)
 	case 2:
@@ -69,17 +69,17 @@ func randChecks(rng *rand.Rand, n int) []fleet.CheckResult {
 		c := &cs[i]
 		c.ID = pickText(rng, fleet.CheckIDs...)
 		c.Status = randStatus(rng)
-		c.Demand, c.Capacity, c.Utilisation, c.Margin, c.LimitRatedLoadKg = randFloat(rng), randFloat(rng), randFloat(rng), randFloat(rng), randFloat(rng)
+		c.Demand, c.Capacity, c.Utilisation, c.Margin, c.LimitRatedLoadKg = RandFloat(rng), RandFloat(rng), RandFloat(rng), RandFloat(rng), RandFloat(rng)
 		c.Unit = pickText(rng, "1", "N m", "W", "m", "d", "deg")
 		c.Rule = pickText(rng, "drum.h1 = 16 (M4)", "steady hoisting torque ≤ rated motor torque M_r = P / ω_m")
 		c.Source = pickText(rng, "ISO 4308-1 (edition not recorded), coefficient h1, drums [memory, medium]", "29 CFR 1910.179(h)(2); ASME B30.2 [law]")
 		if rng.IntN(3) == 0 {
-			c.Message = randText(rng)
+			c.Message = RandText(rng)
 		}
 		for range rng.IntN(8) {
-			f := calc.Figure{Name: pickText(rng, "rope_tension_n", "drum_ratio", "radius_m"), Value: randFloat(rng)}
+			f := calc.Figure{Name: pickText(rng, "rope_tension_n", "drum_ratio", "radius_m"), Value: RandFloat(rng)}
 			if rng.IntN(6) == 0 {
-				f.Text = randText(rng)
+				f.Text = RandText(rng)
 			}
 			c.Figures = append(c.Figures, f)
 		}
@@ -96,13 +96,13 @@ func randTexts(rng *rand.Rand) []string {
 	}
 	s := make([]string, rng.IntN(4))
 	for i := range s {
-		s[i] = randText(rng)
+		s[i] = RandText(rng)
 	}
 	return s
 }
 
-// randomResults returns n random results, rows counting from 2.
-func randomResults(seed uint64, n int) []*fleet.Result {
+// RandomResults returns n random results, rows counting from 2.
+func RandomResults(seed uint64, n int) []*fleet.Result {
 	rng := rand.New(rand.NewPCG(seed, 1))
 	rs := make([]*fleet.Result, n)
 	for i := range rs {
@@ -115,9 +115,9 @@ func randomResults(seed uint64, n int) []*fleet.Result {
 			a.Fields = map[string]fleet.Value{"site": {State: fleet.OK, Text: pickText(rng, "Millbrook Coil Centre", "North, yard \"B\"")}}
 		}
 		r := &fleet.Result{Asset: a,
-			Evaluation: fleet.Evaluation{RatedLoadKg: randFloat(rng), Status: randStatus(rng), WorstCheck: pickText(rng, fleet.CheckIDs...),
-				MinMargin: randFloat(rng)},
-			Rating:       fleet.Rating{MaxRatedLoadKg: randFloat(rng), GoverningCheck: pickText(rng, fleet.CheckIDs...), Note: pickText(rng, "")},
+			Evaluation: fleet.Evaluation{RatedLoadKg: RandFloat(rng), Status: randStatus(rng), WorstCheck: pickText(rng, fleet.CheckIDs...),
+				MinMargin: RandFloat(rng)},
+			Rating:       fleet.Rating{MaxRatedLoadKg: RandFloat(rng), GoverningCheck: pickText(rng, fleet.CheckIDs...), Note: pickText(rng, "")},
 			Messages:     randTexts(rng),
 			DefaultsUsed: randTexts(rng),
 			Derived:      randTexts(rng),
@@ -126,12 +126,12 @@ func randomResults(seed uint64, n int) []*fleet.Result {
 			r.Checks = randChecks(rng, rng.IntN(20))
 		}
 		if rng.IntN(3) == 0 {
-			p := &fleet.Evaluation{RatedLoadKg: randFloat(rng), Status: randStatus(rng), WorstCheck: pickText(rng, fleet.CheckIDs...), MinMargin: randFloat(rng)}
+			p := &fleet.Evaluation{RatedLoadKg: RandFloat(rng), Status: randStatus(rng), WorstCheck: pickText(rng, fleet.CheckIDs...), MinMargin: RandFloat(rng)}
 			if rng.IntN(2) == 0 && len(r.Checks) > 0 {
 				p.Checks = append([]fleet.CheckResult(nil), r.Checks[:rng.IntN(len(r.Checks))]...)
 				for j := range p.Checks {
 					p.Checks[j].Status = randStatus(rng)
-					p.Checks[j].Utilisation = randFloat(rng)
+					p.Checks[j].Utilisation = RandFloat(rng)
 				}
 			} else {
 				p.Checks = randChecks(rng, rng.IntN(4))
