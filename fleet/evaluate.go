@@ -198,9 +198,8 @@ type hoistData struct {
 	h        calc.Hoist
 	group    int
 	scope    templates.Scope
-	keys     map[string]int // schema key → index in missingAt and badAt (the Checker's)
-	missing  []bool         // empty fields, by schema index
-	bad      []*Error       // unreadable fields, by schema index
+	missing  []bool   // empty fields, by schema index
+	bad      []*Error // unreadable fields, by schema index
 	defaults []string
 	derived  []string
 	messages []string
@@ -208,20 +207,18 @@ type hoistData struct {
 	// closedLimit is handed from a check's prepare to its preparedCheck: the limiting
 	// rated load in closed form, when the check has one.
 	closedLimit func(h calc.Hoist) float64
-	ruleErr     map[string]error // rule lookups that failed, by rule id
-	opts        *Options
 	c           *Checker
 }
 
 // isMissing reports whether the field is empty in the register.
 func (d *hoistData) isMissing(key string) bool {
-	i, ok := d.keys[key]
+	i, ok := d.c.keys[key]
 	return ok && d.missing[i]
 }
 
 // badField returns the error of an unreadable field.
 func (d *hoistData) badField(key string) (*Error, bool) {
-	i, ok := d.keys[key]
+	i, ok := d.c.keys[key]
 	if !ok || d.bad[i] == nil {
 		return nil, false
 	}
@@ -230,7 +227,7 @@ func (d *hoistData) badField(key string) (*Error, bool) {
 
 // field returns the field's value without copying it; nil when absent.
 func (d *hoistData) field(key string) *Value {
-	i, ok := d.keys[key]
+	i, ok := d.c.keys[key]
 	if !ok {
 		return nil
 	}
@@ -254,7 +251,7 @@ func (d *hoistData) text(key string) string {
 // rule looks up a rule for this hoist, records its use and returns its value in the
 // checks' units with the row's index in the table.
 func (d *hoistData) rule(id string) (float64, int, error) {
-	t := d.opts.Rules
+	t := d.c.opts.Rules
 	i := t.LookupIndex(id, d.scope)
 	if i < 0 {
 		return 0, -1, t.NoRowError(id, d.scope)
@@ -269,7 +266,7 @@ func (d *hoistData) rule(id string) (float64, int, error) {
 
 // ruleWord looks up a rule whose value is a word, lower-cased.
 func (d *hoistData) ruleWord(id string) (string, int, error) {
-	t := d.opts.Rules
+	t := d.c.opts.Rules
 	i := t.LookupIndex(id, d.scope)
 	if i < 0 {
 		return "", -1, fmt.Errorf("rule %s: no row of the %s rules applies", id, t.Profile)
@@ -280,8 +277,8 @@ func (d *hoistData) ruleWord(id string) (string, int, error) {
 
 // resolve reads an asset into hoistData: SI values with defaults applied and reported.
 func (c *Checker) resolve(a *Asset) *hoistData {
-	d := &hoistData{a: a, keys: c.keys, missing: make([]bool, len(c.columns)), bad: make([]*Error, len(c.columns)),
-		opts: &c.opts, c: c, rules: make([]int, 0, 24)}
+	d := &hoistData{a: a, c: c, missing: make([]bool, len(c.columns)), bad: make([]*Error, len(c.columns)),
+		rules: make([]int, 0, 24)}
 	for _, p := range a.Problems {
 		d.messages = append(d.messages, p.Error())
 	}
@@ -375,7 +372,7 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 		grade, okg := d.num("rope_grade")
 		if k, canon, ok := rope.k, rope.canonical, rope.kOK; ok && okg {
 			h.RopeMBFN = calc.MBFFromGrade(h.RopeDiameterM, grade, k)
-			d.missing[d.keys["rope_mbf"]] = false
+			d.missing[d.c.keys["rope_mbf"]] = false
 			d.derived = append(d.derived, fmt.Sprintf("rope MBF %.1f kN from EN 12385-4: d² R K/1000 with d %g mm, R %g N/mm², K %g (%s)",
 				h.RopeMBFN/1000, h.RopeDiameterM*1000, grade, k, canon))
 		}
@@ -658,8 +655,8 @@ func baseCheckSpecs() []checkSpec {
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				lim := math.NaN()
 				var rules []int
-				if i := d.opts.Rules.LookupIndex("brake_stop.max_distance", d.scope); i >= 0 {
-					v, err := d.opts.Rules.ValueAt(i)
+				if i := d.c.opts.Rules.LookupIndex("brake_stop.max_distance", d.scope); i >= 0 {
+					v, err := d.c.opts.Rules.ValueAt(i)
 					if err != nil {
 						return nil, nil, err
 					}
@@ -688,9 +685,9 @@ func baseCheckSpecs() []checkSpec {
 					return nil, nil, err
 				}
 				last := d.a.Get("last_inspection").Date
-				asOf := d.opts.AsOf
+				asOf := d.c.opts.AsOf
 				due := calc.InspectionDueNumbers
-				if d.opts.Record {
+				if d.c.opts.Record {
 					due = calc.InspectionDue
 				}
 				return func(calc.Hoist) (calc.Outcome, error) {
@@ -734,7 +731,7 @@ func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []
 	}
 	hours, _ := d.num("operating_hours")
 	in := calc.LifeInput{OperatingHours: hours / 3600, Km: km, RecordFactor: x, FullLoadDurationH: dur,
-		Commissioned: d.a.Get("commissioned").Date, AsOf: d.opts.AsOf, SkipRecord: !d.opts.Record}
+		Commissioned: d.a.Get("commissioned").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
 	return func(calc.Hoist) (calc.Outcome, error) { return calc.DesignLife(in) }, []int{r1, r2}, nil
 }
 
@@ -745,7 +742,7 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []in
 		return nil, nil, &Error{Kind: Missing, Field: "rope_measured_diameter", Err: errors.New("needs the measured rope diameter or the broken-wire count from the last inspection")}
 	}
 	in := calc.WearInput{NominalM: d.h.RopeDiameterM, MeasuredM: meas, BrokenWires: -1,
-		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.opts.AsOf, SkipRecord: !d.opts.Record}
+		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
 	in.ReferenceM, _ = d.num("rope_reference_diameter")
 	if basis, _, err := d.ruleWord("rope_wear.basis"); err == nil && basis == "nominal" {
 		// The profile measures the reduction from nominal (ASME B30.2), whatever
@@ -762,7 +759,7 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []in
 			return nil, nil, err
 		}
 		rules = append(rules, r)
-		if d.opts.Rules.Rules[r].Dimension() == "length" {
+		if d.c.opts.Rules.Rules[r].Dimension() == "length" {
 			in.MaxReductionM = v
 		} else {
 			in.MaxReductionFraction = v

@@ -56,7 +56,7 @@ func util(u float64) *calc.Outcome {
 // hoist's status, min_margin and worst_check with design.md "Statuses".
 func TestEvaluationPrecedence(t *testing.T) {
 	c := isoChecker(t)
-	d := &hoistData{a: &Asset{ID: "T-1"}, opts: &c.opts}
+	d := &hoistData{a: &Asset{ID: "T-1"}, c: c}
 	info := &calc.Outcome{Verdict: calc.Info, Utilisation: math.NaN(), Demand: math.NaN(), Capacity: math.NaN()}
 	calcErr := preparedCheck{spec: &checkSpec{id: "calc-error"}, run: func(calc.Hoist) (calc.Outcome, error) {
 		return calc.Outcome{}, errors.New("no convergence")

@@ -31,6 +31,7 @@ import (
 	"unicode/utf8"
 
 	"hoistfleet/fleet"
+	"hoistfleet/io/outbuf"
 )
 
 // Options customise a Writer.
@@ -70,10 +71,10 @@ const flushAt = 64 << 10
 type Writer struct {
 	out   io.Writer
 	opts  Options
-	enc   *encoder  // encodes in Write the results no worker prepared
-	pool  sync.Pool // *encoder for Prepare, configured like enc
-	bufs  sync.Pool // *[]byte: prepared encodings, returned once written
-	buf   []byte    // output not yet written to out
+	enc   *encoder        // encodes in Write the results no worker prepared
+	pool  sync.Pool       // *encoder for Prepare, configured like enc
+	prep  outbuf.Prepared // the workers' encodings, recycled once written
+	buf   []byte          // output not yet written to out
 	begun bool
 	err   error
 }
@@ -179,11 +180,8 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.err = fmt.Errorf("csvout: result without an asset")
 		return w.err
 	}
-	if p, ok := r.Prepared.(*prepared); ok && p.w == w {
-		w.buf = append(w.buf, *p.b...)
-		*p.b = (*p.b)[:0]
-		w.bufs.Put(p.b)
-		r.Prepared = nil
+	if b, ok := w.prep.AppendTo(w.buf, r.Prepared); ok {
+		w.buf, r.Prepared = b, nil
 	} else {
 		w.buf = w.enc.encode(w.buf, r)
 	}
@@ -191,12 +189,6 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.flush()
 	}
 	return w.err
-}
-
-// prepared is a result's records encoded by Prepare, for the Writer that made them.
-type prepared struct {
-	w *Writer
-	b *[]byte
 }
 
 // Prepare encodes r's records (fleet.Preparer): it runs in the pipeline's workers,
@@ -207,13 +199,8 @@ func (w *Writer) Prepare(r *fleet.Result) {
 		return
 	}
 	e := w.pool.Get().(*encoder)
-	b, _ := w.bufs.Get().(*[]byte)
-	if b == nil {
-		b = new([]byte)
-	}
-	*b = e.encode((*b)[:0], r)
+	r.Prepared = w.prep.Encode(func(b []byte) []byte { return e.encode(b, r) })
 	w.pool.Put(e)
-	r.Prepared = &prepared{w: w, b: b}
 }
 
 // encode appends the records of r (one per check, one when it has none).
@@ -404,11 +391,7 @@ func (w *Writer) flush() {
 	if len(w.buf) == 0 || w.err != nil {
 		return
 	}
-	n, err := w.out.Write(w.buf)
-	if err == nil && n < len(w.buf) {
-		err = io.ErrShortWrite
-	}
-	if err != nil {
+	if err := outbuf.WriteAll(w.out, w.buf); err != nil {
 		w.err = fmt.Errorf("csvout: %w", err)
 	}
 	w.buf = w.buf[:0]

@@ -5,6 +5,7 @@ import (
 	"strconv"
 
 	"hoistfleet/fleet"
+	"hoistfleet/io/outbuf"
 )
 
 // appendNum appends f in the shortest form that reads back to the same float64, or
@@ -47,39 +48,12 @@ func AppendFigures(b []byte, c *fleet.CheckResult) []byte {
 	return b
 }
 
-// numCacheBits sets the size of a numCache: 1<<numCacheBits entries of 32 bytes.
-const numCacheBits = 11
-
-// numCache remembers the text of recently written numbers, direct-mapped on the bits of
-// the float64. A hoist repeats many of its numbers across checks (a rope tension is a
-// figure of several checks, a capacity is also a figure) and a fleet repeats its rule
-// values, so most numbers are copied rather than formatted again.
-type numCache struct {
-	e [1 << numCacheBits]numEntry
-}
-
-type numEntry struct {
-	bits uint64
-	n    uint8 // length of text; 0: empty slot
-	text [23]byte
-}
+// numCache is outbuf.NumCache formatting as appendG does.
+type numCache struct{ outbuf.NumCache }
 
 // appendG appends f as the package-level appendG does, remembering the result. f must
 // be finite.
-func (c *numCache) appendG(b []byte, f float64) []byte {
-	bits := math.Float64bits(f)
-	e := &c.e[(bits*0x9E3779B97F4A7C15)>>(64-numCacheBits)]
-	if e.n > 0 && e.bits == bits {
-		return append(b, e.text[:e.n]...)
-	}
-	start := len(b)
-	b = appendG(b, f)
-	if n := len(b) - start; n <= len(e.text) {
-		e.bits, e.n = bits, uint8(n)
-		copy(e.text[:], b[start:])
-	}
-	return b
-}
+func (c *numCache) appendG(b []byte, f float64) []byte { return c.Append(b, f, appendG) }
 
 // appendNum is the package-level appendNum through the cache.
 func (c *numCache) appendNum(b []byte, f float64) []byte {

@@ -5,6 +5,8 @@ import (
 	"strconv"
 	"strings"
 	"unicode/utf8"
+
+	"hoistfleet/io/outbuf"
 )
 
 // JSON values written exactly as encoding/json writes them with SetEscapeHTML(false),
@@ -101,38 +103,11 @@ func AppendNumber(b []byte, f float64) []byte {
 	return b
 }
 
-// numCacheBits sets the size of a numCache: 1<<numCacheBits entries of 32 bytes.
-const numCacheBits = 11
-
-// numCache remembers the text of recently written numbers, direct-mapped on the bits of
-// the float64. A hoist repeats many of its numbers across checks (a rope tension is a
-// figure of several checks, a capacity is also a figure) and a fleet repeats its rule
-// values, so most numbers are copied rather than formatted again.
-type numCache struct {
-	e [1 << numCacheBits]numEntry
-}
-
-type numEntry struct {
-	bits uint64
-	n    uint8 // length of text; 0: empty slot
-	text [23]byte
-}
+// numCache is outbuf.NumCache formatting as AppendNumber does.
+type numCache struct{ outbuf.NumCache }
 
 // appendNumber appends f as AppendNumber does, remembering the result.
-func (c *numCache) appendNumber(b []byte, f float64) []byte {
-	bits := math.Float64bits(f)
-	e := &c.e[(bits*0x9E3779B97F4A7C15)>>(64-numCacheBits)]
-	if e.n > 0 && e.bits == bits {
-		return append(b, e.text[:e.n]...)
-	}
-	start := len(b)
-	b = AppendNumber(b, f)
-	if n := len(b) - start; n <= len(e.text) {
-		e.bits, e.n = bits, uint8(n)
-		copy(e.text[:], b[start:])
-	}
-	return b
-}
+func (c *numCache) appendNumber(b []byte, f float64) []byte { return c.Append(b, f, AppendNumber) }
 
 // textCacheMax bounds a textCache; it is emptied when full.
 const textCacheMax = 4096

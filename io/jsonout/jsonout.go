@@ -29,6 +29,7 @@ import (
 
 	"hoistfleet/calc"
 	"hoistfleet/fleet"
+	"hoistfleet/io/outbuf"
 )
 
 // Options customise a Writer. There are none yet: the jsonl contract has one form.
@@ -50,10 +51,10 @@ const flushAt = 64 << 10
 // copies it out, so the encoding runs on every core.
 type Writer struct {
 	out  io.Writer
-	enc  *encoder  // encodes in Write the results no worker prepared
-	pool sync.Pool // *encoder for Prepare
-	bufs sync.Pool // *[]byte: prepared lines, returned once written
-	buf  []byte    // output not yet written to out
+	enc  *encoder        // encodes in Write the results no worker prepared
+	pool sync.Pool       // *encoder for Prepare
+	prep outbuf.Prepared // the workers' lines, recycled once written
+	buf  []byte          // output not yet written to out
 	err  error
 }
 
@@ -70,12 +71,6 @@ type encoder struct {
 }
 
 func newEncoder() *encoder { return &encoder{nums: new(numCache)} }
-
-// prepared is a result's line encoded by Prepare, for the Writer that made it.
-type prepared struct {
-	w *Writer
-	b *[]byte
-}
 
 type hoistMemos struct {
 	status, governing, worst, site, pstatus, pworst memo
@@ -113,11 +108,8 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.err = fmt.Errorf("jsonout: result without an asset")
 		return w.err
 	}
-	if p, ok := r.Prepared.(*prepared); ok && p.w == w {
-		w.buf = append(w.buf, *p.b...)
-		*p.b = (*p.b)[:0]
-		w.bufs.Put(p.b)
-		r.Prepared = nil
+	if b, ok := w.prep.AppendTo(w.buf, r.Prepared); ok {
+		w.buf, r.Prepared = b, nil
 	} else {
 		w.buf = w.enc.appendHoist(w.buf, r)
 	}
@@ -135,13 +127,8 @@ func (w *Writer) Prepare(r *fleet.Result) {
 		return
 	}
 	e := w.pool.Get().(*encoder)
-	b, _ := w.bufs.Get().(*[]byte)
-	if b == nil {
-		b = new([]byte)
-	}
-	*b = e.appendHoist((*b)[:0], r)
+	r.Prepared = w.prep.Encode(func(b []byte) []byte { return e.appendHoist(b, r) })
 	w.pool.Put(e)
-	r.Prepared = &prepared{w: w, b: b}
 }
 
 // appendHoist appends the line of r: the object of one hoist and a newline.
@@ -306,11 +293,7 @@ func (w *Writer) flush() {
 	if len(w.buf) == 0 || w.err != nil {
 		return
 	}
-	n, err := w.out.Write(w.buf)
-	if err == nil && n < len(w.buf) {
-		err = io.ErrShortWrite
-	}
-	if err != nil {
+	if err := outbuf.WriteAll(w.out, w.buf); err != nil {
 		w.err = fmt.Errorf("jsonout: %w", err)
 	}
 	w.buf = w.buf[:0]
