@@ -56,7 +56,7 @@ func (t dynTrain) radiusWords(k int) string {
 	if k == 0 {
 		return "first layer, r_1"
 	}
-	return fmt.Sprintf("outer layer %d, r_L", t.layers)
+	return "outer layer " + strconv.Itoa(t.layers) + ", r_L"
 }
 
 // dynFinite reports whether x is a finite number (not NaN, not ±Inf).
@@ -273,10 +273,10 @@ func Runaway(h Hoist) (Outcome, error) {
 	}
 	switch {
 	case t.selfLocking():
-		out.Note = fmt.Sprintf("self-locking gear train (η_gb = %s ≤ 0): the load cannot drive the train, no runaway", dynNum(t.etaGB))
+		out.Note = "self-locking gear train (η_gb = " + dynNum(t.etaGB) + " ≤ 0): the load cannot drive the train, no runaway"
 	default:
-		lossTxt := fmt.Sprintf("η_RD = %s, η_gb = %s", dynNum(t.etaRD), dynNum(t.etaGB))
-		out.Note = fmt.Sprintf("runaway evaluated at the %s (larger acceleration); %s; time to reach the rated hoisting speed", t.radiusWords(best), lossTxt)
+		out.Note = "runaway evaluated at the " + t.radiusWords(best) + " (larger acceleration); η_RD = " + dynNum(t.etaRD) +
+			", η_gb = " + dynNum(t.etaGB) + "; time to reach the rated hoisting speed"
 	}
 	if H <= 0 {
 		out.Note += "; no lift height: fall speed and energy not computed"
@@ -536,13 +536,13 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 		}
 	case !g.canStop:
 		out.Verdict = Fail
-		out.Note = fmt.Sprintf("the %s brake cannot decelerate the load: a_b = %s m/s² ≤ 0 at the %s", brakeWhere, dynNum(g.ab), where)
+		out.Note = "the " + brakeWhere + " brake cannot decelerate the load: a_b = " + dynNum(g.ab) + " m/s² ≤ 0 at the " + where
 	case math.IsNaN(limit):
 		out.Verdict = Info
-		out.Note = fmt.Sprintf("%s brake, stop evaluated at the %s (longer stop); the rules set no distance limit", brakeWhere, where)
+		out.Note = brakeWhere + " brake, stop evaluated at the " + where + " (longer stop); the rules set no distance limit"
 	default:
 		out.Verdict = ByUtilisation
-		out.Note = fmt.Sprintf("%s brake, stop evaluated at the %s (longer stop)", brakeWhere, where)
+		out.Note = brakeWhere + " brake, stop evaluated at the " + where + " (longer stop)"
 	}
 	if h.RopeMBFN <= 0 {
 		out.Note += "; rope MBF not given: peak design factor not computed"

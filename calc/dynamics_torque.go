@@ -110,7 +110,7 @@ func MotorAccelTorque(h Hoist) (Outcome, error) {
 		{Name: "rotor_inertia_torque_nm", Value: g.tr, Unit: "N m"},
 		{Name: "peak_torque_nm", Value: peak, Unit: "N m"},
 	}
-	out.Note = fmt.Sprintf("accelerating at %s m/s², evaluated at the %s (larger torque)", dynNum(a), t.radiusWords(best))
+	out.Note = "accelerating at " + dynNum(a) + " m/s², evaluated at the " + t.radiusWords(best) + " (larger torque)"
 	return out, nil
 }
 
@@ -252,7 +252,7 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 		out.Utilisation = out.Demand / out.Capacity
 		return out, nil
 	}
-	which := fmt.Sprintf("accelerating the load governs, at the %s", t.radiusWords(accK))
+	which := "accelerating the load governs, at the " + t.radiusWords(accK)
 	if stop > acc {
 		out.Demand = stop
 		which = "the emergency stop governs"

@@ -3,6 +3,7 @@ package calc
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"time"
 )
 
@@ -83,9 +84,9 @@ func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outco
 		}
 	}
 	if overdue > 0 {
-		o.Note = fmt.Sprintf("periodic inspection overdue by %d days (due %s)", overdue, lifeISO(next))
+		o.Note = "periodic inspection overdue by " + strconv.Itoa(overdue) + " days (due " + lifeISO(next) + ")"
 	} else {
-		o.Note = fmt.Sprintf("next periodic inspection due %s", lifeISO(next))
+		o.Note = "next periodic inspection due " + lifeISO(next)
 	}
 	return o, nil
 }
@@ -107,6 +108,16 @@ func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outco
 //
 // It returns a *RangeError for a rated load ≤ 0, a test load ≤ 0 or a factor < 1.
 func LoadTest(ratedKg, testKg, testFactor float64) (Outcome, error) {
+	return loadTest(ratedKg, testKg, testFactor, true)
+}
+
+// LoadTestNumbers is LoadTest without the calculation record (Outcome.Steps): the same
+// numbers, figures and note, for bulk runs.
+func LoadTestNumbers(ratedKg, testKg, testFactor float64) (Outcome, error) {
+	return loadTest(ratedKg, testKg, testFactor, false)
+}
+
+func loadTest(ratedKg, testKg, testFactor float64, record bool) (Outcome, error) {
 	switch {
 	case !(ratedKg > 0) || math.IsInf(ratedKg, 0):
 		return Outcome{}, &RangeError{Field: "rated_load", Msg: fmt.Sprintf("rated load must be > 0 (got %s kg)", dutyNum(ratedKg))}
@@ -127,13 +138,15 @@ func LoadTest(ratedKg, testKg, testFactor float64) (Outcome, error) {
 			{Name: "covered_rated_load_kg", Value: covered, Unit: "kg"},
 			{Name: "test_load_ratio", Value: testKg / ratedKg, Unit: "1"},
 		},
-		Steps: []Step{
-			{Symbol: "m_cov", Formula: "test load / test factor", Numbers: fmt.Sprintf("%s / %s", dutyNum(testKg), dutyNum(testFactor)), Value: covered, Unit: "kg"},
-			{Symbol: "u", Formula: "m_L / m_cov", Numbers: fmt.Sprintf("%s / %s", dutyNum(ratedKg), dutyNum(covered)), Value: u, Unit: "1"},
-		},
+	}
+	if record {
+		o.Steps = []Step{
+			{Symbol: "m_cov", Formula: "test load / test factor", Numbers: dutyNum(testKg) + " / " + dutyNum(testFactor), Value: covered, Unit: "kg"},
+			{Symbol: "u", Formula: "m_L / m_cov", Numbers: dutyNum(ratedKg) + " / " + dutyNum(covered), Value: u, Unit: "1"},
+		}
 	}
 	if u > 1+1e-9 { // the tolerance absorbs rounding of unit conversions at exactly the limit
-		o.Note = fmt.Sprintf("the last test covers %s kg: a new load test is needed for %s kg", dutyNum(covered), dutyNum(ratedKg))
+		o.Note = "the last test covers " + dutyNum(covered) + " kg: a new load test is needed for " + dutyNum(ratedKg) + " kg"
 	}
 	return o, nil
 }

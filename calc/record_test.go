@@ -306,7 +306,7 @@ func TestSkipDetailSameNumbers(t *testing.T) {
 // numbers, figures and notes without their calculation record, and no record. Inputs:
 // FEM 9.755 class M5 D = 6300 h (standards.md, seen) with X 1.2 (memory, low); ISO 4309
 // 7.5 % diameter decrease (seen) and the ASME B30.2 1/32 in band (seen); a 12-month
-// interval (29 CFR 1910.179(j)(2), law).
+// interval (29 CFR 1910.179(j)(2), law). load-test likewise.
 func TestSkipRecordLifeChecks(t *testing.T) {
 	day := func(y, m, d int) time.Time { return time.Date(y, time.Month(m), d, 0, 0, 0, 0, time.UTC) }
 	type check struct {
@@ -327,6 +327,14 @@ func TestSkipRecordLifeChecks(t *testing.T) {
 				return calc.InspectionDueNumbers(day(2025, 10, 31), day(2026, 12, 1), 12)
 			}
 			return calc.InspectionDue(day(2025, 10, 31), day(2026, 12, 1), 12)
+		}},
+		// 5 t rated, last tested statically with 6 t: 6000 / 1.25 = 4800 kg covered, so it
+		// fails with a note (2006/42/EC static coefficient 1.25, law, memory high).
+		{"load-test", func(skip bool) (calc.Outcome, error) {
+			if skip {
+				return calc.LoadTestNumbers(5000, 6000, 1.25)
+			}
+			return calc.LoadTest(5000, 6000, 1.25)
 		}},
 	}
 	for _, c := range checks {

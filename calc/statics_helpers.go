@@ -217,8 +217,8 @@ func stRadiusSteps(h Hoist) []Step {
 
 // stOuterNote is the Note of a check whose demand is largest on the outer layer.
 func stOuterNote(h Hoist) string {
-	return fmt.Sprintf("outer layer governs: evaluated at r_L = %s m (layer %d, ideal nesting) against r_1 = %s m",
-		stNum(h.OuterLayerRadiusM()), h.Layers, stNum(h.FirstLayerRadiusM()))
+	return "outer layer governs: evaluated at r_L = " + stNum(h.OuterLayerRadiusM()) + " m (layer " + strconv.Itoa(h.Layers) +
+		", ideal nesting) against r_1 = " + stNum(h.FirstLayerRadiusM()) + " m"
 }
 
 // stUtilisation is demand / capacity with the limits spelled out: 0/0 is 0 (nothing

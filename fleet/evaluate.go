@@ -6,6 +6,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -39,6 +40,7 @@ type Checker struct {
 	texts   sync.Map           // ruleSet → ruleText: the rule and source text of a set of rows
 	ropes   ropeCache          // rope construction text → what calc reads from it
 	dflts   sync.Map           // defaultKey → the text saying a rule default was applied
+	scratch sync.Pool          // *scratch, reused from one Check to the next
 }
 
 // defaultKey identifies a "default applied" text: its format, rule and value. The value
@@ -276,9 +278,8 @@ func (d *hoistData) ruleWord(id string) (string, int, error) {
 }
 
 // resolve reads an asset into hoistData: SI values with defaults applied and reported.
-func (c *Checker) resolve(a *Asset) *hoistData {
-	d := &hoistData{a: a, c: c, missing: make([]bool, len(c.columns)), bad: make([]*Error, len(c.columns)),
-		rules: make([]int, 0, 24)}
+func (c *Checker) resolve(a *Asset, d *hoistData) {
+	d.reset(c, a)
 	for _, p := range a.Problems {
 		d.messages = append(d.messages, p.Error())
 	}
@@ -303,7 +304,7 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 		}
 	}
 	d.resolveDuty()
-	d.scope = templates.Scope{Group: d.group, Attrs: map[string]string{}, Nums: map[string]float64{}}
+	d.scope.Group = d.group
 	for _, k := range []struct{ attr, key, def string }{
 		{"special", "special_service", "none"}, {"control", "control_braking", "none"},
 		{"service", "service", "normal"}, {"records", "usage_records", "none"},
@@ -348,7 +349,7 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 	} else {
 		h.GearBackEff = h.GearEff
 		if d.isMissing("gear_backdrive_efficiency") {
-			d.defaults = append(d.defaults, fmt.Sprintf("gear back-drive efficiency = gear efficiency %g", h.GearEff))
+			d.defaults = append(d.defaults, "gear back-drive efficiency = gear efficiency "+strconv.FormatFloat(h.GearEff, 'g', -1, 64))
 		}
 	}
 	h.GearboxRatedTorqueNm, _ = d.num("gearbox_rated_torque")
@@ -378,7 +379,6 @@ func (c *Checker) resolve(a *Asset) *hoistData {
 		}
 	}
 	d.h = h
-	return d
 }
 
 // hasCondition reports whether any rule row in force has the condition cond.
@@ -701,7 +701,10 @@ func baseCheckSpecs() []checkSpec {
 					return nil, nil, err
 				}
 				test, _ := d.num("test_load")
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, []int{r}, nil
+				if d.c.opts.Record {
+					return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, []int{r}, nil
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTestNumbers(h.RatedLoadKg, test, f) }, []int{r}, nil
 			}},
 		{id: "rope-wear", needs: []string{"rope_diameter"}, uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_reference_diameter", "rope_construction", "rope_fitted"}, nullsRating: true,
 			prepare: prepareRopeWear},
@@ -793,8 +796,11 @@ func (c *Checker) Check(a *Asset) *Result {
 		}
 		return r
 	}
-	d := c.resolve(a)
-	prepared := make([]preparedCheck, len(c.specs))
+	s := c.getScratch()
+	defer c.putScratch(s)
+	d := &s.d
+	c.resolve(a, d)
+	prepared := s.prepared
 	for i := range c.specs {
 		prepared[i] = c.prepare(d, &c.specs[i])
 	}
@@ -823,7 +829,7 @@ func (c *Checker) Check(a *Asset) *Result {
 	r.Messages = append(r.Messages, d.messages...)
 	r.DefaultsUsed = d.defaults
 	r.Derived = d.derived
-	r.rules = d.rules
+	r.rules = slices.Clone(d.rules)
 	return r
 }
 
@@ -1223,7 +1229,7 @@ func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckR
 		if math.IsNaN(mech) {
 			rt.Note = "capped by the component WLL"
 		} else {
-			rt.Note = fmt.Sprintf("capped by the component WLL; the mechanism alone would allow %.1f kg", mech)
+			rt.Note = "capped by the component WLL; the mechanism alone would allow " + strconv.FormatFloat(mech, 'f', 1, 64) + " kg"
 		}
 	}
 	return rt

@@ -437,7 +437,8 @@ func TestRatingWithNothingToMoveAtNoLoad(t *testing.T) {
 // from the other checks that ignores it.
 func TestRatingNullWhenAFailingLimitIsUnknown(t *testing.T) {
 	c := isoChecker(t)
-	d := c.resolve(winchA(t).asset())
+	d := &c.getScratch().d
+	c.resolve(winchA(t).asset(), d)
 	spec := func(id string) *checkSpec { return &checkSpec{id: id, loadDependent: true} }
 	prepared := []preparedCheck{{spec: spec("motor-torque")}, {spec: spec("gearbox-torque")}}
 	checks := []CheckResult{

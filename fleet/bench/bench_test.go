@@ -498,3 +498,21 @@ func TestRegisterFloorsAgree(t *testing.T) {
 		t.Errorf("register.NewXLSX read %d rows, want %d", got, regRows)
 	}
 }
+
+// BenchmarkCheckEach: Checker.Check on each generated hoist in turn, on one goroutine,
+// without the pipeline: the checks' own cost per hoist (ns/op is per hoist).
+func BenchmarkCheckEach(b *testing.B) {
+	c, _, _ := registers(b)
+	all := readAll(b, func() (*register.Reader, error) { return register.NewCSV(bytes.NewReader(c), "register.csv") })
+	chk := newChecker(b)
+	b.ReportAllocs()
+	i := 0
+	for b.Loop() {
+		if r := chk.Check(all[i]); r == nil {
+			b.Fatal("nil result")
+		}
+		if i++; i == len(all) {
+			i = 0
+		}
+	}
+}
