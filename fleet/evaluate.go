@@ -36,7 +36,7 @@ type Checker struct {
 	opts    Options
 	columns []templates.Column // the schema, read once
 	specs   []checkSpec        // the checks, built once
-	keys    map[string]int     // schema key → index in columns
+	keys    keyIndex           // schema key → index in columns
 	texts   sync.Map           // ruleSet → ruleText: the rule and source text of a set of rows
 	ropes   ropeCache          // rope construction text → what calc reads from it
 	dflts   sync.Map           // defaultKey → the text saying a rule default was applied
@@ -150,10 +150,12 @@ func NewChecker(opts Options) (*Checker, error) {
 	if opts.TopN <= 0 {
 		opts.TopN = 20
 	}
-	c := &Checker{opts: opts, columns: templates.Columns(), specs: checkSpecs(), keys: map[string]int{}}
+	c := &Checker{opts: opts, columns: templates.Columns(), specs: checkSpecs()}
+	keys := make([]string, len(c.columns))
 	for i, col := range c.columns {
-		c.keys[col.Key] = i
+		keys[i] = col.Key
 	}
+	c.keys = newKeyIndex(keys)
 	for i := range c.specs {
 		s := &c.specs[i]
 		s.needsAt, s.needsLayeredAt, s.usesAt = c.indices(s.needs), c.indices(s.needsLayered), c.indices(s.uses)
@@ -166,7 +168,7 @@ func NewChecker(opts Options) (*Checker, error) {
 func (c *Checker) indices(keys []string) []int {
 	out := make([]int, 0, len(keys))
 	for _, k := range keys {
-		if i, ok := c.keys[k]; ok {
+		if i, ok := c.keys.lookup(k); ok {
 			out = append(out, i)
 		}
 	}
@@ -214,13 +216,13 @@ type hoistData struct {
 
 // isMissing reports whether the field is empty in the register.
 func (d *hoistData) isMissing(key string) bool {
-	i, ok := d.c.keys[key]
+	i, ok := d.c.keys.lookup(key)
 	return ok && d.missing[i]
 }
 
 // badField returns the error of an unreadable field.
 func (d *hoistData) badField(key string) (*Error, bool) {
-	i, ok := d.c.keys[key]
+	i, ok := d.c.keys.lookup(key)
 	if !ok || d.bad[i] == nil {
 		return nil, false
 	}
@@ -229,7 +231,7 @@ func (d *hoistData) badField(key string) (*Error, bool) {
 
 // field returns the field's value without copying it; nil when absent.
 func (d *hoistData) field(key string) *Value {
-	i, ok := d.c.keys[key]
+	i, ok := d.c.keys.lookup(key)
 	if !ok {
 		return nil
 	}
@@ -373,7 +375,9 @@ func (c *Checker) resolve(a *Asset, d *hoistData) {
 		grade, okg := d.num("rope_grade")
 		if k, canon, ok := rope.k, rope.canonical, rope.kOK; ok && okg {
 			h.RopeMBFN = calc.MBFFromGrade(h.RopeDiameterM, grade, k)
-			d.missing[d.c.keys["rope_mbf"]] = false
+			if i, ok := d.c.keys.lookup("rope_mbf"); ok {
+				d.missing[i] = false
+			}
 			d.derived = append(d.derived, fmt.Sprintf("rope MBF %.1f kN from EN 12385-4: d² R K/1000 with d %g mm, R %g N/mm², K %g (%s)",
 				h.RopeMBFN/1000, h.RopeDiameterM*1000, grade, k, canon))
 		}

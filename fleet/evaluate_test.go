@@ -307,7 +307,7 @@ func TestCheckSpecKeysInSchema(t *testing.T) {
 	for _, s := range c.specs {
 		for _, list := range [][]string{s.needs, s.needsLayered, s.uses} {
 			for _, k := range list {
-				if _, ok := c.keys[k]; !ok {
+				if _, ok := c.keys.lookup(k); !ok {
 					t.Errorf("%s: field %q is not in the schema", s.id, k)
 				}
 			}
