@@ -53,19 +53,34 @@ type colSpec struct {
 	minSI     float64
 	maxSI     float64
 	enumKeys  []string // normalized col.Values
+	enumSelf  []bool   // col.Values[i] as written matches col.Values[i]
 	headerErr string   // non-empty: the column's header is unusable; every non-empty cell is Bad
 }
 
 // parse reads one cell of the column: the Value in SI for a known column and the Cell
 // as given for pass-through. asset is the row's asset id, for the error.
 func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) (fleet.Value, fleet.Cell) {
-	text := strings.TrimSpace(raw)
-	c := fleet.Cell{Text: raw}
-	v := fleet.Value{Raw: raw, Cell: ref}
+	var v fleet.Value
+	var c fleet.Cell
 	if !s.known {
-		c.IsNumber = isPlainNumber(text)
+		v.Raw, v.Cell = raw, ref
+		c.Text, c.IsNumber = raw, isPlainNumber(strings.TrimSpace(raw))
 		return v, c
 	}
+	s.fill(raw, d, ref, asset, &v, &c)
+	return v, c
+}
+
+// fill is parse for a known column, writing the Value and the Cell in place: v and c
+// must be zero (as in a new Asset's slices), and only the fields that differ from zero
+// are written.
+func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v *fleet.Value, c *fleet.Cell) {
+	v.Cell = ref
+	if raw == "" {
+		return
+	}
+	v.Raw, c.Text = raw, raw
+	text := trimSpace(raw)
 	kind := s.col.Kind
 	var num numberCell
 	switch kind {
@@ -77,16 +92,16 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 		c.IsNumber = isPlainNumber(text)
 	}
 	if text == "" {
-		return v, c
+		return
 	}
-	bad := func(k fleet.Kind, sentinel error, format string, args ...any) (fleet.Value, fleet.Cell) {
+	bad := func(k fleet.Kind, sentinel error, format string, args ...any) {
 		v.State = fleet.Bad
 		v.Err = &fleet.Error{Kind: k, Asset: asset, Cell: ref, Field: s.col.Key,
 			Err: &cellError{msg: fmt.Sprintf(format, args...), kind: sentinel}}
-		return v, c
 	}
 	if s.headerErr != "" {
-		return bad(fleet.HeaderProblem, ErrUnit, "%s", s.headerErr)
+		bad(fleet.HeaderProblem, ErrUnit, "%s", s.headerErr)
+		return
 	}
 	switch kind {
 	case templates.Number, templates.Integer:
@@ -98,36 +113,43 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 			factor = 0.01
 		}
 		if !ok {
-			return bad(fleet.Invalid, ErrNotNumber, "%q is not a number%s%s", text, s.in(), hint)
+			bad(fleet.Invalid, ErrNotNumber, "%q is not a number%s%s", text, s.in(), hint)
+			return
 		}
 		if kind == templates.Integer && x != math.Trunc(x) {
-			return bad(fleet.Invalid, ErrNotWhole, "%q is not a whole number%s", text, s.in())
+			bad(fleet.Invalid, ErrNotWhole, "%q is not a whole number%s", text, s.in())
+			return
 		}
 		si := x * factor
 		if math.IsInf(si, 0) {
-			return bad(fleet.OutOfRange, ErrOutOfRange, "%q is too large%s", text, s.in())
+			bad(fleet.OutOfRange, ErrOutOfRange, "%q is too large%s", text, s.in())
+			return
 		}
 		v.Num = si
 		if msg := s.checkRange(si); msg != "" {
-			return bad(fleet.OutOfRange, ErrOutOfRange, "%q is out of range%s: %s", text, s.in(), msg)
+			bad(fleet.OutOfRange, ErrOutOfRange, "%q is out of range%s: %s", text, s.in(), msg) // keeps its Num
+			return
 		}
 		v.State = fleet.OK
 	case templates.Date:
 		t, msg := parseDate(text, d)
 		if msg != "" {
-			return bad(fleet.Invalid, ErrNotDate, "%q is not a date: %s", text, msg)
+			bad(fleet.Invalid, ErrNotDate, "%q is not a date: %s", text, msg)
+			return
 		}
 		v.Date, v.State = t, fleet.OK
 		c.IsDate, c.Date = true, t
 	case templates.Enum:
-		if s.col.Key == "load_spectrum" {
+		if s.col.Key == "load_spectrum" && mayBeNumber(text) {
 			if _, _, ok := parseNumber(text, d); ok {
-				return bad(fleet.Invalid, ErrNotAllowed, "%q is a number: the load spectrum is a class L1 to L4; for a factor km use the Spectrum factor column", text)
+				bad(fleet.Invalid, ErrNotAllowed, "%q is a number: the load spectrum is a class L1 to L4; for a factor km use the Spectrum factor column", text)
+				return
 			}
 		}
 		val, ok := s.matchEnum(text)
 		if !ok {
-			return bad(fleet.Invalid, ErrNotAllowed, "%q is not one of %s", text, strings.Join(s.col.Values, ", "))
+			bad(fleet.Invalid, ErrNotAllowed, "%q is not one of %s", text, strings.Join(s.col.Values, ", "))
+			return
 		}
 		v.Text, v.State = val, fleet.OK
 	case templates.Bool:
@@ -137,13 +159,32 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 		case "no", "n", "false", "0":
 			v.Text = "no"
 		default:
-			return bad(fleet.Invalid, ErrNotAllowed, "%q is not yes or no", text)
+			bad(fleet.Invalid, ErrNotAllowed, "%q is not yes or no", text)
+			return
 		}
 		v.State = fleet.OK
 	default: // text
 		v.Text, v.State = text, fleet.OK
 	}
-	return v, c
+}
+
+// mayBeNumber is false for text that parseNumber cannot read in any dialect: a number
+// starts with a sign, a digit or a decimal separator.
+func mayBeNumber(text string) bool {
+	if text == "" {
+		return false
+	}
+	c := text[0]
+	return c >= '0' && c <= '9' || c == '+' || c == '-' || c == '.' || c == ','
+}
+
+// trimSpace is strings.TrimSpace, without the call for text that starts and ends with a
+// printable ASCII character (most cells).
+func trimSpace(s string) string {
+	if n := len(s); n > 0 && s[0] > ' ' && s[0] < 0x7f && s[n-1] > ' ' && s[n-1] < 0x7f {
+		return s
+	}
+	return strings.TrimSpace(s)
 }
 
 // numberCell is a number column's cell read once: whether it is written as a plain
@@ -380,7 +421,23 @@ func (s *colSpec) matchEnum(text string) (string, bool) {
 		for _, v := range s.col.Values {
 			s.enumKeys = append(s.enumKeys, units.Normalize(v))
 		}
+		s.enumSelf = make([]bool, len(s.col.Values))
+		for i, v := range s.col.Values {
+			m, ok := s.matchNormalized(v)
+			s.enumSelf[i] = ok && m == v
+		}
 	}
+	// A value written as the schema writes it (the common case) needs no normalizing.
+	for i, v := range s.col.Values {
+		if text == v && s.enumSelf[i] {
+			return v, true
+		}
+	}
+	return s.matchNormalized(text)
+}
+
+// matchNormalized is matchEnum comparing normalized text; enumKeys must be set.
+func (s *colSpec) matchNormalized(text string) (string, bool) {
 	var buf [64]byte
 	n, ok := normalizeASCII(buf[:0], text)
 	if !ok {

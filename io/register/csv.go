@@ -41,9 +41,9 @@ func NewCSV(r io.Reader, name string) (*Reader, error) {
 	if err != nil {
 		return nil, fileError(file, err)
 	}
-	cr := newCSVReader(text, sep)
+	cr := newRecords(text, byte(sep))
 	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}}
-	rec, err := cr.Read()
+	rec, err := cr.read()
 	switch {
 	case err == io.EOF:
 		return nil, fileError(file, errors.New("the file is empty: the first row must hold the column titles"))
@@ -54,7 +54,7 @@ func NewCSV(r io.Reader, name string) (*Reader, error) {
 		}
 		return nil, fileError(file, err)
 	}
-	line, _ := cr.FieldPos(0)
+	line := cr.fieldLine(0)
 	titles := decodeFields(append([]string(nil), rec...))
 	if err := rd.buildHeader(file, titles, line); err != nil {
 		return nil, fileError(file, err)
@@ -76,18 +76,9 @@ func fileError(file string, err error) error {
 	return &fleet.Error{Kind: fleet.IO, Err: fmt.Errorf("%s: %w", file, err)}
 }
 
-func newCSVReader(r io.Reader, sep rune) *csv.Reader {
-	cr := csv.NewReader(r)
-	cr.Comma = sep
-	cr.FieldsPerRecord = -1
-	cr.LazyQuotes = false
-	cr.ReuseRecord = true
-	return cr
-}
-
 // csvStream finds the encoding and the separator and returns the text as UTF-8 (except
 // Windows-1252 fields, which decodeFields converts).
-func csvStream(r io.Reader) (io.Reader, rune, error) {
+func csvStream(r io.Reader) (*bufio.Reader, rune, error) {
 	br := bufio.NewReaderSize(r, peekSize)
 	head, err := br.Peek(4)
 	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
@@ -176,25 +167,23 @@ func (e *csvSyntaxError) message() string {
 
 // csvSource yields the records after the header.
 type csvSource struct {
-	r        *csv.Reader
+	r        *records
 	n        int // fields in the header
 	row      int // spreadsheet row of the last record returned
 	lastLine int // file line on which the last record ended
-	buf      []string
 }
 
 // recordEndLine is the file line on which the record just read ends: the line its last
 // field starts on, plus the line breaks inside that (quoted) field.
-func recordEndLine(r *csv.Reader, rec []string) int {
+func recordEndLine(r *records, rec []string) int {
 	if len(rec) == 0 {
 		return 0
 	}
-	line, _ := r.FieldPos(len(rec) - 1)
-	return line + strings.Count(rec[len(rec)-1], "\n")
+	return r.fieldLine(len(rec)-1) + strings.Count(rec[len(rec)-1], "\n")
 }
 
 func (s *csvSource) next() (rawRow, error) {
-	rec, err := s.r.Read()
+	rec, err := s.r.read()
 	if err == io.EOF {
 		return rawRow{}, io.EOF
 	}
@@ -202,17 +191,18 @@ func (s *csvSource) next() (rawRow, error) {
 	if err != nil && !errors.As(err, &pe) {
 		return rawRow{}, err
 	}
-	// The record's fields are substrings of one string per record (encoding/csv), so the
-	// cells the Asset keeps cost no copy; the slice itself is the source's, reused.
-	s.buf = append(s.buf[:0], rec...)
-	cells := decodeFields(s.buf)
-	rr := rawRow{cells: cells, short: true}
+	// The record's fields are substrings of one string per record, so the cells the
+	// Asset keeps cost no copy; the slice itself is the source's, reused.
+	if !s.r.valid {
+		decodeFields(rec)
+	}
+	rr := rawRow{cells: rec, short: true}
 	var start, end int
 	if pe != nil {
 		rr.syntax = &csvSyntaxError{pe}
 		start, end = pe.StartLine, pe.Line
 	} else {
-		start, _ = s.r.FieldPos(0)
+		start = s.r.fieldLine(0)
 		end = recordEndLine(s.r, rec)
 	}
 	// Blank lines between records (encoding/csv skips them) are empty spreadsheet rows.

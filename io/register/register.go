@@ -176,7 +176,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 		return a
 	}
 	if r.idCol >= 0 && r.idCol < len(rr.cells) {
-		a.ID = strings.TrimSpace(rr.cells[r.idCol])
+		a.ID = trimSpace(rr.cells[r.idCol])
 	}
 	a.Values = fleet.NewValues()
 	readable := len(rr.cells)
@@ -187,24 +187,24 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 	}
 	for i := range r.specs {
 		s := &r.specs[i]
-		ref := fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: i + 1}
 		raw := ""
 		if i < len(rr.cells) {
 			raw = rr.cells[i]
 		}
-		if rr.syntax != nil && i >= readable {
-			if s.known {
-				a.Values[s.field] = fleet.Value{State: fleet.Bad, Cell: ref, Err: &fleet.Error{
-					Kind: fleet.Invalid, Asset: a.ID, Cell: ref, Field: s.col.Key,
-					Err: &cellError{msg: "not read: " + rr.syntax.message(), kind: ErrSyntax}}}
+		if !s.known {
+			if raw != "" {
+				a.Cells[i] = fleet.Cell{Text: raw, IsNumber: isPlainNumber(trimSpace(raw))}
 			}
 			continue
 		}
-		v, c := s.parse(raw, r.d, ref, a.ID)
-		a.Cells[i] = c
-		if s.known {
-			a.Values[s.field] = v
+		ref := fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: i + 1}
+		if rr.syntax != nil && i >= readable {
+			a.Values[s.field] = fleet.Value{State: fleet.Bad, Cell: ref, Err: &fleet.Error{
+				Kind: fleet.Invalid, Asset: a.ID, Cell: ref, Field: s.col.Key,
+				Err: &cellError{msg: "not read: " + rr.syntax.message(), kind: ErrSyntax}}}
+			continue
 		}
+		s.fill(raw, r.d, ref, a.ID, &a.Values[s.field], &a.Cells[i])
 	}
 	for _, p := range rr.merged {
 		p.Asset = a.ID

@@ -1,0 +1,252 @@
+package register
+
+// The reader's row path as it was before the per-hoist CSV speed-ups (commit dafac1f):
+// NewCSV over encoding/csv, its csvSource, Next and asset, kept verbatim under ref* names
+// (asset converting each cell with refParse, the reference conversion) as the oracle of
+// reader_diff_test.go. It is not used by the reader.
+
+import (
+	"context"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"hoistfleet/fleet"
+)
+
+// refNewCSV is NewCSV as it was.
+func refNewCSV(r io.Reader, name string) (*Reader, error) {
+	file := displayName(name)
+	text, sep, err := csvStream(r)
+	if err != nil {
+		return nil, fileError(file, err)
+	}
+	cr := refNewCSVReader(text, sep)
+	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}}
+	rec, err := cr.Read()
+	switch {
+	case err == io.EOF:
+		return nil, fileError(file, errors.New("the file is empty: the first row must hold the column titles"))
+	case err != nil:
+		var pe *csv.ParseError
+		if errors.As(err, &pe) {
+			return nil, fileError(file, fmt.Errorf("the header row cannot be read: %s", (&csvSyntaxError{pe}).message()))
+		}
+		return nil, fileError(file, err)
+	}
+	line, _ := cr.FieldPos(0)
+	titles := decodeFields(append([]string(nil), rec...))
+	if err := rd.buildHeader(file, titles, line); err != nil {
+		return nil, fileError(file, err)
+	}
+	rd.src = &refCSVSource{r: cr, n: len(titles), row: 1, lastLine: refRecordEndLine(cr, rec)}
+	return rd, nil
+}
+
+func refNewCSVReader(r io.Reader, sep rune) *csv.Reader {
+	cr := csv.NewReader(r)
+	cr.Comma = sep
+	cr.FieldsPerRecord = -1
+	cr.LazyQuotes = false
+	cr.ReuseRecord = true
+	return cr
+}
+
+// refCSVSource yields the records after the header.
+type refCSVSource struct {
+	r        *csv.Reader
+	n        int // fields in the header
+	row      int // spreadsheet row of the last record returned
+	lastLine int // file line on which the last record ended
+	buf      []string
+}
+
+// refRecordEndLine is the file line on which the record just read ends: the line its last
+// field starts on, plus the line breaks inside that (quoted) field.
+func refRecordEndLine(r *csv.Reader, rec []string) int {
+	if len(rec) == 0 {
+		return 0
+	}
+	line, _ := r.FieldPos(len(rec) - 1)
+	return line + strings.Count(rec[len(rec)-1], "\n")
+}
+
+func (s *refCSVSource) next() (rawRow, error) {
+	rec, err := s.r.Read()
+	if err == io.EOF {
+		return rawRow{}, io.EOF
+	}
+	var pe *csv.ParseError
+	if err != nil && !errors.As(err, &pe) {
+		return rawRow{}, err
+	}
+	// The record's fields are substrings of one string per record (encoding/csv), so the
+	// cells the Asset keeps cost no copy; the slice itself is the source's, reused.
+	s.buf = append(s.buf[:0], rec...)
+	cells := decodeFields(s.buf)
+	rr := rawRow{cells: cells, short: true}
+	var start, end int
+	if pe != nil {
+		rr.syntax = &csvSyntaxError{pe}
+		start, end = pe.StartLine, pe.Line
+	} else {
+		start, _ = s.r.FieldPos(0)
+		end = refRecordEndLine(s.r, rec)
+	}
+	// Blank lines between records (encoding/csv skips them) are empty spreadsheet rows.
+	blanks := max(start-s.lastLine-1, 0)
+	s.row += 1 + blanks
+	s.lastLine = end
+	rr.row = s.row
+	return rr, nil
+}
+
+func (s *refCSVSource) close() error { return nil }
+
+// refNext is Next as it was, building each Asset with refAsset.
+func (r *Reader) refNext(ctx context.Context) (*fleet.Asset, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	if r.emitN > 0 {
+		row := r.emitStart
+		r.emitStart++
+		r.emitN--
+		return r.refAsset(rawRow{row: row}), nil
+	}
+	if r.held != nil {
+		rr := *r.held
+		r.held = nil
+		return r.refAsset(rr), nil
+	}
+	if r.err != nil {
+		return nil, r.err
+	}
+	for {
+		rr, err := r.src.next()
+		if err != nil {
+			// At the end, blank rows still pending are the sheet's trailing empty rows.
+			r.err = err
+			return nil, err
+		}
+		if r.dropTrailingBlank && rr.syntax == nil && isBlank(rr.cells) {
+			if r.pendN == 0 {
+				r.pendStart = rr.row
+			}
+			r.pendN++
+			if r.pendN%4096 == 0 {
+				if err := ctx.Err(); err != nil {
+					return nil, err
+				}
+			}
+			continue
+		}
+		if r.pendN > 0 {
+			r.held = &rr
+			r.emitStart, r.emitN = r.pendStart+1, r.pendN-1
+			row := r.pendStart
+			r.pendN = 0
+			return r.refAsset(rawRow{row: row}), nil
+		}
+		return r.refAsset(rr), nil
+	}
+}
+
+// refAsset is asset as it was, converting each cell with refParse.
+func (r *Reader) refAsset(rr rawRow) *fleet.Asset {
+	n := len(r.specs)
+	a := &fleet.Asset{Index: r.index, Row: rr.row, Cells: make([]fleet.Cell, n)}
+	r.index++
+	rowRef := fleet.CellRef{Sheet: r.sheet, Row: rr.row}
+	if rr.syntax == nil && isBlank(rr.cells) {
+		a.Blank = true
+		for i := range a.Cells {
+			if i < len(rr.cells) {
+				a.Cells[i].Text = rr.cells[i]
+			}
+		}
+		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Shape, Cell: rowRef,
+			Err: fmt.Errorf("row %d is empty", rr.row)})
+		return a
+	}
+	if r.idCol >= 0 && r.idCol < len(rr.cells) {
+		a.ID = strings.TrimSpace(rr.cells[r.idCol])
+	}
+	a.Values = fleet.NewValues()
+	readable := len(rr.cells)
+	if rr.syntax != nil {
+		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Invalid, Asset: a.ID,
+			Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: min(readable+1, max(n, 1))},
+			Err:  &cellError{msg: rr.syntax.message(), kind: ErrSyntax}})
+	}
+	for i := range r.specs {
+		s := &r.specs[i]
+		ref := fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: i + 1}
+		raw := ""
+		if i < len(rr.cells) {
+			raw = rr.cells[i]
+		}
+		if rr.syntax != nil && i >= readable {
+			if s.known {
+				a.Values[s.field] = fleet.Value{State: fleet.Bad, Cell: ref, Err: &fleet.Error{
+					Kind: fleet.Invalid, Asset: a.ID, Cell: ref, Field: s.col.Key,
+					Err: &cellError{msg: "not read: " + rr.syntax.message(), kind: ErrSyntax}}}
+			}
+			continue
+		}
+		v, c := s.refParse(raw, r.d, ref, a.ID)
+		a.Cells[i] = c
+		if s.known {
+			a.Values[s.field] = v
+		}
+	}
+	for _, p := range rr.merged {
+		p.Asset = a.ID
+		a.Problems = append(a.Problems, p)
+	}
+	// Shape: a CSV record with another number of fields than the header; an XLSX row
+	// with values beyond the header's last column.
+	if rr.syntax == nil {
+		switch {
+		case len(rr.cells) > n && !isBlank(rr.cells[n:]):
+			extra := rr.cells[n:]
+			var shown []string
+			for j, c := range extra {
+				if strings.TrimSpace(c) != "" && len(shown) < 3 {
+					shown = append(shown, fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: n + j + 1}.String()+" "+strconv.Quote(c))
+				}
+			}
+			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Shape, Asset: a.ID,
+				Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: n + 1},
+				Err: fmt.Errorf("row has %d cells, the header %d: cells beyond the header's last column are not read and not passed through (%s)",
+					len(rr.cells), n, strings.Join(shown, ", "))})
+		case len(rr.cells) > n && rr.short:
+			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Shape, Asset: a.ID, Cell: rowRef,
+				Err: fmt.Errorf("row has %d cells, the header %d (the extra cells are empty)", len(rr.cells), n)})
+		case len(rr.cells) < n && rr.short:
+			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Shape, Asset: a.ID, Cell: rowRef,
+				Err: fmt.Errorf("row has %d cells, the header %d: the missing cells are read as empty", len(rr.cells), n)})
+		}
+	}
+	// Identity.
+	switch {
+	case r.idCol < 0:
+		// Reported once in the header.
+	case a.ID == "":
+		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Missing, Field: "asset_id",
+			Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
+			Err:  fmt.Errorf("the asset id is missing")})
+	default:
+		if first, dup := r.ids[a.ID]; dup {
+			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Duplicate, Asset: a.ID, Field: "asset_id",
+				Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
+				Err:  fmt.Errorf("asset id %q is already used in row %d", a.ID, first)})
+		} else {
+			r.ids[strings.Clone(a.ID)] = rr.row // a clone: the id is a substring of the whole record, which the map would keep alive
+		}
+	}
+	return a
+}
