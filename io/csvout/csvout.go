@@ -63,7 +63,8 @@ const flushAt = 64 << 10
 //
 // A hoist's records are built in one buffer and handed to the underlying writer in
 // blocks of about 64 KiB. The text of check ids, units, rules, sources, sites and
-// numbers that repeat from record to record is encoded once and copied after that.
+// figure names that repeat from record to record is encoded once and copied after that;
+// numbers are formatted by outbuf.AppendShortest.
 //
 // Writer is also a fleet.Preparer: the pipeline's workers encode each hoist's records
 // (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
@@ -92,19 +93,18 @@ type encoder struct {
 	fixedSpecial bool
 	status       [6]string // encoded status words, by fleet.Status
 	texts        textCache
-	site, gov    memo       // the last site and governing check written
-	memos        [][4]memo  // by check index: the last id, unit, rule and source
-	messages     []freeMemo // by check index: the last message
-	clean        [][]string // by check and figure index: the last name without special bytes
-	nums         *numCache
-	pre          []byte // the hoist-level fields of the current hoist, reused
-	tmp          []byte // scratch, reused
+	site, gov    memo        // the last site and governing check written
+	memos        [][4]memo   // by check index: the last id, unit, rule and source
+	messages     []freeMemo  // by check index: the last message
+	figNames     [][]figName // by check and figure index: the last figure name
+	pre          []byte      // the hoist-level fields of the current hoist, reused
+	tmp          []byte      // scratch, reused
 }
 
 // clone returns an encoder with e's configuration and empty caches.
 func (e *encoder) clone() *encoder {
 	return &encoder{opts: e.opts, proposed: e.proposed, fc: e.fc, comma1: e.comma1,
-		fixedSpecial: e.fixedSpecial, status: e.status, nums: new(numCache)}
+		fixedSpecial: e.fixedSpecial, status: e.status}
 }
 
 // New returns a Writer writing to w. Output is buffered: End flushes it.
@@ -130,7 +130,7 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 		w.err = fmt.Errorf("csvout: invalid separator %q", w.opts.Comma)
 		return w.err
 	}
-	e := &encoder{opts: w.opts, fc: newFieldCoder(w.opts.Comma), nums: new(numCache)}
+	e := &encoder{opts: w.opts, fc: newFieldCoder(w.opts.Comma)}
 	if w.opts.Comma < utf8.RuneSelf {
 		e.comma1 = byte(w.opts.Comma)
 	}
@@ -212,7 +212,7 @@ func (e *encoder) encode(b []byte, r *fleet.Result) []byte {
 	for len(e.memos) < len(r.Checks) {
 		e.memos = append(e.memos, [4]memo{})
 		e.messages = append(e.messages, freeMemo{})
-		e.clean = append(e.clean, nil)
+		e.figNames = append(e.figNames, nil)
 	}
 	for i := range r.Checks {
 		b = e.check(b, r, i)
@@ -236,7 +236,7 @@ func (e *encoder) hoist(b []byte, r *fleet.Result) []byte {
 	b = e.sep(b)
 	b = e.texts.appendText(&e.fc, &e.gov, b, r.GoverningCheck)
 	b = e.sep(b)
-	b = e.nums.appendNum(b, r.MaxRatedLoadKg)
+	b = appendNum(b, r.MaxRatedLoadKg)
 	return e.sep(b)
 }
 
@@ -273,17 +273,17 @@ func (e *encoder) check(b []byte, r *fleet.Result, i int) []byte {
 	b = e.sep(b)
 	b = e.appendStatus(b, c.Status)
 	b = e.sep(b)
-	b = e.nums.appendNum(b, c.Demand)
+	b = appendNum(b, c.Demand)
 	b = e.sep(b)
-	b = e.nums.appendNum(b, c.Capacity)
+	b = appendNum(b, c.Capacity)
 	b = e.sep(b)
 	b = e.texts.appendText(&e.fc, &m[1], b, c.Unit)
 	b = e.sep(b)
-	b = e.nums.appendNum(b, c.Utilisation)
+	b = appendNum(b, c.Utilisation)
 	b = e.sep(b)
-	b = e.nums.appendNum(b, c.Margin)
+	b = appendNum(b, c.Margin)
 	b = e.sep(b)
-	b = e.nums.appendNum(b, c.LimitRatedLoadKg)
+	b = appendNum(b, c.LimitRatedLoadKg)
 	b = e.sep(b)
 	b = e.texts.appendText(&e.fc, &m[2], b, c.Rule)
 	b = e.sep(b)
@@ -300,7 +300,7 @@ func (e *encoder) check(b []byte, r *fleet.Result, i int) []byte {
 			if pc := p.Check(c.ID); pc != nil {
 				b = e.appendStatus(b, pc.Status)
 				b = e.sep(b)
-				b = e.nums.appendNum(b, pc.Utilisation)
+				b = appendNum(b, pc.Utilisation)
 			} else {
 				b = e.sep(b)
 			}
@@ -320,25 +320,18 @@ func (e *encoder) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
 	}
 	start := len(b)
 	special := e.fixedSpecial
-	clean := e.clean[ci]
-	for len(clean) < len(c.Figures) {
-		clean = append(clean, "")
+	names := e.figNames[ci]
+	for len(names) < len(c.Figures) {
+		names = append(names, figName{})
 	}
-	e.clean[ci] = clean
+	e.figNames[ci] = names
 	for i := range c.Figures {
-		f := &c.Figures[i]
-		if i > 0 {
-			b = append(b, "; "...)
+		f, fn := &c.Figures[i], &names[i]
+		if f.Name != fn.name || len(fn.before) == 0 {
+			fn.set(&e.fc, f.Name, i == 0)
 		}
-		b = append(b, f.Name...)
-		b = append(b, '=')
-		if f.Name != clean[i] {
-			if hasSpecial(&e.fc, f.Name) {
-				special = true
-			} else {
-				clean[i] = f.Name
-			}
-		}
+		b = append(b, fn.before...)
+		special = special || fn.special
 		switch {
 		case f.Text != "":
 			b = append(b, f.Text...)
@@ -346,7 +339,7 @@ func (e *encoder) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
 		case math.IsNaN(f.Value) || math.IsInf(f.Value, 0):
 			b = append(b, "n/a"...)
 		default:
-			b = e.nums.appendG(b, f.Value)
+			b = appendG(b, f.Value)
 		}
 	}
 	if c0 := b[start]; !special && c0 != ' ' && !isGuardByte(c0) {
@@ -354,6 +347,24 @@ func (e *encoder) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
 	}
 	e.tmp = append(e.tmp[:0], b[start:]...)
 	return appendText(&e.fc, b[:start], e.tmp)
+}
+
+// figName is the last figure name written in one place of the figures field and the
+// bytes that go before the figure's value: "; name=" ("name=" for the first figure).
+type figName struct {
+	name    string
+	before  []byte
+	special bool // name holds a byte that forces quoting
+}
+
+// set makes fn remember name.
+func (fn *figName) set(fc *fieldCoder, name string, first bool) {
+	fn.before = fn.before[:0]
+	if !first {
+		fn.before = append(fn.before, "; "...)
+	}
+	fn.before = append(append(fn.before, name...), '=')
+	fn.name, fn.special = name, hasSpecial(fc, name)
 }
 
 // appendStatus appends a status word.

@@ -6,6 +6,7 @@ import (
 	"testing"
 	"unicode/utf8"
 
+	"hoistfleet/calc"
 	"hoistfleet/fleet"
 	"hoistfleet/io/sinktest"
 )
@@ -123,5 +124,38 @@ func TestSameAsReferenceRegisters(t *testing.T) {
 				})
 			}
 		}
+	}
+}
+
+// TestSameAsReferenceFigureNames writes hoists whose figure names change in one place
+// of the figures field from hoist to hoist: clean, needing quotes, starting with a guard
+// byte, empty, and back, with a first figure and later ones, in every dialect.
+func TestSameAsReferenceFigureNames(t *testing.T) {
+	names := [][]string{
+		{"rope_tension_n", "drum_ratio"},
+		{"a,b", "drum_ratio"},
+		{"rope_tension_n", "q\"uote"},
+		{"=sum", ""},
+		{"", "line\nbreak"},
+		{"rope_tension_n", "drum_ratio"},
+		{"rope_tension_n", "drum_ratio", "radius_m"},
+		{"rope_tension_n"},
+		{"tab\tname", "é;€"},
+		{"rope_tension_n", "drum_ratio"},
+	}
+	var rs []*fleet.Result
+	for i, ns := range names {
+		c := fleet.CheckResult{ID: "rope-design-factor", Status: fleet.StatusPass, Demand: 5, Capacity: 6.25, Utilisation: 0.8}
+		for j, n := range ns {
+			c.Figures = append(c.Figures, calc.Figure{Name: n, Value: float64(i) + float64(j)/3})
+		}
+		rs = append(rs, &fleet.Result{Asset: &fleet.Asset{Row: i + 2, ID: fmt.Sprint("H-", i)},
+			Evaluation: fleet.Evaluation{Status: fleet.StatusPass, Checks: []fleet.CheckResult{c, c}}})
+	}
+	for _, o := range dialects {
+		t.Run(dialectName(o), func(t *testing.T) {
+			got, want := writeBoth(t, o, &fleet.Header{}, &fleet.RunInfo{}, rs)
+			sameBytes(t, got, want)
+		})
 	}
 }

@@ -2,7 +2,6 @@ package csvout
 
 import (
 	"math"
-	"strconv"
 
 	"hoistfleet/fleet"
 	"hoistfleet/io/outbuf"
@@ -17,15 +16,8 @@ func appendNum(b []byte, f float64) []byte {
 	return appendG(b, f)
 }
 
-// appendG appends f as strconv.AppendFloat(b, f, 'g', -1, 64) does, with a fast path for
-// whole numbers below 1e6 in magnitude: 'g' writes those without an exponent or a
-// point, exactly as strconv.AppendInt does (except -0, which 'g' writes as "-0").
-func appendG(b []byte, f float64) []byte {
-	if f == math.Trunc(f) && f > -1e6 && f < 1e6 && (f != 0 || !math.Signbit(f)) {
-		return strconv.AppendInt(b, int64(f), 10)
-	}
-	return strconv.AppendFloat(b, f, 'g', -1, 64)
-}
+// appendG appends f as strconv.AppendFloat(b, f, 'g', -1, 64) does.
+func appendG(b []byte, f float64) []byte { return outbuf.AppendShortest(b, f, 'g') }
 
 // AppendFigures appends c's figures as "name=value; name=value": numbers in shortest
 // round-trip form (NaN and ±Inf as "n/a"), text figures as written.
@@ -46,19 +38,4 @@ func AppendFigures(b []byte, c *fleet.CheckResult) []byte {
 		}
 	}
 	return b
-}
-
-// numCache is outbuf.NumCache formatting as appendG does.
-type numCache struct{ outbuf.NumCache }
-
-// appendG appends f as the package-level appendG does, remembering the result. f must
-// be finite.
-func (c *numCache) appendG(b []byte, f float64) []byte { return c.Append(b, f, appendG) }
-
-// appendNum is the package-level appendNum through the cache.
-func (c *numCache) appendNum(b []byte, f float64) []byte {
-	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return b
-	}
-	return c.appendG(b, f)
 }

@@ -6,11 +6,13 @@ import (
 	"strconv"
 	"testing"
 
+	"hoistfleet/io/outbuf"
 	"hoistfleet/io/sinktest"
 )
 
-// TestAppendGMatchesStrconv: the fast path for whole numbers and the number cache write
-// what strconv.AppendFloat(f, 'g', -1, 64) writes, for edge values and random ones.
+// TestAppendGMatchesStrconv: appendG (outbuf.AppendShortest) writes what
+// strconv.AppendFloat(f, 'g', -1, 64) writes, for edge values and random ones, after
+// what is already in the buffer; appendNum writes nothing for NaN and infinities.
 func TestAppendGMatchesStrconv(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	vals := append([]float64{}, sinktest.EdgeFloats...)
@@ -18,30 +20,25 @@ func TestAppendGMatchesStrconv(t *testing.T) {
 	for range 200_000 {
 		vals = append(vals, sinktest.RandFloat(rng))
 	}
-	var c numCache
-	for pass := range 2 { // the second pass reads most numbers from the cache
-		for _, f := range vals {
-			if math.IsNaN(f) || math.IsInf(f, 0) {
-				if got := appendNum(nil, f); len(got) != 0 {
-					t.Fatalf("appendNum(%v) = %q, want nothing", f, got)
-				}
-				if got := c.appendNum(nil, f); len(got) != 0 {
-					t.Fatalf("numCache.appendNum(%v) = %q, want nothing", f, got)
-				}
-				continue
+	for _, f := range vals {
+		if math.IsNaN(f) || math.IsInf(f, 0) {
+			if got := appendNum([]byte("x"), f); string(got) != "x" {
+				t.Fatalf("appendNum(%v) = %q, want nothing", f, got)
 			}
-			want := strconv.FormatFloat(f, 'g', -1, 64)
-			if got := string(appendG(nil, f)); got != want {
-				t.Fatalf("appendG(%b) = %s, strconv %s", f, got, want)
-			}
-			if got := string(c.appendNum([]byte("x"), f)); got != "x"+want {
-				t.Fatalf("pass %d: numCache.appendNum(%b) = %s, want x%s", pass, f, got, want)
-			}
+			continue
+		}
+		want := strconv.FormatFloat(f, 'g', -1, 64)
+		if got := string(appendG(nil, f)); got != want {
+			t.Fatalf("appendG(%b) = %s, strconv %s", f, got, want)
+		}
+		if got := string(appendNum([]byte("x"), f)); got != "x"+want {
+			t.Fatalf("appendNum(%b) = %s, want x%s", f, got, want)
 		}
 	}
 }
 
-// BenchmarkAppendNum formats the numbers of real results, through the cache and not.
+// BenchmarkAppendNum formats the numbers of real results: as the previous writer did
+// (strconv), with outbuf.AppendShortest, and through outbuf.NumCache.
 func BenchmarkAppendNum(b *testing.B) {
 	_, rs := sinktest.BenchResults(b)
 	var vals []float64
@@ -62,11 +59,21 @@ func BenchmarkAppendNum(b *testing.B) {
 		}
 		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(vals)), "ns/number")
 	})
-	b.Run("cache", func(b *testing.B) {
-		c := new(numCache)
+	b.Run("shortest", func(b *testing.B) {
 		for b.Loop() {
 			for _, f := range vals {
-				buf = c.appendNum(buf[:0], f)
+				buf = appendNum(buf[:0], f)
+			}
+		}
+		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(vals)), "ns/number")
+	})
+	b.Run("cache", func(b *testing.B) {
+		c := new(outbuf.NumCache)
+		for b.Loop() {
+			for _, f := range vals {
+				if !math.IsNaN(f) && !math.IsInf(f, 0) {
+					buf = c.Append(buf[:0], f, appendG)
+				}
 			}
 		}
 		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(vals)), "ns/number")

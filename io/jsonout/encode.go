@@ -82,23 +82,16 @@ func AppendNumber(b []byte, f float64) []byte {
 	if math.IsNaN(f) || math.IsInf(f, 0) {
 		return append(b, "null"...)
 	}
-	// A whole number below 2⁵³ is its own shortest representation: its digits.
-	if f == math.Trunc(f) && f > -1e15 && f < 1e15 && (f != 0 || !math.Signbit(f)) {
-		return strconv.AppendInt(b, int64(f), 10)
+	if abs := math.Abs(f); abs == 0 || abs >= 1e-6 && abs < 1e21 {
+		// No exponent; a whole number below 10¹⁵ is its digits (outbuf.AppendShortest).
+		return outbuf.AppendShortest(b, f, 'f')
 	}
-	abs := math.Abs(f)
-	format := byte('f')
-	if abs != 0 && (abs < 1e-6 || abs >= 1e21) {
-		format = 'e'
-	}
-	b = strconv.AppendFloat(b, f, format, -1, 64)
-	if format == 'e' {
-		// clean up e-09 to e-9, as encoding/json does
-		n := len(b)
-		if n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
-			b[n-2] = b[n-1]
-			b = b[:n-1]
-		}
+	b = strconv.AppendFloat(b, f, 'e', -1, 64)
+	// clean up e-09 to e-9, as encoding/json does
+	n := len(b)
+	if n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
+		b[n-2] = b[n-1]
+		b = b[:n-1]
 	}
 	return b
 }

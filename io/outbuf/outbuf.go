@@ -1,6 +1,7 @@
 // Package outbuf holds what the streaming result writers (io/csvout, io/jsonout) share:
-// encodings prepared in the pipeline's workers and recycled once written, a cache of
-// formatted numbers, and a complete write of a block of output.
+// encodings prepared in the pipeline's workers and recycled once written, the shortest
+// form of a float64 (AppendShortest, what strconv writes, faster for the numbers of a
+// result), a cache of formatted numbers, and a complete write of a block of output.
 package outbuf
 
 import (
