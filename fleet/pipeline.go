@@ -41,6 +41,10 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		}
 	}
 	useCounts := make([]int, len(opts.Rules.Rules)) // uses of each rule row, by index
+	var recycler Recycler
+	if f, ok := sink.(Forgetter); ok && f.ForgetsResults() {
+		recycler, _ = src.(Recycler)
+	}
 
 	g, ctx := errgroup.WithContext(ctx)
 	slots := make(chan struct{}, buffer) // a slot is held from read until written
@@ -117,6 +121,9 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 				p.rules = nil
 				if progress != nil {
 					progress.Add(1)
+				}
+				if recycler != nil {
+					recycler.Recycle(p.Asset)
 				}
 				<-slots
 			}

@@ -34,6 +34,23 @@ type Preparer interface {
 	Prepare(r *Result)
 }
 
+// Recycler is implemented by a Source that can reuse the memory of an Asset it returned
+// (the Asset, its Values and Cells) for a later row, so that a long run does not
+// allocate and clear that memory afresh for every hoist. Run hands an Asset back only
+// when the Sink is a Forgetter that forgets results, after writing its Result and adding
+// it to the summary; strings are never reused, so any string taken from an Asset stays
+// valid. Recycle is called from another goroutine than Next.
+type Recycler interface {
+	Recycle(a *Asset)
+}
+
+// Forgetter is implemented by a Sink that may say it keeps nothing of a Result once Write
+// has returned: no pointer to the Result, its Asset, or the Asset's Values, Cells or
+// Problems (strings copied out of them are fine). Only then does Run recycle Assets.
+type Forgetter interface {
+	ForgetsResults() bool
+}
+
 // RuleUse is one rule row in force, as the audit sheet lists it.
 type RuleUse struct {
 	ID         string

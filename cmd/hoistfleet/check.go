@@ -393,6 +393,12 @@ func (s *hashingSink) Prepare(r *fleet.Result) {
 	}
 }
 
+// ForgetsResults passes on whether the wrapped sink keeps results (fleet.Forgetter).
+func (s *hashingSink) ForgetsResults() bool {
+	f, ok := s.Sink.(fleet.Forgetter)
+	return ok && f.ForgetsResults()
+}
+
 func (s *hashingSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
 	if s.in.file != nil {
 		// Read whatever the reader left unread (XLSX readers read all; CSV stops at EOF).

@@ -69,10 +69,11 @@ type Reader struct {
 	d      dialect
 	src    rowSource
 	sheet  string
-	known  int            // columns the schema knows: the fields of every row
-	idCol  int            // index of the asset id column, -1 when absent
-	ids    map[string]int // asset id → row where first seen
-	index  int            // next Asset.Index
+	known  int               // columns the schema knows: the fields of every row
+	idCol  int               // index of the asset id column, -1 when absent
+	ids    map[string]int    // asset id → row where first seen
+	index  int               // next Asset.Index
+	free   chan *fleet.Asset // Assets handed back by Recycle, to be reused
 
 	// XLSX: trailing blank rows are dropped; a run of blank rows is held back until a
 	// non-blank row shows it is not trailing.
@@ -83,7 +84,51 @@ type Reader struct {
 	err               error   // sticky: io.EOF or a read error
 }
 
-var _ fleet.Source = (*Reader)(nil)
+var (
+	_ fleet.Source   = (*Reader)(nil)
+	_ fleet.Recycler = (*Reader)(nil)
+)
+
+// recycleDepth is how many handed-back Assets a Reader keeps for reuse: enough for the
+// results in flight in fleet.Run's reorder buffer on a small machine; more are dropped.
+const recycleDepth = 256
+
+// Recycle takes back an Asset this Reader returned, whose memory (the Asset, its Values
+// and Cells) a later row may then reuse; the caller must hold no reference to them. It
+// is safe to call from another goroutine than Next (fleet.Recycler).
+func (r *Reader) Recycle(a *fleet.Asset) {
+	if a == nil {
+		return
+	}
+	select {
+	case r.free <- a:
+	default: // full: let the collector have it
+	}
+}
+
+// newAsset returns a zeroed Asset with n Cells, reusing a recycled one when there is one.
+// Its Values, when reused, come back in values (cleared), for a row that has values.
+func (r *Reader) newAsset(n int) (a *fleet.Asset, values []fleet.Value) {
+	select {
+	case old := <-r.free:
+		cells, vals := old.Cells, old.Values
+		if cap(cells) >= n {
+			cells = cells[:n]
+			clear(cells)
+		} else {
+			cells = make([]fleet.Cell, n)
+		}
+		if len(vals) == templates.ColumnCount() {
+			clear(vals)
+		} else {
+			vals = nil
+		}
+		*old = fleet.Asset{Cells: cells}
+		return old, vals
+	default:
+		return &fleet.Asset{Cells: make([]fleet.Cell, n)}, nil
+	}
+}
 
 // Header returns the register's header as read.
 func (r *Reader) Header() *fleet.Header { return r.header }
@@ -161,7 +206,8 @@ func isBlank(cells []string) bool {
 // asset builds the Asset of one row.
 func (r *Reader) asset(rr rawRow) *fleet.Asset {
 	n := len(r.specs)
-	a := &fleet.Asset{Index: r.index, Row: rr.row, Cells: make([]fleet.Cell, n)}
+	a, values := r.newAsset(n)
+	a.Index, a.Row = r.index, rr.row
 	r.index++
 	rowRef := fleet.CellRef{Sheet: r.sheet, Row: rr.row}
 	if rr.syntax == nil && isBlank(rr.cells) {
@@ -178,7 +224,10 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 	if r.idCol >= 0 && r.idCol < len(rr.cells) {
 		a.ID = trimSpace(rr.cells[r.idCol])
 	}
-	a.Values = fleet.NewValues()
+	a.Values = values
+	if a.Values == nil {
+		a.Values = fleet.NewValues()
+	}
 	readable := len(rr.cells)
 	if rr.syntax != nil {
 		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Invalid, Asset: a.ID,
@@ -259,6 +308,7 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	r.header = &fleet.Header{File: file, Sheet: r.sheet}
 	r.idCol = -1
 	r.ids = make(map[string]int)
+	r.free = make(chan *fleet.Asset, recycleDepth)
 	if isBlank(titles) {
 		return fmt.Errorf("row %d, the header row, is empty: the first row must hold the column titles", row)
 	}
