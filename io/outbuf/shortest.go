@@ -12,6 +12,10 @@ import (
 // 'e', 'f' or 'g': the shortest decimal that reads back as f. It finds the digits itself
 // for the numbers a result mostly holds (magnitudes from 1e-3 to below 1e15) and leaves
 // the rest to strconv.
+//
+// Unlike strconv, it may write up to 40 bytes into b's spare capacity beyond what it
+// appends (it lays digits out eight bytes at a time): b must not share that room with
+// anything live.
 func AppendShortest(b []byte, f float64, format byte) []byte {
 	if f == math.Trunc(f) && f > -1e15 && f < 1e15 && (f != 0 || !math.Signbit(f)) &&
 		(format == 'f' || format == 'g' && f > -1e6 && f < 1e6) {
