@@ -77,19 +77,25 @@ func TestGoldenDumps(t *testing.T) {
 				writeGz(t, file, got)
 				return
 			}
-			want := readGz(t, file)
-			if got == want {
-				return
-			}
-			g, w := strings.Split(got, "\n"), strings.Split(want, "\n")
-			for i := range min(len(g), len(w)) {
-				if g[i] != w[i] {
-					t.Fatalf("line %d differs:\n got  %s\n want %s", i+1, g[i], w[i])
-				}
-			}
-			t.Fatalf("%d lines, want %d", len(g), len(w))
+			sameDump(t, got, readGz(t, file), "")
 		})
 	}
+}
+
+// sameDump fails the test at the first line where two dumps differ (how says in what
+// circumstance the first was made).
+func sameDump(t testing.TB, got, want, how string) {
+	t.Helper()
+	if got == want {
+		return
+	}
+	g, w := strings.Split(got, "\n"), strings.Split(want, "\n")
+	for i := range min(len(g), len(w)) {
+		if g[i] != w[i] {
+			t.Fatalf("line %d differs%s:\n got  %s\n want %s", i+1, how, g[i], w[i])
+		}
+	}
+	t.Fatalf("%d lines%s, want %d", len(g), how, len(w))
 }
 
 // TestRecycledAssetsMatchGolden: Assets built in recycled memory (each handed back as
@@ -98,17 +104,7 @@ func TestGoldenDumps(t *testing.T) {
 func TestRecycledAssetsMatchGolden(t *testing.T) {
 	for name, in := range goldenInputs(t) {
 		t.Run(name, func(t *testing.T) {
-			got, want := dumpRegisterWith(t, name, in, true), dumpRegister(t, name, in)
-			if got == want {
-				return
-			}
-			g, w := strings.Split(got, "\n"), strings.Split(want, "\n")
-			for i := range min(len(g), len(w)) {
-				if g[i] != w[i] {
-					t.Fatalf("line %d differs with recycling:\n got  %s\n want %s", i+1, g[i], w[i])
-				}
-			}
-			t.Fatalf("%d lines with recycling, want %d", len(g), len(w))
+			sameDump(t, dumpRegisterWith(t, name, in, true), dumpRegister(t, name, in), " with recycling")
 		})
 	}
 }
