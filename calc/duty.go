@@ -128,6 +128,9 @@ var femClasses = [...]string{"1Dm", "1Cm", "1Bm", "1Am", "2m", "3m", "4m", "5m"}
 // Case, surrounding space and space between the parts are ignored ("m5", " M 5 ",
 // "1am"). group is 1…8; fem reports an FEM class; ok is false for anything else.
 func ParseDutyGroup(s string) (group int, fem bool, ok bool) {
+	if len(s) == 2 && (s[0] == 'M' || s[0] == 'm') && s[1] >= '1' && s[1] <= '8' {
+		return int(s[1] - '0'), false, true // the common "M5", without building a string
+	}
 	t := strings.ToLower(strings.Join(strings.Fields(s), ""))
 	if t == "" {
 		return 0, false, false

@@ -61,6 +61,7 @@ func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outco
 	toDue := max(0, lifeDaysBetween(a, next))
 	u := float64(since) / float64(interval)
 
+	nextISO := lifeISO(next)
 	o := Outcome{
 		Demand:      float64(since),
 		Capacity:    float64(interval),
@@ -68,7 +69,7 @@ func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outco
 		Utilisation: u,
 		Verdict:     ByUtilisation,
 		Figures: []Figure{
-			{Name: "next_due", Value: math.NaN(), Text: lifeISO(next)},
+			{Name: "next_due", Value: math.NaN(), Text: nextISO},
 			{Name: "days_overdue", Value: float64(overdue), Unit: "d"},
 			{Name: "days_to_due", Value: float64(toDue), Unit: "d"},
 			{Name: "days_since_last", Value: float64(since), Unit: "d"},
@@ -84,9 +85,9 @@ func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outco
 		}
 	}
 	if overdue > 0 {
-		o.Note = "periodic inspection overdue by " + strconv.Itoa(overdue) + " days (due " + lifeISO(next) + ")"
+		o.Note = "periodic inspection overdue by " + strconv.Itoa(overdue) + " days (due " + nextISO + ")"
 	} else {
-		o.Note = "next periodic inspection due " + lifeISO(next)
+		o.Note = "next periodic inspection due " + nextISO
 	}
 	return o, nil
 }

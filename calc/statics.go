@@ -336,7 +336,8 @@ func MotorTorque(h Hoist) (Outcome, error) {
 	e := float64(h.RopeEnds)
 	i, etaG := h.GearRatio, h.GearEff
 	best, bestIdx, bestR := -1.0, 0, 0.0
-	for k, r := range h.Radii() {
+	radii, nr := h.radii()
+	for k, r := range radii[:nr] {
 		lbl := stRadiusLabel(k)
 		md := e * f * r
 		mm := md / (i * etaG)
@@ -443,7 +444,8 @@ func MotorPower(h Hoist) (Outcome, error) {
 	}
 	r1 := h.FirstLayerRadiusM()
 	best, bestIdx, bestV := -1.0, 0, 0.0
-	for k, r := range h.Radii() {
+	radii, nr := h.radii()
+	for k, r := range radii[:nr] {
 		lbl := stRadiusLabel(k)
 		vr := v * r / r1
 		p := w * vr / etaH
@@ -606,7 +608,8 @@ func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
 	steps = append(steps, stRadiusSteps(h)...)
 	e := float64(h.RopeEnds)
 	best, bestIdx, bestR := -1.0, 0, 0.0
-	for k, r := range h.Radii() {
+	radii, nr := h.radii()
+	for k, r := range radii[:nr] {
 		lbl := stRadiusLabel(k)
 		md := e * f * r
 		mh := md

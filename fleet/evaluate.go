@@ -208,10 +208,19 @@ type hoistData struct {
 	derived  []string
 	messages []string
 	rules    []int // rows of the rule table used (indices into Rules.Rules, for the audit counts)
+	rowBuf   []int // the rows one check's prepare used, read before the next check's prepare
 	// closedLimit is handed from a check's prepare to its preparedCheck: the limiting
 	// rated load in closed form, when the check has one.
 	closedLimit func(h calc.Hoist) float64
 	c           *Checker
+}
+
+// usedRows returns rows in d's reusable buffer: a check's prepare returns the rule rows
+// it used this way, without a fresh slice per check and hoist. The caller reads them
+// before the next prepare overwrites them.
+func (d *hoistData) usedRows(rows ...int) []int {
+	d.rowBuf = append(d.rowBuf[:0], rows...)
+	return d.rowBuf
 }
 
 // isMissing reports whether the field is empty in the register.
@@ -562,7 +571,7 @@ func baseCheckSpecs() []checkSpec {
 					return nil, nil, err
 				}
 				static := basis == "static"
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, z, static) }, []int{rz, rb}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, z, static) }, d.usedRows(rz, rb), nil
 			}},
 		{id: "drum-ratio", needs: []string{"drum_diameter", "rope_diameter"}, uses: []string{"duty_group"}, nullsRating: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -570,7 +579,7 @@ func baseCheckSpecs() []checkSpec {
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumRatio(h, h1) }, []int{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumRatio(h, h1) }, d.usedRows(r), nil
 			}},
 		{id: "sheave-ratio", needs: []string{"sheave_diameter", "rope_diameter"}, uses: []string{"duty_group"}, nullsRating: true,
 			applicable: func(d *hoistData) (bool, string) {
@@ -584,7 +593,7 @@ func baseCheckSpecs() []checkSpec {
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.SheaveRatio(h, h2) }, []int{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.SheaveRatio(h, h2) }, d.usedRows(r), nil
 			}},
 		{id: "drum-capacity", needs: []string{"drum_diameter", "rope_diameter", "lift_height", "drum_grooves"}, uses: []string{"parts_of_line", "rope_ends", "rope_layers"}, nullsRating: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -592,7 +601,7 @@ func baseCheckSpecs() []checkSpec {
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumCapacity(h, w) }, []int{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumCapacity(h, w) }, d.usedRows(r), nil
 			}},
 		{id: "fleet-angle", needs: []string{"fleet_angle"}, uses: []string{"drum_grooved"}, nullsRating: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -608,7 +617,7 @@ func baseCheckSpecs() []checkSpec {
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, []int{r1, r2}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, d.usedRows(r1, r2), nil
 			}},
 		{id: "motor-torque", rule: "steady hoisting torque ≤ rated motor torque M_r = P / ω_m", source: "motor rating from the register; statics of the drive train (textbook)", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), uses: driveUses, loadDependent: true, linear: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -624,7 +633,7 @@ func baseCheckSpecs() []checkSpec {
 				if err != nil {
 					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, tol) }, []int{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, tol) }, d.usedRows(r), nil
 			}},
 		{id: "motor-accel-torque", rule: "accelerating torque ≤ peak motor torque p M_r", source: "Newton's second law for load, drum and rotor; peak torque ratio from the register or the rule default", needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), uses: driveUses, loadDependent: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -653,7 +662,7 @@ func baseCheckSpecs() []checkSpec {
 					return nil, nil, err
 				}
 				e := each == "yes"
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, []int{r1, r2}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, d.usedRows(r1, r2), nil
 			}},
 		{id: "brake-stop", needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), uses: join(brakeUses, []string{"rope_mbf"}), loadDependent: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -665,7 +674,7 @@ func baseCheckSpecs() []checkSpec {
 						return nil, nil, err
 					}
 					d.rules = append(d.rules, i)
-					lim, rules = v, []int{i}
+					lim, rules = v, d.usedRows(i)
 				}
 				if len(rules) == 0 {
 					d.closedLimit = calc.BrakeStopLimitKg
@@ -696,7 +705,7 @@ func baseCheckSpecs() []checkSpec {
 				}
 				return func(calc.Hoist) (calc.Outcome, error) {
 					return due(last, asOf, int(math.Round(months)))
-				}, []int{r}, nil
+				}, d.usedRows(r), nil
 			}},
 		{id: "load-test", needs: join(loadNeeds, []string{"test_load"}), uses: []string{"test_type", "proposed_rated_load"}, noBand: true,
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -706,9 +715,9 @@ func baseCheckSpecs() []checkSpec {
 				}
 				test, _ := d.num("test_load")
 				if d.c.opts.Record {
-					return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, []int{r}, nil
+					return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, d.usedRows(r), nil
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTestNumbers(h.RatedLoadKg, test, f) }, []int{r}, nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTestNumbers(h.RatedLoadKg, test, f) }, d.usedRows(r), nil
 			}},
 		{id: "rope-wear", needs: []string{"rope_diameter"}, uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_reference_diameter", "rope_construction", "rope_fitted"}, nullsRating: true,
 			prepare: prepareRopeWear},
@@ -739,7 +748,7 @@ func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []
 	hours, _ := d.num("operating_hours")
 	in := calc.LifeInput{OperatingHours: hours / 3600, Km: km, RecordFactor: x, FullLoadDurationH: dur,
 		Commissioned: d.a.Get("commissioned").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
-	return func(calc.Hoist) (calc.Outcome, error) { return calc.DesignLife(in) }, []int{r1, r2}, nil
+	return func(calc.Hoist) (calc.Outcome, error) { return calc.DesignLife(in) }, d.usedRows(r1, r2), nil
 }
 
 func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -759,7 +768,7 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []in
 	if okb {
 		in.BrokenWires = int(bw)
 	}
-	var rules []int
+	rules := d.rowBuf[:0]
 	if okm {
 		v, r, err := d.rule("rope_wear.max_reduction")
 		if err != nil {
@@ -780,6 +789,7 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []in
 		rules = append(rules, r)
 		in.MaxBrokenWires = int(v)
 	}
+	d.rowBuf = rules // keep a grown buffer
 	return func(calc.Hoist) (calc.Outcome, error) { return calc.RopeWear(in) }, rules, nil
 }
 
