@@ -115,12 +115,17 @@ func (s *Summary) Add(r *Result) {
 	if int(r.Status) < 5 {
 		s.Sites[i].ByStatus[r.Status]++
 	}
-	for _, c := range r.Checks {
-		j, ok := s.checkIndex[c.ID]
-		if !ok {
-			j = len(s.Checks)
-			s.checkIndex[c.ID] = j
-			s.Checks = append(s.Checks, CheckCount{ID: c.ID})
+	for k, c := range r.Checks {
+		// Every hoist lists its checks in the same order: the k-th is usually the k-th
+		// counted, which spares a map lookup per check.
+		j := k
+		if j >= len(s.Checks) || s.Checks[j].ID != c.ID {
+			var ok bool
+			if j, ok = s.checkIndex[c.ID]; !ok {
+				j = len(s.Checks)
+				s.checkIndex[c.ID] = j
+				s.Checks = append(s.Checks, CheckCount{ID: c.ID})
+			}
 		}
 		s.Checks[j].ByStatus[c.Status]++
 		switch {
