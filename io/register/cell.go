@@ -55,6 +55,10 @@ type colSpec struct {
 	enumKeys  []string // normalized col.Values
 	enumSelf  []bool   // col.Values[i] as written matches col.Values[i]
 	headerErr string   // non-empty: the column's header is unusable; every non-empty cell is Bad
+
+	// Set by prepare from the above, for the per-cell conversion.
+	kind   cellKind // col.Kind
+	lo, hi float64  // an SI value outside [lo, hi] fails checkRange (±Inf: no bound)
 }
 
 // parse reads one cell of the column: the Value in SI for a known column and the Cell
@@ -73,7 +77,7 @@ func (s *colSpec) parse(raw string, d dialect, ref fleet.CellRef, asset string) 
 
 // fill is parse for a known column, writing the Value and the Cell in place: v and c
 // must be zero (as in a new Asset's slices), and only the fields that differ from zero
-// are written.
+// are written (a cleared slice costs less than whole structs written one by one).
 func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v *fleet.Value, c *fleet.Cell) {
 	v.Cell = ref
 	if raw == "" {
@@ -81,13 +85,16 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 	}
 	v.Raw, c.Text = raw, raw
 	text := trimSpace(raw)
-	kind := s.col.Kind
+	kind := s.kind
+	if (kind == kindNumber || kind == kindInteger) && s.fillNumber(text, d, v, c) {
+		return
+	}
 	var num numberCell
 	switch kind {
-	case templates.Number, templates.Integer:
+	case kindNumber, kindInteger:
 		num = readNumber(text, d)
 		c.IsNumber = num.plain
-	case templates.Text, templates.Date:
+	case kindText, kindDate:
 	default:
 		c.IsNumber = isPlainNumber(text)
 	}
@@ -104,7 +111,7 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 		return
 	}
 	switch kind {
-	case templates.Number, templates.Integer:
+	case kindNumber, kindInteger:
 		x, hint, ok := num.x, num.hint, num.ok
 		factor := s.factor
 		if !ok && s.col.Quantity == "ratio" && strings.HasSuffix(text, "%") {
@@ -116,7 +123,7 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 			bad(fleet.Invalid, ErrNotNumber, "%q is not a number%s%s", text, s.in(), hint)
 			return
 		}
-		if kind == templates.Integer && x != math.Trunc(x) {
+		if kind == kindInteger && x != math.Trunc(x) {
 			bad(fleet.Invalid, ErrNotWhole, "%q is not a whole number%s", text, s.in())
 			return
 		}
@@ -131,7 +138,7 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 			return
 		}
 		v.State = fleet.OK
-	case templates.Date:
+	case kindDate:
 		t, msg := parseDate(text, d)
 		if msg != "" {
 			bad(fleet.Invalid, ErrNotDate, "%q is not a date: %s", text, msg)
@@ -139,7 +146,7 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 		}
 		v.Date, v.State = t, fleet.OK
 		c.IsDate, c.Date = true, t
-	case templates.Enum:
+	case kindEnum:
 		if s.col.Key == "load_spectrum" && mayBeNumber(text) {
 			if _, _, ok := parseNumber(text, d); ok {
 				bad(fleet.Invalid, ErrNotAllowed, "%q is a number: the load spectrum is a class L1 to L4; for a factor km use the Spectrum factor column", text)
@@ -152,7 +159,7 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 			return
 		}
 		v.Text, v.State = val, fleet.OK
-	case templates.Bool:
+	case kindBool:
 		switch strings.ToLower(text) {
 		case "yes", "y", "true", "1":
 			v.Text = "yes"

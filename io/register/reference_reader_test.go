@@ -17,8 +17,14 @@ import (
 	"hoistfleet/fleet"
 )
 
+// refReader is the Reader as it was: a Reader whose duplicate check is a map.
+type refReader struct {
+	*Reader
+	refIDs map[string]int // asset id → row where first seen
+}
+
 // refNewCSV is NewCSV as it was.
-func refNewCSV(r io.Reader, name string) (*Reader, error) {
+func refNewCSV(r io.Reader, name string) (*refReader, error) {
 	file := displayName(name)
 	text, sep, err := csvStream(r)
 	if err != nil {
@@ -43,7 +49,7 @@ func refNewCSV(r io.Reader, name string) (*Reader, error) {
 		return nil, fileError(file, err)
 	}
 	rd.src = &refCSVSource{r: cr, n: len(titles), row: 1, lastLine: refRecordEndLine(cr, rec)}
-	return rd, nil
+	return &refReader{Reader: rd, refIDs: map[string]int{}}, nil
 }
 
 func refNewCSVReader(r io.Reader, sep rune) *csv.Reader {
@@ -107,7 +113,7 @@ func (s *refCSVSource) next() (rawRow, error) {
 func (s *refCSVSource) close() error { return nil }
 
 // refNext is Next as it was, building each Asset with refAsset.
-func (r *Reader) refNext(ctx context.Context) (*fleet.Asset, error) {
+func (r *refReader) refNext(ctx context.Context) (*fleet.Asset, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
@@ -156,7 +162,7 @@ func (r *Reader) refNext(ctx context.Context) (*fleet.Asset, error) {
 }
 
 // refAsset is asset as it was, converting each cell with refParse.
-func (r *Reader) refAsset(rr rawRow) *fleet.Asset {
+func (r *refReader) refAsset(rr rawRow) *fleet.Asset {
 	n := len(r.specs)
 	a := &fleet.Asset{Index: r.index, Row: rr.row, Cells: make([]fleet.Cell, n)}
 	r.index++
@@ -240,12 +246,12 @@ func (r *Reader) refAsset(rr rawRow) *fleet.Asset {
 			Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
 			Err:  fmt.Errorf("the asset id is missing")})
 	default:
-		if first, dup := r.ids[a.ID]; dup {
+		if first, dup := r.refIDs[a.ID]; dup {
 			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Duplicate, Asset: a.ID, Field: "asset_id",
 				Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
 				Err:  fmt.Errorf("asset id %q is already used in row %d", a.ID, first)})
 		} else {
-			r.ids[strings.Clone(a.ID)] = rr.row // a clone: the id is a substring of the whole record, which the map would keep alive
+			r.refIDs[strings.Clone(a.ID)] = rr.row // a clone: the id is a substring of the whole record, which the map would keep alive
 		}
 	}
 	return a

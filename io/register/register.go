@@ -71,7 +71,7 @@ type Reader struct {
 	sheet  string
 	known  int               // columns the schema knows: the fields of every row
 	idCol  int               // index of the asset id column, -1 when absent
-	ids    map[string]int    // asset id → row where first seen
+	ids    *idSet            // asset id → row where first seen
 	index  int               // next Asset.Index
 	free   chan *fleet.Asset // Assets handed back by Recycle, to be reused
 
@@ -292,12 +292,10 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 			Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
 			Err:  fmt.Errorf("the asset id is missing")})
 	default:
-		if first, dup := r.ids[a.ID]; dup {
+		if first, dup := r.ids.first(a.ID, rr.row); dup {
 			a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Duplicate, Asset: a.ID, Field: "asset_id",
 				Cell: fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: r.idCol + 1},
 				Err:  fmt.Errorf("asset id %q is already used in row %d", a.ID, first)})
-		} else {
-			r.ids[strings.Clone(a.ID)] = rr.row // a clone: the id is a substring of the whole record, which the map would keep alive
 		}
 	}
 	return a
@@ -307,7 +305,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	r.header = &fleet.Header{File: file, Sheet: r.sheet}
 	r.idCol = -1
-	r.ids = make(map[string]int)
+	r.ids = newIDSet()
 	r.free = make(chan *fleet.Asset, recycleDepth)
 	if isBlank(titles) {
 		return fmt.Errorf("row %d, the header row, is empty: the first row must hold the column titles", row)
@@ -356,6 +354,7 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 			r.known++
 			col.Key = key
 			spec.setUnit(raw, unit, splitErr, &col)
+			spec.prepare()
 			if spec.headerErr != "" {
 				problem(fleet.Invalid, key, "%s", spec.headerErr)
 				spec.headerErr = "header " + ref.String() + " " + spec.headerErr
