@@ -209,6 +209,7 @@ type hoistData struct {
 	messages []string
 	rules    []int // rows of the rule table used (indices into Rules.Rules, for the audit counts)
 	rowBuf   []int // the rows one check's prepare used, read before the next check's prepare
+	texts    *textMemo
 	// closedLimit is handed from a check's prepare to its preparedCheck: the limiting
 	// rated load in closed form, when the check has one.
 	closedLimit func(h calc.Hoist) float64
@@ -902,7 +903,7 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 	}
 	p.run = run
 	p.closedLimit, d.closedLimit = d.closedLimit, nil
-	p.rule, p.source = c.ruleTexts(rules)
+	p.rule, p.source = d.ruleTexts(rules)
 	if p.rule == "" {
 		p.rule, p.source = s.rule, s.source
 	}
