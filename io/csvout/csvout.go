@@ -64,7 +64,8 @@ const flushAt = 64 << 10
 // A hoist's records are built in one buffer and handed to the underlying writer in
 // blocks of about 64 KiB. The text of check ids, units, rules, sources, sites and
 // figure names that repeat from record to record is encoded once and copied after that;
-// numbers are formatted by outbuf.AppendShortest.
+// numbers are formatted by outbuf.AppendShortest, and one that comes again in the same
+// hoist is copied from where it was written (outbuf.NumMemo).
 //
 // Writer is also a fleet.Preparer: the pipeline's workers encode each hoist's records
 // (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
@@ -92,19 +93,21 @@ type encoder struct {
 	// is checked whole.
 	fixedSpecial bool
 	status       [6]string // encoded status words, by fleet.Status
+	siteField    outbuf.TextField
 	texts        textCache
-	site, gov    memo        // the last site and governing check written
-	memos        [][4]memo   // by check index: the last id, unit, rule and source
-	messages     []freeMemo  // by check index: the last message
-	figNames     [][]figName // by check and figure index: the last figure name
-	pre          []byte      // the hoist-level fields of the current hoist, reused
-	tmp          []byte      // scratch, reused
+	nums         outbuf.NumMemo // the numbers of the current hoist, where they were written
+	site, gov    memo           // the last site and governing check written
+	memos        [][4]memo      // by check index: the last id, unit, rule and source
+	messages     []freeMemo     // by check index: the last message
+	figNames     [][]figName    // by check and figure index: the last figure name
+	pre          []byte         // the hoist-level fields of the current hoist, reused
+	tmp          []byte         // scratch, reused
 }
 
 // clone returns an encoder with e's configuration and empty caches.
 func (e *encoder) clone() *encoder {
 	return &encoder{opts: e.opts, proposed: e.proposed, fc: e.fc, comma1: e.comma1,
-		fixedSpecial: e.fixedSpecial, status: e.status}
+		fixedSpecial: e.fixedSpecial, status: e.status, siteField: e.siteField}
 }
 
 // New returns a Writer writing to w. Output is buffered: End flushes it.
@@ -130,7 +133,7 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 		w.err = fmt.Errorf("csvout: invalid separator %q", w.opts.Comma)
 		return w.err
 	}
-	e := &encoder{opts: w.opts, fc: newFieldCoder(w.opts.Comma)}
+	e := &encoder{opts: w.opts, fc: newFieldCoder(w.opts.Comma), siteField: outbuf.NewTextField("site")}
 	if w.opts.Comma < utf8.RuneSelf {
 		e.comma1 = byte(w.opts.Comma)
 	}
@@ -205,6 +208,7 @@ func (w *Writer) Prepare(r *fleet.Result) {
 
 // encode appends the records of r (one per check, one when it has none).
 func (e *encoder) encode(b []byte, r *fleet.Result) []byte {
+	e.nums.Reset()
 	e.pre = e.hoist(e.pre[:0], r)
 	if len(r.Checks) == 0 {
 		b = e.noChecks(b, r)
@@ -222,10 +226,7 @@ func (e *encoder) encode(b []byte, r *fleet.Result) []byte {
 
 // hoist appends the hoist-level fields (row … max_rated_load_kg) and a separator.
 func (e *encoder) hoist(b []byte, r *fleet.Result) []byte {
-	site := ""
-	if v := r.Asset.Get("site"); v.State == fleet.OK {
-		site = v.Text
-	}
+	site := e.siteField.Text(r.Asset)
 	b = strconv.AppendInt(b, int64(r.Asset.Row), 10)
 	b = e.sep(b)
 	b = appendText(&e.fc, b, r.Asset.ID)
@@ -273,17 +274,17 @@ func (e *encoder) check(b []byte, r *fleet.Result, i int) []byte {
 	b = e.sep(b)
 	b = e.appendStatus(b, c.Status)
 	b = e.sep(b)
-	b = appendNum(b, c.Demand)
+	b = e.appendNum(b, c.Demand)
 	b = e.sep(b)
-	b = appendNum(b, c.Capacity)
+	b = e.appendNum(b, c.Capacity)
 	b = e.sep(b)
 	b = e.texts.appendText(&e.fc, &m[1], b, c.Unit)
 	b = e.sep(b)
-	b = appendNum(b, c.Utilisation)
+	b = e.appendNum(b, c.Utilisation)
 	b = e.sep(b)
-	b = appendNum(b, c.Margin)
+	b = e.appendNum(b, c.Margin)
 	b = e.sep(b)
-	b = appendNum(b, c.LimitRatedLoadKg)
+	b = e.appendNum(b, c.LimitRatedLoadKg)
 	b = e.sep(b)
 	b = e.texts.appendText(&e.fc, &m[2], b, c.Rule)
 	b = e.sep(b)
@@ -300,7 +301,7 @@ func (e *encoder) check(b []byte, r *fleet.Result, i int) []byte {
 			if pc := p.Check(c.ID); pc != nil {
 				b = e.appendStatus(b, pc.Status)
 				b = e.sep(b)
-				b = appendNum(b, pc.Utilisation)
+				b = e.appendNum(b, pc.Utilisation)
 			} else {
 				b = e.sep(b)
 			}
@@ -339,13 +340,14 @@ func (e *encoder) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
 		case math.IsNaN(f.Value) || math.IsInf(f.Value, 0):
 			b = append(b, "n/a"...)
 		default:
-			b = appendG(b, f.Value)
+			b = e.nums.AppendShortest(b, f.Value, 'g')
 		}
 	}
 	if c0 := b[start]; !special && c0 != ' ' && !isGuardByte(c0) {
 		return b
 	}
 	e.tmp = append(e.tmp[:0], b[start:]...)
+	e.nums.Reset() // the numbers in the field move
 	return appendText(&e.fc, b[:start], e.tmp)
 }
 

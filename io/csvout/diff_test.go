@@ -3,6 +3,9 @@ package csvout
 import (
 	"bytes"
 	"fmt"
+	"math"
+	"math/rand/v2"
+	"strings"
 	"testing"
 	"unicode/utf8"
 
@@ -151,6 +154,85 @@ func TestSameAsReferenceFigureNames(t *testing.T) {
 		}
 		rs = append(rs, &fleet.Result{Asset: &fleet.Asset{Row: i + 2, ID: fmt.Sprint("H-", i)},
 			Evaluation: fleet.Evaluation{Status: fleet.StatusPass, Checks: []fleet.CheckResult{c, c}}})
+	}
+	for _, o := range dialects {
+		t.Run(dialectName(o), func(t *testing.T) {
+			got, want := writeBoth(t, o, &fleet.Header{}, &fleet.RunInfo{}, rs)
+			sameBytes(t, got, want)
+		})
+	}
+}
+
+// TestSameAsReferenceRepeatedNumbers writes hoists whose numbers repeat across the
+// fields, checks and figures of a hoist (as a check's capacity comes again as one of its
+// figures), so that the encoder copies them from earlier in the hoist: numbers that
+// differ only in sign (0 and -0) or in the last bit, NaN and infinities among them, and
+// figures fields that must be quoted (a text figure with a quote or the separator before
+// a repeated number), which moves the numbers already written in the field.
+func TestSameAsReferenceRepeatedNumbers(t *testing.T) {
+	pool := []float64{0, math.Copysign(0, -1), 1.5, math.Nextafter(1.5, 2), math.Nextafter(1.5, 1), 1.0 / 3,
+		-1.0 / 3, math.NaN(), math.Inf(1), math.Inf(-1), 1e-7, 2.5e20, 123456789.25, 0.5, 16257.708885941633, 6}
+	texts := []string{"", "", "", "a\"b", "x,y", "x;y", "=1+2", " lead", "plain"}
+	rng := rand.New(rand.NewPCG(11, 12))
+	pick := func() float64 { return pool[rng.IntN(len(pool))] }
+	var rs []*fleet.Result
+	for i := range 300 {
+		var cs []fleet.CheckResult
+		for range 1 + rng.IntN(6) {
+			c := fleet.CheckResult{ID: "rope-design-factor", Status: fleet.StatusPass, Unit: "1",
+				Demand: pick(), Capacity: pick(), Utilisation: pick(), Margin: pick(), LimitRatedLoadKg: pick()}
+			for j := range rng.IntN(7) {
+				f := calc.Figure{Name: fmt.Sprint("f", j), Value: pick()}
+				if rng.IntN(4) == 0 {
+					f.Text = texts[rng.IntN(len(texts))]
+				}
+				c.Figures = append(c.Figures, f)
+			}
+			cs = append(cs, c)
+		}
+		r := &fleet.Result{Asset: &fleet.Asset{Row: i + 2, ID: fmt.Sprint("H-", i)},
+			Evaluation: fleet.Evaluation{Status: fleet.StatusPass, Checks: cs}}
+		r.MaxRatedLoadKg = pick()
+		if rng.IntN(3) == 0 {
+			p := r.Evaluation
+			p.Checks = append([]fleet.CheckResult(nil), cs...)
+			for j := range p.Checks {
+				p.Checks[j].Utilisation = pick()
+			}
+			r.Proposed = &p
+		}
+		rs = append(rs, r)
+	}
+	for _, o := range dialects {
+		t.Run(dialectName(o), func(t *testing.T) {
+			got, want := writeBoth(t, o, &fleet.Header{}, &fleet.RunInfo{}, rs)
+			sameBytes(t, got, want)
+		})
+	}
+}
+
+// TestSameAsReferenceTextWays writes texts that cycle in one place of the record
+// through more values than the memos of a place remember (rules, sources, units,
+// messages and sites), in orders that hit every remembered entry and evict each.
+func TestSameAsReferenceTextWays(t *testing.T) {
+	values := []string{"drum.h1 = 16 (M4)", "drum.h1 = 18 (M5)", "", "x,\"quoted\"", "=guard", "drum.h1 = 20 (M6)", " lead"}
+	orders := [][]int{{0, 1, 0, 1}, {0, 1, 2, 3, 4, 5, 6}, {3, 2, 1, 0, 1, 2, 3}, {0, 1, 2, 3, 0, 4, 1, 5, 2, 6, 3}, {6, 6, 5, 6, 4, 6, 3}}
+	var rs []*fleet.Result
+	row := 2
+	for _, order := range orders {
+		for rep := range 3 {
+			for k, vi := range order {
+				s := values[vi]
+				s2 := values[(vi+rep+k)%len(values)]
+				c := fleet.CheckResult{ID: "drum-ratio", Status: fleet.StatusPass, Unit: s2, Rule: s, Source: s2,
+					Message: strings.Clone(s), Demand: 16, Capacity: 18.75}
+				a := &fleet.Asset{Row: row, ID: fmt.Sprint("H-", row),
+					Fields: map[string]fleet.Value{"site": {State: fleet.OK, Text: s2}}}
+				rs = append(rs, &fleet.Result{Asset: a, Evaluation: fleet.Evaluation{Status: fleet.StatusPass,
+					Checks: []fleet.CheckResult{c, c}}})
+				row++
+			}
+		}
 	}
 	for _, o := range dialects {
 		t.Run(dialectName(o), func(t *testing.T) {

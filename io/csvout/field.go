@@ -127,31 +127,67 @@ func (tc *textCache) encode(fc *fieldCoder, s string) string {
 	return e
 }
 
-// memo is the last text written in one place of the record (the rule of the third
-// check, say) and its encoded form. Texts in one place mostly repeat from hoist to hoist,
-// often as the very same string, which compares in constant time.
-type memo struct{ s, enc string }
+// memoWays is how many texts a memo or freeMemo remembers. Texts in one place of the
+// record take a few values from hoist to hoist (the rule of one check differs with the
+// mechanism class, its message with the layer that governs): remembering the last four
+// finds most of them.
+const memoWays = 4
+
+// memo is the last texts written in one place of the record (the rule of the third
+// check, say) and their encoded forms, the latest first. Texts in one place mostly repeat
+// from hoist to hoist, often as the very same string, which compares in constant time.
+type memo [memoWays]struct{ s, enc string }
 
 // appendText appends the text field s, encoded by fc, remembering it in m.
 func (tc *textCache) appendText(fc *fieldCoder, m *memo, b []byte, s string) []byte {
-	if s != m.s {
-		m.s, m.enc = s, tc.encode(fc, s)
+	if s != m[0].s {
+		tc.remember(fc, m, s)
 	}
-	return append(b, m.enc...)
+	return append(b, m[0].enc...)
 }
 
-// freeMemo is the last free text (a message) written in one place of the record and its
-// encoded form, in a buffer of its own. Such texts often repeat from hoist to hoist but
-// are as often new, so they are not worth a textCache entry.
-type freeMemo struct {
+// remember moves s to the front of m, encoded.
+func (tc *textCache) remember(fc *fieldCoder, m *memo, s string) {
+	j := 1
+	for j < len(m)-1 && m[j].s != s {
+		j++
+	}
+	e := m[j]
+	if e.s != s {
+		e.s, e.enc = s, tc.encode(fc, s)
+	}
+	copy(m[1:j+1], m[:j])
+	m[0] = e
+}
+
+// freeMemo is the last free texts (messages) written in one place of the record and
+// their encoded forms, each in a buffer of its own, the latest first. Such texts often
+// repeat from hoist to hoist but are as often new, so they are not worth a textCache
+// entry.
+type freeMemo [memoWays]struct {
 	s   string
 	enc []byte
 }
 
 // appendText appends the text field s, encoded by fc, remembering it.
 func (m *freeMemo) appendText(fc *fieldCoder, b []byte, s string) []byte {
-	if s != m.s {
-		m.s, m.enc = s, appendText(fc, m.enc[:0], s)
+	if s != m[0].s {
+		m.remember(fc, s)
 	}
-	return append(b, m.enc...)
+	return append(b, m[0].enc...)
+}
+
+// remember moves s to the front of m, encoded (in the buffer of the entry it replaces,
+// the oldest, when it is new).
+func (m *freeMemo) remember(fc *fieldCoder, s string) {
+	j := 1
+	for j < len(m)-1 && m[j].s != s {
+		j++
+	}
+	e := m[j]
+	if e.s != s {
+		e.s, e.enc = s, appendText(fc, e.enc[:0], s)
+	}
+	copy(m[1:j+1], m[:j])
+	m[0] = e
 }

@@ -96,3 +96,33 @@ func TestHasSpecialRuneError(t *testing.T) {
 		}
 	}
 }
+
+// TestMemosRandom: through a memo (with its textCache) and a freeMemo, every text is
+// encoded as appendText encodes it, over random sequences from a few values, so that
+// every remembered entry is hit, moved to the front and evicted, in one place and in
+// several, with a separator that forces quoting.
+func TestMemosRandom(t *testing.T) {
+	values := []string{"", "drum.h1 = 16 (M4)", "drum.h1 = 18 (M5)", "a,b", "q\"uote", "=1", " x", "drum.h1 = 20 (M6)", "é"}
+	rng := rand.New(rand.NewPCG(21, 22))
+	for _, comma := range []rune{',', ';', '\t', 'é'} {
+		fc := newFieldCoder(comma)
+		var tc textCache
+		memos := make([]memo, 3)
+		frees := make([]freeMemo, 3)
+		for i := range 20_000 {
+			// A fresh copy half the time: equal texts need not share their bytes.
+			s := values[rng.IntN(1+rng.IntN(len(values)))]
+			if rng.IntN(2) == 0 {
+				s = strings.Clone(s)
+			}
+			p := rng.IntN(len(memos))
+			want := string(appendText(&fc, []byte("x"), s))
+			if got := string(tc.appendText(&fc, &memos[p], []byte("x"), s)); got != want {
+				t.Fatalf("comma %q, step %d: memo wrote %q for %q, want %q", comma, i, got, s, want)
+			}
+			if got := string(frees[p].appendText(&fc, []byte("x"), s)); got != want {
+				t.Fatalf("comma %q, step %d: freeMemo wrote %q for %q, want %q", comma, i, got, s, want)
+			}
+		}
+	}
+}

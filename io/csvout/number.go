@@ -16,6 +16,15 @@ func appendNum(b []byte, f float64) []byte {
 	return appendG(b, f)
 }
 
+// appendNum appends f as appendNum does, copying its text from earlier in the hoist
+// when f was written there.
+func (e *encoder) appendNum(b []byte, f float64) []byte {
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return b
+	}
+	return e.nums.AppendShortest(b, f, 'g')
+}
+
 // appendG appends f as strconv.AppendFloat(b, f, 'g', -1, 64) does.
 func appendG(b []byte, f float64) []byte { return outbuf.AppendShortest(b, f, 'g') }
 

@@ -1,7 +1,9 @@
 // Package outbuf holds what the streaming result writers (io/csvout, io/jsonout) share:
 // encodings prepared in the pipeline's workers and recycled once written, the shortest
 // form of a float64 (AppendShortest, what strconv writes, faster for the numbers of a
-// result), a cache of formatted numbers, and a complete write of a block of output.
+// result), a cache of formatted numbers across hoists (NumCache) and a memo of those
+// written in the current one (NumMemo), a schema field read by index (TextField), and
+// a complete write of a block of output.
 package outbuf
 
 import (

@@ -17,16 +17,38 @@ import (
 // appends (it lays digits out eight bytes at a time): b must not share that room with
 // anything live.
 func AppendShortest(b []byte, f float64, format byte) []byte {
-	if f == math.Trunc(f) && f > -1e15 && f < 1e15 && (f != 0 || !math.Signbit(f)) &&
-		(format == 'f' || format == 'g' && f > -1e6 && f < 1e6) {
-		// A whole number written without an exponent: its digits.
+	if isPlainWhole(f, format) {
+		return appendWhole(b, f)
+	}
+	return appendFraction(b, f, format)
+}
+
+// appendWhole appends the digits of the whole number f, |f| < 1e15.
+func appendWhole(b []byte, f float64) []byte {
+	if !(f >= 1 && f < 1e8) {
 		return strconv.AppendInt(b, int64(f), 10)
 	}
-	q, e, ok := shortestDecimal(math.Abs(f))
+	u := uint32(f)
+	n := digitCount(uint64(u))
+	b = slices.Grow(b, 8)
+	end := len(b)
+	le.PutUint64(b[end:end+8], encode8(u)>>(8*uint(8-n)))
+	return b[:end+n]
+}
+
+// isPlainWhole reports whether f is a whole number that format writes without an
+// exponent: as its digits.
+func isPlainWhole(f float64, format byte) bool {
+	return f == math.Trunc(f) && f > -1e15 && f < 1e15 && (f != 0 || !math.Signbit(f)) &&
+		(format == 'f' || format == 'g' && f > -1e6 && f < 1e6)
+}
+
+// appendFraction is AppendShortest for what isPlainWhole does not take.
+func appendFraction(b []byte, f float64, format byte) []byte {
+	q, e, n, ok := shortestDecimal(math.Abs(f))
 	if !ok || (format != 'e' && format != 'f' && format != 'g') {
 		return strconv.AppendFloat(b, f, format, -1, 64)
 	}
-	n := digitCount(q)
 	dp := n + e // the value is 0.D × 10^dp, D the n digits of q
 	// Lay the number out in b's spare room eight bytes at a time, the digits in
 	// registers: a write may run past what it needs, into room that a later write or
@@ -86,7 +108,13 @@ func digitWords(q uint64, n int) (w0, w1, w2 uint64) {
 	switch {
 	case n <= 8:
 		return encode8(uint32(q)) >> (8 * uint(8-n)), 0, 0
-	case n <= 16:
+	case n == 17: // the most common: a computed value needs all its digits
+		r := q % 1e16
+		x0, x1 := encode8(uint32(r/1e8)), encode8(uint32(r%1e8))
+		return uint64(q/1e16) + '0' | x0<<8, x0>>56 | x1<<8, x1 >> 56
+	case n == 16:
+		return encode8(uint32(q / 1e8)), encode8(uint32(q % 1e8)), 0
+	case n < 16:
 		return dropBytes(encode8(uint32(q/1e8)), encode8(uint32(q%1e8)), 0, 16-n)
 	}
 	return dropBytes(encode8(uint32(q/1e16)), encode8(uint32(q/1e8%1e8)), encode8(uint32(q%1e8)), 24-n)
@@ -163,7 +191,8 @@ var pow10f = [...]float64{1e-3, 1e-2, 1e-1, 1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7,
 	1e12, 1e13, 1e14, 1e15}
 
 // shortestDecimal returns the shortest decimal q×10^e (q without trailing zeros) that
-// reads back as f, and among the shortest the nearest to f: the digits strconv writes.
+// reads back as f, and among the shortest the nearest to f: the digits strconv writes;
+// n is the number of digits of q.
 // f must be positive. ok is false where it does not decide: f outside [1e-3, 1e15), a
 // power of two (its rounding interval is lopsided), or a tie between two candidates.
 //
@@ -178,11 +207,11 @@ var pow10f = [...]float64{1e-3, 1e-2, 1e-1, 1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7,
 // interval is the only decimal of 15 digits or fewer there, and the shortest is it with
 // its trailing zeros dropped. Otherwise the answer is the multiple of 10 (16 digits) or
 // the integer (17 digits) nearest to c.
-func shortestDecimal(f float64) (q uint64, e int, ok bool) {
+func shortestDecimal(f float64) (q uint64, e, n int, ok bool) {
 	fb := math.Float64bits(f)
 	m := fb & (1<<52 - 1)
 	if m == 0 || !(f >= 1e-3 && f < 1e15) {
-		return 0, 0, false
+		return 0, 0, 0, false
 	}
 	m |= 1 << 52
 	e2 := int(fb>>52) - 1075 // f = m × 2^e2, -62 <= e2 <= -3
@@ -198,7 +227,7 @@ func shortestDecimal(f float64) (q uint64, e int, ok bool) {
 	chi, clo := bits.Mul64(m<<1, pow10[k])
 	c2, c2Whole := shr128(chi, clo, s-1) // floor(2c), and whether 2c is whole
 	if c2 < 2e16 || c2 >= 2e17 {
-		return 0, 0, false
+		return 0, 0, 0, false
 	}
 	w := pow10[k]
 	even := m&1 == 0
@@ -215,13 +244,17 @@ func shortestDecimal(f float64) (q uint64, e int, ok bool) {
 	c, cFrac := c2>>1, c2&1 != 0 || !c2Whole // floor(c), and whether c has a fraction
 	if hi/100 >= (lo+99)/100 {
 		// 15 digits or fewer: the one multiple of 100 there is.
-		return trimZeros(hi/100, 2-k)
+		q, e, ok := trimZeros(hi/100, 2-k)
+		if !ok {
+			return 0, 0, 0, false
+		}
+		return q, e, digitCount(q), true
 	}
 	if hi/10 >= (lo+9)/10 {
 		// 16 digits: the multiple of 10 nearest to c.
 		q, r := c/10, c%10
 		if r == 5 && !cFrac {
-			return 0, 0, false // a tie
+			return 0, 0, 0, false // a tie
 		}
 		if r >= 5 {
 			q++
@@ -232,22 +265,29 @@ func shortestDecimal(f float64) (q uint64, e int, ok bool) {
 			q++
 		}
 		if q*10 < lo || q*10 > hi {
-			return 0, 0, false
+			return 0, 0, 0, false
 		}
-		return q, 1 - k, true
+		// q has 16 digits but at the very ends of the range of c.
+		n := 16
+		if q < pow10[15] {
+			n = 15
+		} else if q >= pow10[16] {
+			n = 17
+		}
+		return q, 1 - k, n, true
 	}
 	// 17 digits: the integer nearest to c.
 	q = c
 	if c2&1 != 0 {
 		if c2Whole {
-			return 0, 0, false // c ends in exactly .5
+			return 0, 0, 0, false // c ends in exactly .5
 		}
 		q++
 	}
 	if q < lo || q > hi {
-		return 0, 0, false
+		return 0, 0, 0, false
 	}
-	return q, -k, true
+	return q, -k, 17, true // 1e16 <= c <= q < 1e17: 1e17 is a multiple of 100
 }
 
 // trimZeros returns q×10^e with q's trailing zeros moved into e.

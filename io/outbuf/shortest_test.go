@@ -60,6 +60,28 @@ func TestAppendShortestMatchesStrconv(t *testing.T) {
 	}
 }
 
+// TestAppendShortestWhole compares AppendShortest with strconv on whole numbers: every
+// one below 200 000, those around each power of ten, and random ones of every length,
+// with both signs.
+func TestAppendShortestWhole(t *testing.T) {
+	for i := range 200_000 {
+		checkShortest(t, float64(i))
+		checkShortest(t, -float64(i))
+	}
+	for _, p := range pow10[:16] {
+		for d := -2; d <= 2; d++ {
+			checkShortest(t, float64(int64(p)+int64(d)))
+			checkShortest(t, -float64(int64(p)+int64(d)))
+		}
+	}
+	rng := rand.New(rand.NewPCG(13, 14))
+	for range 200_000 {
+		f := float64(rng.Int64N(int64(pow10[1+rng.IntN(16)])))
+		checkShortest(t, f)
+		checkShortest(t, -f)
+	}
+}
+
 // randShortestInput is a number of one of the kinds results hold: random bits, any
 // magnitude from 1e-5 to 1e17 with all digits, a decimal of 1 to 17 digits, or one
 // of those nudged by a unit in the last place.
@@ -180,15 +202,19 @@ func TestDigitCount(t *testing.T) {
 }
 
 // TestShortestDecimalDecides: the fast path, not strconv, writes nearly every number in
-// its range (otherwise the comparisons above would only test strconv against itself).
+// its range (otherwise the comparisons above would only test strconv against itself),
+// and counts the digits it finds right.
 func TestShortestDecimalDecides(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 10))
 	const n = 100_000
 	decided := 0
 	for range n {
 		f := math.Exp(rng.Float64()*18*math.Ln10 - 3*math.Ln10) // 1e-3 to 1e15
-		if _, _, ok := shortestDecimal(f); ok {
+		if q, _, n, ok := shortestDecimal(f); ok {
 			decided++
+			if want := len(strconv.FormatUint(q, 10)); n != want {
+				t.Fatalf("shortestDecimal(%v) = %d with n = %d, want %d", f, q, n, want)
+			}
 		}
 	}
 	if decided < n*99/100 {
