@@ -219,7 +219,7 @@ func createOutput(path string, st Streams) (*output, error) {
 		os.Remove(tmp.Name())
 		return nil, fmt.Errorf("writing the results: %w", err)
 	}
-	fl := newFlusher(tmp, syncAndDrop(tmp))
+	fl := newFlusher(tmp, writeBackAndDrop(tmp))
 	return &output{path: path, tmp: tmp, flush: fl, w: fl}, nil
 }
 

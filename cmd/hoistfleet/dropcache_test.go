@@ -8,9 +8,9 @@ import (
 	"testing"
 )
 
-// TestSyncAndDropKeepsContent: dropping a synced file's pages from the cache loses
+// TestWriteBackAndDropKeepsContent: starting write-back and dropping a file's pages loses
 // nothing: the file reads back as written, before and after more is appended.
-func TestSyncAndDropKeepsContent(t *testing.T) {
+func TestWriteBackAndDropKeepsContent(t *testing.T) {
 	f, err := os.Create(filepath.Join(t.TempDir(), "out.csv"))
 	if err != nil {
 		t.Fatal(err)
@@ -18,7 +18,7 @@ func TestSyncAndDropKeepsContent(t *testing.T) {
 	defer f.Close()
 	rng := rand.New(rand.NewPCG(1, 2))
 	var want []byte
-	sync := syncAndDrop(f)
+	sync := writeBackAndDrop(f)
 	for range 3 {
 		chunk := make([]byte, 1<<20+rng.IntN(4096))
 		for i := range chunk {
@@ -36,7 +36,7 @@ func TestSyncAndDropKeepsContent(t *testing.T) {
 			t.Fatal(err)
 		}
 		if !bytes.Equal(got, want) {
-			t.Fatalf("after sync and drop the file has %d bytes, not the %d written, or differs", len(got), len(want))
+			t.Fatalf("after write-back and drop the file has %d bytes, not the %d written, or differs", len(got), len(want))
 		}
 	}
 }

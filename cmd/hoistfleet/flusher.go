@@ -6,8 +6,8 @@ import (
 	"sync"
 )
 
-// flushEvery is how much output a flusher lets the operating system hold before it asks
-// for it to be written to disk.
+// flushEvery is how much output a flusher writes between two requests that the
+// operating system write it to disk.
 const flushEvery = 32 << 20
 
 // chunkSize and maxChunks bound what a flusher holds that the file has not yet taken:
@@ -25,14 +25,16 @@ var errFlusherClosed = errors.New("write after the output was closed")
 //
 //   - Writes are copied into chunks of chunkSize that a goroutine of its own writes to the
 //     file in order. A write(2) into the page cache can block for milliseconds (while the
-//     file system commits its journal for a sync, say); the reorder buffer holds only a few
+//     file system commits its journal, say); the reorder buffer holds only a few
 //     milliseconds of results, so a blocked write used to stall every worker. Up to
 //     maxChunks × chunkSize of output now absorbs it.
-//   - Every flushEvery bytes a third goroutine syncs the file, so that the disk writes the
-//     results while the hoists are still being checked. Without it the sync before the
-//     atomic rename (output.commit) writes the whole output at the end: 0.8 GB of long-form
-//     CSV for 100 000 hoists is a second or more of waiting on a disk that could have been
-//     writing all along. A sync requested while one runs is merged into the next.
+//   - Every flushEvery bytes a third goroutine calls sync, which asks the operating system
+//     to write the file back (writeBackAndDrop; a plain fsync where that is not
+//     available), so that the disk writes the results while the hoists are still being
+//     checked. Without it the sync before the atomic rename (output.commit) writes the
+//     whole output at the end: 0.8 GB of long-form CSV for 100 000 hoists is a second or
+//     more of waiting on a disk that could have been writing all along. A call due while
+//     one runs is merged into the next.
 //
 // The first write or sync error is returned by the next Write, and by Close.
 type flusher struct {
