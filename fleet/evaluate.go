@@ -392,7 +392,7 @@ func (c *Checker) resolve(a *Asset, d *hoistData) {
 				h.RopeMBFN/1000, h.RopeDiameterM*1000, grade, k, canon))
 		}
 	}
-	d.h = h
+	d.h = h.WithEfficiencies()
 }
 
 // hasCondition reports whether any rule row in force has the condition cond.
