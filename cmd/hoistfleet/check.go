@@ -243,12 +243,25 @@ func (o *output) commit() error {
 		os.Remove(o.tmp.Name())
 		return fmt.Errorf("writing %s: %w", o.path, err)
 	}
+	syncDir(filepath.Dir(o.path))
 	return nil
 }
 
+// syncDir syncs a directory, so that a rename into it survives a crash. It is best
+// effort: some systems cannot open a directory for syncing, and the output is complete
+// either way.
+func syncDir(dir string) {
+	if d, err := os.Open(dir); err == nil {
+		d.Sync()
+		d.Close()
+	}
+}
+
+// abort abandons the output: what the flusher still holds is dropped, not written, and
+// the temporary file removed.
 func (o *output) abort() {
 	if o.tmp != nil {
-		o.flush.Close()
+		o.flush.Abort()
 		o.tmp.Close()
 		os.Remove(o.tmp.Name())
 	}

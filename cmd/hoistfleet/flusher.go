@@ -151,6 +151,16 @@ func (f *flusher) chunk() []byte {
 	return <-f.free
 }
 
+// errFlusherAborted is the error of a flusher after Abort.
+var errFlusherAborted = errors.New("output abandoned")
+
+// Abort stops the flusher without writing what it still holds (chunks queued, the partial
+// one): the output is being abandoned. It waits for a write in progress, like Close.
+func (f *flusher) Abort() {
+	f.fail(errFlusherAborted)
+	f.Close()
+}
+
 // Close hands over the last partial chunk, waits until everything is written and the
 // background syncs have stopped, and returns the first error met. It does not sync what
 // remains: the caller's final sync does. Close may be called more than once.

@@ -167,3 +167,37 @@ func TestFlusherWriteErrorSticks(t *testing.T) {
 		t.Errorf("Close after a failed file write: %v, want %v", err, errDiskFull)
 	}
 }
+
+// TestFlusherAbortWritesNothingMore: after Abort, chunks still queued and the partial one
+// are dropped, not written; a write in progress finishes; Close then reports the abort.
+func TestFlusherAbortWritesNothingMore(t *testing.T) {
+	g := &gate{open: make(chan struct{})}
+	f := newFlusher(g, func() error { return nil })
+	chunk := make([]byte, chunkSize)
+	for range 3 { // one taken by the blocked writer, two queued
+		if _, err := f.Write(chunk); err != nil {
+			t.Fatal(err)
+		}
+	}
+	f.Write([]byte("partial"))
+	done := make(chan struct{})
+	go func() { f.Abort(); close(done) }()
+	for deadline := time.Now().Add(10 * time.Second); f.firstErr() == nil; time.Sleep(time.Millisecond) {
+		if time.Now().After(deadline) { // Abort must mark the flusher before it waits on the file
+			close(g.open)
+			t.Fatal("Abort did not mark the flusher as abandoned while a write was blocked")
+		}
+	}
+	close(g.open)
+	select {
+	case <-done:
+	case <-time.After(10 * time.Second):
+		t.Fatal("Abort did not return")
+	}
+	if got := g.n.Load(); got > chunkSize {
+		t.Errorf("the file got %d bytes after Abort, want at most the one chunk being written (%d)", got, chunkSize)
+	}
+	if err := f.Close(); !errors.Is(err, errFlusherAborted) {
+		t.Errorf("Close after Abort: %v, want %v", err, errFlusherAborted)
+	}
+}
