@@ -101,6 +101,18 @@ type ruleSet [4]int32
 
 type ruleText struct{ rule, source string }
 
+// ruleSetOf returns rows as a ruleSet, with ok false when there are too many to fit.
+func ruleSetOf(rows []int) (key ruleSet, ok bool) {
+	key = ruleSet{-1, -1, -1, -1}
+	if len(rows) > len(key) {
+		return key, false
+	}
+	for i, r := range rows {
+		key[i] = int32(r)
+	}
+	return key, true
+}
+
 // ruleTexts returns the "rule" and "source" fields of a check that used the given rows:
 // each row in words, joined by "; ", and their citations, a citation shared by two rows
 // given once. The texts repeat from hoist to hoist, so they are built once per set.
@@ -112,11 +124,8 @@ func (c *Checker) ruleTexts(rows []int) (rule, source string) {
 	case 1:
 		return t.RuleText(rows[0]), t.RuleCite(rows[0])
 	}
-	key, cacheable := ruleSet{-1, -1, -1, -1}, len(rows) <= len(ruleSet{})
+	key, cacheable := ruleSetOf(rows)
 	if cacheable {
-		for i, r := range rows {
-			key[i] = int32(r)
-		}
 		if v, ok := c.texts.Load(key); ok {
 			rt := v.(ruleText)
 			return rt.rule, rt.source

@@ -58,13 +58,12 @@ type textMemo [64]struct {
 
 // ruleTexts is Checker.ruleTexts through d's memo.
 func (d *hoistData) ruleTexts(rows []int) (rule, source string) {
-	if len(rows) < 2 || len(rows) > len(ruleSet{}) {
+	key, ok := ruleSetOf(rows)
+	if len(rows) < 2 || !ok {
 		return d.c.ruleTexts(rows) // one row: precomputed; five or more: not memoised
 	}
-	key := ruleSet{-1, -1, -1, -1}
 	h := uint32(0)
-	for i, r := range rows {
-		key[i] = int32(r)
+	for _, r := range key {
 		h = h*0x9e3779b1 + uint32(r)
 	}
 	e := &d.texts[(h^h>>16)%uint32(len(d.texts))]
