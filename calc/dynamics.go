@@ -262,7 +262,7 @@ func Runaway(h Hoist) (Outcome, error) {
 			Step{Symbol: "E_H", Formula: "½ m v_H²", Numbers: fmt.Sprintf("0.5 × %s × %s²", dynNum(t.m), dynNum(fallV)), Value: fallE, Unit: "J"},
 		)
 	}
-	out.Figures = []Figure{
+	out.Figures = h.Figs.take([]Figure{
 		{Name: "acceleration_m_s2", Value: a, Unit: "m/s2"},
 		{Name: "drum_angular_acceleration_rad_s2", Value: alpha, Unit: "rad/s2"},
 		{Name: "rope_tension_n", Value: tension, Unit: "N"},
@@ -270,7 +270,7 @@ func Runaway(h Hoist) (Outcome, error) {
 		{Name: "fall_speed_m_s", Value: fallV, Unit: "m/s"},
 		{Name: "fall_energy_j", Value: fallE, Unit: "J"},
 		{Name: "equivalent_mass_kg", Value: meq, Unit: "kg"},
-	}
+	})
 	switch {
 	case t.selfLocking():
 		out.Note = "self-locking gear train (η_gb = " + dynNum(t.etaGB) + " ≤ 0): the load cannot drive the train, no runaway"
@@ -515,7 +515,7 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 		}
 		return out, nil
 	}
-	out.Figures = []Figure{
+	out.Figures = h.Figs.take([]Figure{
 		{Name: "distance_m", Value: g.s, Unit: "m"},
 		{Name: "time_s", Value: g.time, Unit: "s"},
 		{Name: "deceleration_m_s2", Value: g.ab, Unit: "m/s2"},
@@ -523,7 +523,7 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 		{Name: "peak_design_factor", Value: g.dfc, Unit: "1"},
 		{Name: "speed_at_brake_set_m_s", Value: g.v1, Unit: "m/s"},
 		{Name: "runaway_distance_m", Value: g.s1, Unit: "m"},
-	}
+	})
 
 	where := t.radiusWords(best)
 	switch {

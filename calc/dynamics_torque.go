@@ -103,13 +103,13 @@ func MotorAccelTorque(h Hoist) (Outcome, error) {
 	if h.SkipDetail {
 		return out, nil
 	}
-	out.Figures = []Figure{
+	out.Figures = h.Figs.take([]Figure{
 		{Name: "drum_angular_acceleration_rad_s2", Value: g.alpha, Unit: "rad/s2"},
 		{Name: "load_torque_nm", Value: g.tl, Unit: "N m"},
 		{Name: "drum_inertia_torque_nm", Value: g.td, Unit: "N m"},
 		{Name: "rotor_inertia_torque_nm", Value: g.tr, Unit: "N m"},
 		{Name: "peak_torque_nm", Value: peak, Unit: "N m"},
-	}
+	})
 	out.Note = "accelerating at " + dynNum(a) + " m/s², evaluated at the " + t.radiusWords(best) + " (larger torque)"
 	return out, nil
 }
@@ -268,10 +268,10 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 	if stopWhy != "" {
 		out.Note += "; " + stopWhy
 	}
-	out.Figures = []Figure{
+	out.Figures = h.Figs.take([]Figure{
 		{Name: "accel_drum_torque_nm", Value: acc, Unit: "N m"},
 		{Name: "stop_drum_torque_nm", Value: stop, Unit: "N m"},
-	}
+	})
 	return out, nil
 }
 
@@ -321,11 +321,11 @@ func ShaftLoad(h Hoist) (Outcome, error) {
 			{Symbol: "F_shaft", Formula: "G_d + e F (colinear: upper bound)", Numbers: dynNum(gd) + " + " + dynNum(pull), Value: gd + pull, Unit: "N"},
 		}
 	}
-	out.Figures = []Figure{
+	out.Figures = h.Figs.take([]Figure{
 		{Name: "drum_weight_n", Value: gd, Unit: "N"},
 		{Name: "rope_pull_n", Value: pull, Unit: "N"},
 		{Name: "total_n", Value: gd + pull, Unit: "N"},
-	}
+	})
 	out.Note = "drum weight and rope pull added as if colinear (largest resultant); independent of the layer"
 	if h.DrumMassKg == 0 {
 		out.Note += "; drum mass not given: rope pull only"

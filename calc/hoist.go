@@ -43,6 +43,9 @@ type Hoist struct {
 	// build figures). The rated-load search sets it: it evaluates a check many times and
 	// reads nothing else. The numbers are the same.
 	SkipDetail bool
+	// Figs keeps the Outcome's figures (see FigureBuf); nil: a slice of their own. Bulk
+	// runs give each hoist one; the figures are the same either way.
+	Figs *FigureBuf
 
 	RatedLoadKg       float64 // m_L, rated load on the hook [kg]
 	HookBlockKg       float64 // m_H, reeved bottom block and hook [kg]

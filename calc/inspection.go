@@ -32,16 +32,17 @@ import (
 // It returns a *RangeError when the last inspection date or the run date is missing, the
 // last inspection is after the run date, or intervalMonths < 1.
 func InspectionDue(last, asOf time.Time, intervalMonths int) (Outcome, error) {
-	return inspectionDue(last, asOf, intervalMonths, true)
+	return inspectionDue(last, asOf, intervalMonths, true, nil)
 }
 
 // InspectionDueNumbers is InspectionDue without the calculation record (Outcome.Steps):
-// the same numbers, figures and note, for bulk runs.
-func InspectionDueNumbers(last, asOf time.Time, intervalMonths int) (Outcome, error) {
-	return inspectionDue(last, asOf, intervalMonths, false)
+// the same numbers, figures and note, for bulk runs. The figures are kept in figs (see
+// FigureBuf; nil: a slice of their own).
+func InspectionDueNumbers(last, asOf time.Time, intervalMonths int, figs *FigureBuf) (Outcome, error) {
+	return inspectionDue(last, asOf, intervalMonths, false, figs)
 }
 
-func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outcome, error) {
+func inspectionDue(last, asOf time.Time, intervalMonths int, record bool, figs *FigureBuf) (Outcome, error) {
 	switch {
 	case last.IsZero():
 		return Outcome{}, &RangeError{Field: "last_inspection", Msg: "no last inspection date"}
@@ -68,13 +69,13 @@ func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outco
 		Unit:        "d",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: []Figure{
+		Figures: figs.take([]Figure{
 			{Name: "next_due", Value: math.NaN(), Text: nextISO},
 			{Name: "days_overdue", Value: float64(overdue), Unit: "d"},
 			{Name: "days_to_due", Value: float64(toDue), Unit: "d"},
 			{Name: "days_since_last", Value: float64(since), Unit: "d"},
 			{Name: "interval_days", Value: float64(interval), Unit: "d"},
-		},
+		}),
 	}
 	if record {
 		o.Steps = []Step{
@@ -109,16 +110,17 @@ func inspectionDue(last, asOf time.Time, intervalMonths int, record bool) (Outco
 //
 // It returns a *RangeError for a rated load ≤ 0, a test load ≤ 0 or a factor < 1.
 func LoadTest(ratedKg, testKg, testFactor float64) (Outcome, error) {
-	return loadTest(ratedKg, testKg, testFactor, true)
+	return loadTest(ratedKg, testKg, testFactor, true, nil)
 }
 
 // LoadTestNumbers is LoadTest without the calculation record (Outcome.Steps): the same
-// numbers, figures and note, for bulk runs.
-func LoadTestNumbers(ratedKg, testKg, testFactor float64) (Outcome, error) {
-	return loadTest(ratedKg, testKg, testFactor, false)
+// numbers, figures and note, for bulk runs. The figures are kept in figs (see FigureBuf;
+// nil: a slice of their own).
+func LoadTestNumbers(ratedKg, testKg, testFactor float64, figs *FigureBuf) (Outcome, error) {
+	return loadTest(ratedKg, testKg, testFactor, false, figs)
 }
 
-func loadTest(ratedKg, testKg, testFactor float64, record bool) (Outcome, error) {
+func loadTest(ratedKg, testKg, testFactor float64, record bool, figs *FigureBuf) (Outcome, error) {
 	switch {
 	case !(ratedKg > 0) || math.IsInf(ratedKg, 0):
 		return Outcome{}, &RangeError{Field: "rated_load", Msg: fmt.Sprintf("rated load must be > 0 (got %s kg)", dutyNum(ratedKg))}
@@ -135,10 +137,10 @@ func loadTest(ratedKg, testKg, testFactor float64, record bool) (Outcome, error)
 		Unit:        "kg",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: []Figure{
+		Figures: figs.take([]Figure{
 			{Name: "covered_rated_load_kg", Value: covered, Unit: "kg"},
 			{Name: "test_load_ratio", Value: testKg / ratedKg, Unit: "1"},
-		},
+		}),
 	}
 	if record {
 		o.Steps = []Step{

@@ -42,6 +42,8 @@ type LifeInput struct {
 	Commissioned, AsOf time.Time
 	// SkipRecord: do not build Outcome.Steps (the calculation record); same numbers.
 	SkipRecord bool
+	// Figs keeps the figures (see FigureBuf); nil: a slice of their own.
+	Figs *FigureBuf
 }
 
 // DesignLife is the design-life check: the used part of the theoretical design life of a
@@ -144,13 +146,13 @@ func DesignLife(in LifeInput) (Outcome, error) {
 		note = fmt.Sprintf("past the full-load duration by %s h: general overhaul due", dutyNum(s-d)) + note
 	}
 	o.Note = note
-	o.Figures = []Figure{
+	o.Figures = in.Figs.take([]Figure{
 		{Name: "used_h", Value: s, Unit: "h"},
 		{Name: "remaining_h", Value: remaining, Unit: "h"},
 		{Name: "remaining_operating_h", Value: remainingOp, Unit: "h"},
 		{Name: "usage_rate_h_per_day", Value: rate, Unit: "h/day"},
 		{Name: "overhaul_due", Value: math.NaN(), Text: due},
-	}
+	})
 	return o, nil
 }
 

@@ -324,7 +324,7 @@ func TestSkipRecordLifeChecks(t *testing.T) {
 		{"rope-wear us", func(skip bool) (calc.Outcome, error) { in := wearUS; in.SkipRecord = skip; return calc.RopeWear(in) }},
 		{"inspection-due", func(skip bool) (calc.Outcome, error) {
 			if skip {
-				return calc.InspectionDueNumbers(day(2025, 10, 31), day(2026, 12, 1), 12)
+				return calc.InspectionDueNumbers(day(2025, 10, 31), day(2026, 12, 1), 12, nil)
 			}
 			return calc.InspectionDue(day(2025, 10, 31), day(2026, 12, 1), 12)
 		}},
@@ -332,7 +332,7 @@ func TestSkipRecordLifeChecks(t *testing.T) {
 		// fails with a note (2006/42/EC static coefficient 1.25, law, memory high).
 		{"load-test", func(skip bool) (calc.Outcome, error) {
 			if skip {
-				return calc.LoadTestNumbers(5000, 6000, 1.25)
+				return calc.LoadTestNumbers(5000, 6000, 1.25, nil)
 			}
 			return calc.LoadTest(5000, 6000, 1.25)
 		}},

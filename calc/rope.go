@@ -88,7 +88,7 @@ func RopeDesignFactor(h Hoist, zRequired float64, staticBasis bool) (Outcome, er
 		Unit:        "1",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: []Figure{
+		Figures: h.Figs.take([]Figure{
 			{Name: "rope_tension_n", Value: f, Unit: "N"},
 			{Name: "static_tension_n", Value: static, Unit: "N"},
 			{Name: "design_tension_n", Value: fz, Unit: "N"},
@@ -96,7 +96,7 @@ func RopeDesignFactor(h Hoist, zRequired float64, staticBasis bool) (Outcome, er
 			{Name: "deflection_efficiency", Value: etaD, Unit: "1"},
 			{Name: "design_factor", Value: z, Unit: "1"},
 			{Name: "required_design_factor", Value: zRequired, Unit: "1"},
-		},
+		}),
 		Steps: steps,
 	}
 	if staticBasis {

@@ -58,10 +58,10 @@ func stDiameterRatio(h Hoist, required, dia float64, field, what, sym, reqSym, f
 		Unit:        "1",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: []Figure{
+		Figures: h.Figs.take([]Figure{
 			{Name: figure, Value: ratio, Unit: "1"},
 			{Name: "required_ratio", Value: required, Unit: "1"},
-		},
+		}),
 	}
 	if !h.SkipRecord {
 		o.Steps = []Step{
@@ -207,14 +207,14 @@ func DrumCapacity(h Hoist, minDeadWraps float64) (Outcome, error) {
 		Utilisation: u,
 		Verdict:     ByUtilisation,
 		Note:        note,
-		Figures: []Figure{
+		Figures: h.Figs.take([]Figure{
 			{Name: "rope_per_end_m", Value: demand, Unit: "m"},
 			{Name: "lift_rope_m", Value: lift, Unit: "m"},
 			{Name: "drum_capacity_m", Value: capacity, Unit: "m"},
 			{Name: "wraps_left_at_lowest_hook", Value: wraps, Unit: "1"},
 			{Name: "min_dead_wraps", Value: minDeadWraps, Unit: "1"},
 			{Name: "layers_needed", Value: needed, Unit: "1"},
-		},
+		}),
 		Steps: steps,
 	}, nil
 }
@@ -283,11 +283,11 @@ func FleetAngle(h Hoist, maxDeg, minDeg float64) (Outcome, error) {
 		Unit:        "deg",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: []Figure{
+		Figures: h.Figs.take([]Figure{
 			{Name: "fleet_angle_deg", Value: theta, Unit: "deg"},
 			{Name: "max_fleet_angle_deg", Value: maxDeg, Unit: "deg"},
 			{Name: "min_fleet_angle_deg", Value: minDeg, Unit: "deg"},
-		},
+		}),
 	}
 	if !h.SkipRecord {
 		drum := "plain"
@@ -370,14 +370,14 @@ func MotorTorque(h Hoist) (Outcome, error) {
 		Unit:        "N m",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: []Figure{
+		Figures: h.Figs.take([]Figure{
 			{Name: "rope_tension_n", Value: f, Unit: "N"},
 			{Name: "reeving_efficiency", Value: etaR, Unit: "1"},
 			{Name: "drum_torque_nm", Value: e * f * bestR, Unit: "N m"},
 			{Name: "motor_torque_nm", Value: best, Unit: "N m"},
 			{Name: "rated_torque_nm", Value: mr, Unit: "N m"},
 			{Name: "radius_m", Value: bestR, Unit: "m"},
-		},
+		}),
 		Steps: steps,
 	}
 	if bestIdx > 0 {
@@ -472,12 +472,12 @@ func MotorPower(h Hoist) (Outcome, error) {
 		Unit:        "W",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: []Figure{
+		Figures: h.Figs.take([]Figure{
 			{Name: "required_power_w", Value: best, Unit: "W"},
 			{Name: "rated_power_w", Value: h.MotorPowerW, Unit: "W"},
 			{Name: "hoisting_efficiency", Value: etaH, Unit: "1"},
 			{Name: "hook_speed_m_s", Value: bestV, Unit: "m/s"},
-		},
+		}),
 		Steps: steps,
 	}
 	if bestIdx > 0 {
@@ -534,11 +534,11 @@ func HoistSpeed(h Hoist, tolerance float64) (Outcome, error) {
 		Unit:        "1",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: []Figure{
+		Figures: h.Figs.take([]Figure{
 			{Name: "calculated_speed_m_s", Value: vc, Unit: "m/s"},
 			{Name: "declared_speed_m_s", Value: v, Unit: "m/s"},
 			{Name: "speed_deviation", Value: dev, Unit: "1"},
-		},
+		}),
 	}
 	if !h.SkipRecord {
 		o.Steps = []Step{
@@ -666,13 +666,13 @@ func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
 		Utilisation: u,
 		Verdict:     ByUtilisation,
 		Note:        note,
-		Figures: []Figure{
+		Figures: h.Figs.take([]Figure{
 			{Name: "full_load_hoisting_torque_nm", Value: best, Unit: "N m"},
 			{Name: "brake_factor", Value: factor, Unit: "1"},
 			{Name: "brake_capacity_nm", Value: capacity, Unit: "N m"},
 			{Name: "required_brake_torque_nm", Value: demand, Unit: "N m"},
 			{Name: "radius_m", Value: bestR, Unit: "m"},
-		},
+		}),
 		Steps: steps,
 	}, nil
 }

@@ -81,6 +81,8 @@ type WearInput struct {
 
 	// SkipRecord: do not build Outcome.Steps (the calculation record); same numbers.
 	SkipRecord bool
+	// Figs keeps the figures (see FigureBuf); nil: a slice of their own.
+	Figs *FigureBuf
 
 	// Fitted is the date the rope was installed and AsOf the run's date (zero = unknown);
 	// they only give the rope's age.
@@ -216,7 +218,7 @@ func RopeWear(in WearInput) (Outcome, error) {
 		Utilisation: u,
 		Verdict:     ByUtilisation,
 		Note:        strings.Join(notes, "; "),
-		Figures: []Figure{
+		Figures: in.Figs.take([]Figure{
 			{Name: "reduction_m", Value: red, Unit: "m"},
 			{Name: "reduction_fraction", Value: frac, Unit: "1"},
 			{Name: "base_diameter_m", Value: base, Unit: "m"},
@@ -224,7 +226,7 @@ func RopeWear(in WearInput) (Outcome, error) {
 			{Name: "diameter_utilisation", Value: uD, Unit: "1"},
 			{Name: "broken_wires_utilisation", Value: uBW, Unit: "1"},
 			{Name: "rope_age_years", Value: age, Unit: "a"},
-		},
+		}),
 		Steps: steps,
 	}, nil
 }

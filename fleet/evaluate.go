@@ -41,6 +41,7 @@ type Checker struct {
 	ropes   ropeCache          // rope construction text → what calc reads from it
 	dflts   sync.Map           // defaultKey → the text saying a rule default was applied
 	scratch sync.Pool          // *scratch, reused from one Check to the next
+	results sync.Pool          // *Result, recycled by Run once written (recycle)
 }
 
 // defaultKey identifies a "default applied" text: its format, rule and value. The value
@@ -709,12 +710,14 @@ func baseCheckSpecs() []checkSpec {
 				}
 				last := d.a.Get("last_inspection").Date
 				asOf := d.c.opts.AsOf
-				due := calc.InspectionDueNumbers
+				interval := int(math.Round(months))
 				if d.c.opts.Record {
-					due = calc.InspectionDue
+					return func(calc.Hoist) (calc.Outcome, error) {
+						return calc.InspectionDue(last, asOf, interval)
+					}, d.usedRows(r), nil
 				}
-				return func(calc.Hoist) (calc.Outcome, error) {
-					return due(last, asOf, int(math.Round(months)))
+				return func(h calc.Hoist) (calc.Outcome, error) {
+					return calc.InspectionDueNumbers(last, asOf, interval, h.Figs)
 				}, d.usedRows(r), nil
 			}},
 		{id: "load-test", needs: join(loadNeeds, []string{"test_load"}), uses: []string{"test_type", "proposed_rated_load"}, noBand: true,
@@ -727,7 +730,7 @@ func baseCheckSpecs() []checkSpec {
 				if d.c.opts.Record {
 					return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, d.usedRows(r), nil
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTestNumbers(h.RatedLoadKg, test, f) }, d.usedRows(r), nil
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTestNumbers(h.RatedLoadKg, test, f, h.Figs) }, d.usedRows(r), nil
 			}},
 		{id: "rope-wear", needs: []string{"rope_diameter"}, uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_reference_diameter", "rope_construction", "rope_fitted"}, nullsRating: true,
 			prepare: prepareRopeWear},
@@ -758,7 +761,11 @@ func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []
 	hours, _ := d.num("operating_hours")
 	in := calc.LifeInput{OperatingHours: hours / 3600, Km: km, RecordFactor: x, FullLoadDurationH: dur,
 		Commissioned: d.a.Get("commissioned").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
-	return func(calc.Hoist) (calc.Outcome, error) { return calc.DesignLife(in) }, d.usedRows(r1, r2), nil
+	return func(h calc.Hoist) (calc.Outcome, error) {
+		in := in
+		in.Figs = h.Figs
+		return calc.DesignLife(in)
+	}, d.usedRows(r1, r2), nil
 }
 
 func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -800,13 +807,17 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []in
 		in.MaxBrokenWires = int(v)
 	}
 	d.rowBuf = rules // keep a grown buffer
-	return func(calc.Hoist) (calc.Outcome, error) { return calc.RopeWear(in) }, rules, nil
+	return func(h calc.Hoist) (calc.Outcome, error) {
+		in := in
+		in.Figs = h.Figs
+		return calc.RopeWear(in)
+	}, rules, nil
 }
 
 // Check evaluates one asset: every check at its rated load (and at the proposed load
 // when there is one), the maximum permissible rated load and its governing check.
 func (c *Checker) Check(a *Asset) *Result {
-	r := &Result{Asset: a}
+	r := c.newResult(a)
 	if a.Blank {
 		r.Status = StatusUnchecked
 		r.MinMargin = math.NaN()
@@ -824,11 +835,12 @@ func (c *Checker) Check(a *Asset) *Result {
 	defer c.putScratch(s)
 	d := &s.d
 	c.resolve(a, d)
+	d.h.Figs = r.figs
 	prepared := s.prepared
 	for i := range c.specs {
 		prepared[i] = c.prepare(d, &c.specs[i])
 	}
-	r.Evaluation = c.evaluate(d, d.h, prepared, true)
+	r.Evaluation = c.evaluate(d, d.h, prepared, true, r.Checks[:0])
 	if hs := r.Check("hoist-speed"); hs != nil && hs.Status == StatusFail {
 		if vc := calc.FigureValue(hs.Figures, "calculated_speed_m_s"); !math.IsNaN(vc) {
 			d.messages = append(d.messages, fmt.Sprintf("the declared hoist speed %.3g m/min disagrees with the drive's %.3g m/min (motor speed, gear ratio, drum, reeving): motor-power, brake-stop and runaway use the declared speed, so check the register before trusting them",
@@ -844,17 +856,45 @@ func (c *Checker) Check(a *Asset) *Result {
 		proposed = c.opts.RatedLoadFactor * d.h.RatedLoadKg
 	}
 	if !math.IsNaN(proposed) {
-		e := c.evaluate(d, d.h.WithRatedLoad(proposed), prepared, false)
+		e := c.evaluate(d, d.h.WithRatedLoad(proposed), prepared, false, r.spare.Checks[:0])
 		for i := range e.Checks {
 			e.Checks[i].LimitRatedLoadKg = r.Checks[i].LimitRatedLoadKg
 		}
-		r.Proposed = &e
+		r.spare = e
+		r.Proposed = &r.spare
 	}
 	r.Messages = append(r.Messages, d.messages...)
 	r.DefaultsUsed = d.defaults
 	r.Derived = d.derived
-	r.rules = slices.Clone(d.rules)
+	r.rules = append(r.rules[:0], d.rules...)
 	return r
+}
+
+// newResult returns an empty Result for a, with the memory of a recycled one when there
+// is one.
+func (c *Checker) newResult(a *Asset) *Result {
+	r, ok := c.results.Get().(*Result)
+	if !ok {
+		r = &Result{figs: new(calc.FigureBuf)}
+	}
+	r.Asset = a
+	return r
+}
+
+// recycle takes back a Result that nothing reads any more (Run: after the Sink, which
+// forgets results, has written it and the summary has counted it), so that a later
+// Check reuses its memory: the checks, the proposed evaluation's checks, the figures
+// (calc.FigureBuf) and the rule rows. Strings are never reused, so a string taken from
+// the Result stays valid; its slices do not.
+func (c *Checker) recycle(r *Result) {
+	figs, checks, proposed, rules := r.figs, r.Checks[:0], r.spare.Checks[:0], r.rules[:0]
+	if figs == nil {
+		return // not made by newResult
+	}
+	figs.Reset()
+	*r = Result{figs: figs, rules: rules}
+	r.Checks, r.spare.Checks = checks, proposed
+	c.results.Put(r)
 }
 
 type preparedCheck struct {
@@ -923,8 +963,12 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 }
 
 // evaluate runs every prepared check at hoist state h.
-func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck, limits bool) Evaluation {
-	e := Evaluation{RatedLoadKg: h.RatedLoadKg, MinMargin: math.NaN(), Status: StatusPass, Checks: make([]CheckResult, 0, len(prepared))}
+// The checks are appended to dst (empty, perhaps with room for them).
+func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck, limits bool, dst []CheckResult) Evaluation {
+	if dst == nil {
+		dst = make([]CheckResult, 0, len(prepared))
+	}
+	e := Evaluation{RatedLoadKg: h.RatedLoadKg, MinMargin: math.NaN(), Status: StatusPass, Checks: dst}
 	for _, p := range prepared {
 		cr := CheckResult{ID: p.spec.id, Demand: math.NaN(), Capacity: math.NaN(), Utilisation: math.NaN(),
 			Margin: math.NaN(), LimitRatedLoadKg: math.NaN(), Rule: p.rule, Source: p.source,

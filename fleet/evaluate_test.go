@@ -82,7 +82,7 @@ func TestEvaluationPrecedence(t *testing.T) {
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			e := c.evaluate(d, calc.Hoist{}, tc.checks, false)
+			e := c.evaluate(d, calc.Hoist{}, tc.checks, false, nil)
 			if e.Status != tc.want {
 				t.Errorf("status %v, want %v", e.Status, tc.want)
 			}

@@ -41,8 +41,12 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		}
 	}
 	useCounts := make([]int, len(opts.Rules.Rules)) // uses of each rule row, by index
+	// A Sink that forgets results lets Run reuse their memory once written: the Result's
+	// (Checker.recycle) and, when the Source can take it back, the Asset's.
 	var recycler Recycler
+	forgets := false
 	if f, ok := sink.(Forgetter); ok && f.ForgetsResults() {
+		forgets = true
 		recycler, _ = src.(Recycler)
 	}
 
@@ -118,12 +122,16 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 				for _, i := range p.rules {
 					useCounts[i]++
 				}
-				p.rules = nil
 				if progress != nil {
 					progress.Add(1)
 				}
 				if recycler != nil {
 					recycler.Recycle(p.Asset)
+				}
+				if forgets {
+					c.recycle(p)
+				} else {
+					p.rules = nil // counted: the audit sheet's counts are Run's
 				}
 				<-slots
 			}

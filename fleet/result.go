@@ -55,6 +55,11 @@ type Result struct {
 	Prepared any
 
 	rules []int // rows of the rule table the checks used, counted for the audit sheet
+
+	// figs holds the checks' figures and spare the proposed evaluation (Proposed points
+	// to it); both are reused when Run recycles the Result (Checker.recycle).
+	figs  *calc.FigureBuf
+	spare Evaluation
 }
 
 // Check returns the named check of the current evaluation, or nil.
