@@ -50,13 +50,49 @@ func (t dynTrain) radiusName(k int) string {
 
 // radiusWords says in words which layer radius index k is.
 func (t dynTrain) radiusWords(k int) string {
-	if t.nr == 1 {
-		return "single layer, r_1"
+	return t.radiusPhrase(k, "", radiusWordsOf)
+}
+
+// radiusPhrase is prefix + t.radiusWords(k). The notes that every hoist gets are built
+// from a few prefixes and layer counts: those come ready made from table (each hoist's
+// note was otherwise assembled anew, about 3 % of a bulk run); others are assembled.
+func (t dynTrain) radiusPhrase(k int, prefix string, table *[phraseLayers]string) string {
+	i := t.layers
+	switch {
+	case t.nr == 1:
+		i = 0
+	case k == 0:
+		i = 1
 	}
-	if k == 0 {
-		return "first layer, r_1"
+	if i < len(table) {
+		return table[i]
 	}
-	return "outer layer " + strconv.Itoa(t.layers) + ", r_L"
+	return prefix + "outer layer " + strconv.Itoa(t.layers) + ", r_L"
+}
+
+// phraseLayers bounds the layer counts of the ready-made phrases: index 0 is a single
+// layer, 1 the first layer of several, n ≥ 2 the outer layer of n.
+const phraseLayers = 12
+
+// Ready-made notes (radiusPhrase), built once from their prefixes; read only.
+var (
+	radiusWordsOf    = radiusPhrases("")
+	accelGovernsAtOf = radiusPhrases(accelGovernsAt)
+	stopGovernsAtOf  = radiusPhrases(stopGovernsAt)
+)
+
+const (
+	accelGovernsAt = "accelerating the load governs, at the "
+	stopGovernsAt  = "the emergency stop governs, at the "
+)
+
+func radiusPhrases(prefix string) *[phraseLayers]string {
+	var p [phraseLayers]string
+	p[0], p[1] = prefix+"single layer, r_1", prefix+"first layer, r_1"
+	for n := 2; n < phraseLayers; n++ {
+		p[n] = prefix + "outer layer " + strconv.Itoa(n) + ", r_L"
+	}
+	return &p
 }
 
 // dynFinite reports whether x is a finite number (not NaN, not ±Inf).

@@ -252,15 +252,16 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 		out.Utilisation = out.Demand / out.Capacity
 		return out, nil
 	}
-	which := "accelerating the load governs, at the " + t.radiusWords(accK)
+	which := t.radiusPhrase(accK, accelGovernsAt, accelGovernsAtOf)
 	if stop > acc {
 		out.Demand = stop
-		which = "the emergency stop governs"
-		if !h.BrakeOnDrum {
-			which += " (motor-shaft brake torque through the back-driven gearbox, an upper bound)"
-		}
-		if stopK >= 0 {
-			which += ", at the " + t.radiusWords(stopK)
+		switch {
+		case !h.BrakeOnDrum: // stopK < 0: one stop torque, not by radius
+			which = "the emergency stop governs (motor-shaft brake torque through the back-driven gearbox, an upper bound)"
+		case stopK >= 0:
+			which = t.radiusPhrase(stopK, stopGovernsAt, stopGovernsAtOf)
+		default:
+			which = "the emergency stop governs"
 		}
 	}
 	out.Utilisation = out.Demand / out.Capacity
