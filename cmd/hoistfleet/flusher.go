@@ -4,6 +4,8 @@ import (
 	"errors"
 	"io"
 	"sync"
+
+	"hoistfleet/io/outbuf"
 )
 
 // flushEvery is how much output a flusher writes between two requests that the
@@ -37,6 +39,11 @@ var errFlusherClosed = errors.New("write after the output was closed")
 //     one runs is merged into the next.
 //
 // The first write or sync error is returned by the next Write, and by Close.
+//
+// A flusher is an outbuf.Absorber: its Write only copies into the current chunk, so the
+// CSV and JSONL writers hand it each hoist's bytes straight from the worker's buffer
+// instead of first gathering them into 64 KiB blocks of their own (a copy of the whole
+// output saved).
 type flusher struct {
 	w    io.Writer
 	sync func() error
@@ -135,6 +142,12 @@ func (f *flusher) Write(p []byte) (int, error) {
 	}
 	return n, nil
 }
+
+var _ outbuf.Absorber = (*flusher)(nil)
+
+// AbsorbsWrites reports that a write of any size costs a copy into the current chunk
+// (outbuf.Absorber): p is not kept once Write returns.
+func (f *flusher) AbsorbsWrites() bool { return true }
 
 // chunk returns an empty chunk: a written one, or a new one while fewer than maxChunks
 // exist, or else the next one the writing goroutine frees.

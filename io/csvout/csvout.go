@@ -62,7 +62,10 @@ const flushAt = 64 << 10
 // Writer is a fleet.Sink writing the long-form CSV. Errors stick.
 //
 // A hoist's records are built in one buffer and handed to the underlying writer in
-// blocks of about 64 KiB. The text of check ids, units, rules, sources, sites and
+// blocks of about 64 KiB, except when that writer buffers cheaply itself (an
+// outbuf.Absorber, such as the command's output file): then each hoist's records go to
+// it as they come, straight from the buffer they were encoded in, which saves copying
+// all the output once more. The text of check ids, units, rules, sources, sites and
 // figure names that repeat from record to record is encoded once and copied after that;
 // numbers are formatted by outbuf.AppendShortest, and one that comes again in the same
 // hoist is copied from where it was written (outbuf.NumMemo).
@@ -71,14 +74,15 @@ const flushAt = 64 << 10
 // (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
 // copies them out, so the encoding runs on every core.
 type Writer struct {
-	out   io.Writer
-	opts  Options
-	enc   *encoder        // encodes in Write the results no worker prepared
-	pool  sync.Pool       // *encoder for Prepare, configured like enc
-	prep  outbuf.Prepared // the workers' encodings, recycled once written
-	buf   []byte          // output not yet written to out
-	begun bool
-	err   error
+	out    io.Writer
+	opts   Options
+	enc    *encoder        // encodes in Write the results no worker prepared
+	pool   sync.Pool       // *encoder for Prepare, configured like enc
+	prep   outbuf.Prepared // the workers' encodings, recycled once written
+	buf    []byte          // output not yet written to out
+	direct bool            // out absorbs writes (outbuf.Absorbs): buf is empty between calls
+	begun  bool
+	err    error
 }
 
 // encoder turns results into records. Its caches only save work: whatever it encoded
@@ -110,10 +114,15 @@ func (e *encoder) clone() *encoder {
 		fixedSpecial: e.fixedSpecial, status: e.status, siteField: e.siteField}
 }
 
-// New returns a Writer writing to w. Output is buffered: End flushes it.
+// New returns a Writer writing to w. Output is buffered: End flushes it. When w is an
+// outbuf.Absorber that absorbs writes, the Writer holds nothing between calls and
+// writes each hoist's records to w as they come.
 func New(w io.Writer, opts Options) *Writer {
 	if opts.Comma == 0 {
 		opts.Comma = ','
+	}
+	if outbuf.Absorbs(w) {
+		return &Writer{out: w, opts: opts, direct: true}
 	}
 	return &Writer{out: w, opts: opts, buf: make([]byte, 0, flushAt+16<<10)}
 }
@@ -167,6 +176,9 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 	}
 	w.buf = e.eol(b)
 	w.begun = true
+	if w.direct {
+		w.flush()
+	}
 	return w.err
 }
 
@@ -183,12 +195,19 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.err = fmt.Errorf("csvout: result without an asset")
 		return w.err
 	}
+	if w.direct {
+		if ok, err := w.prep.WriteOut(w.out, r.Prepared); ok {
+			r.Prepared = nil
+			w.fail(err)
+			return w.err
+		}
+	}
 	if b, ok := w.prep.AppendTo(w.buf, r.Prepared); ok {
 		w.buf, r.Prepared = b, nil
 	} else {
 		w.buf = w.enc.encode(w.buf, r)
 	}
-	if len(w.buf) >= flushAt {
+	if w.direct || len(w.buf) >= flushAt {
 		w.flush()
 	}
 	return w.err
@@ -404,10 +423,15 @@ func (w *Writer) flush() {
 	if len(w.buf) == 0 || w.err != nil {
 		return
 	}
-	if err := outbuf.WriteAll(w.out, w.buf); err != nil {
+	w.fail(outbuf.WriteAll(w.out, w.buf))
+	w.buf = w.buf[:0]
+}
+
+// fail makes err, an error of the underlying writer, the Writer's sticky error.
+func (w *Writer) fail(err error) {
+	if err != nil && w.err == nil {
 		w.err = fmt.Errorf("csvout: %w", err)
 	}
-	w.buf = w.buf[:0]
 }
 
 // End flushes everything to the underlying writer.
@@ -419,7 +443,8 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	return w.err
 }
 
-// Abort drops what is buffered. The Writer holds no files of its own.
+// Abort drops what is buffered. The Writer holds no files of its own. In front of an
+// outbuf.Absorber it holds nothing: what the Absorber holds is for its owner to drop.
 func (w *Writer) Abort() {
 	w.buf = w.buf[:0]
 	w.out = io.Discard

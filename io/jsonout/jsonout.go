@@ -43,19 +43,23 @@ const flushAt = 64 << 10
 // every later call returns it.
 //
 // The lines are encoded by hand into one buffer, handed to the underlying writer in
-// blocks of about 64 KiB. The JSON form of texts and numbers that repeat from check to
+// blocks of about 64 KiB, except when that writer buffers cheaply itself (an
+// outbuf.Absorber, such as the command's output file): then each line goes to it as it
+// comes, straight from the buffer it was encoded in, which saves copying all the output
+// once more. The JSON form of texts and numbers that repeat from check to
 // check and hoist to hoist is made once and copied after that.
 //
 // Writer is also a fleet.Preparer: the pipeline's workers encode each hoist's line
 // (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
 // copies it out, so the encoding runs on every core.
 type Writer struct {
-	out  io.Writer
-	enc  *encoder        // encodes in Write the results no worker prepared
-	pool sync.Pool       // *encoder for Prepare
-	prep outbuf.Prepared // the workers' lines, recycled once written
-	buf  []byte          // output not yet written to out
-	err  error
+	out    io.Writer
+	enc    *encoder        // encodes in Write the results no worker prepared
+	pool   sync.Pool       // *encoder for Prepare
+	prep   outbuf.Prepared // the workers' lines, recycled once written
+	buf    []byte          // output not yet written to out
+	direct bool            // out absorbs writes (outbuf.Absorbs): buf is empty between calls
+	err    error
 }
 
 // encoder turns results into lines. Its caches only save work: whatever it encoded
@@ -84,9 +88,14 @@ type checkMemos struct {
 	figures                        []memo // by figure index: the key
 }
 
-// New returns a Writer writing to w. Nothing is guaranteed to reach w before End.
+// New returns a Writer writing to w. Nothing is guaranteed to reach w before End. When w
+// is an outbuf.Absorber that absorbs writes, the Writer holds nothing between calls and
+// writes each line to w as it comes.
 func New(w io.Writer, opts Options) *Writer {
-	wr := &Writer{out: w, enc: newEncoder(), buf: make([]byte, 0, flushAt+16<<10)}
+	wr := &Writer{out: w, enc: newEncoder(), direct: outbuf.Absorbs(w)}
+	if !wr.direct {
+		wr.buf = make([]byte, 0, flushAt+16<<10)
+	}
 	wr.pool.New = func() any { return newEncoder() }
 	return wr
 }
@@ -108,12 +117,19 @@ func (w *Writer) Write(r *fleet.Result) error {
 		w.err = fmt.Errorf("jsonout: result without an asset")
 		return w.err
 	}
+	if w.direct {
+		if ok, err := w.prep.WriteOut(w.out, r.Prepared); ok {
+			r.Prepared = nil
+			w.fail(err)
+			return w.err
+		}
+	}
 	if b, ok := w.prep.AppendTo(w.buf, r.Prepared); ok {
 		w.buf, r.Prepared = b, nil
 	} else {
 		w.buf = w.enc.appendHoist(w.buf, r)
 	}
-	if len(w.buf) >= flushAt {
+	if w.direct || len(w.buf) >= flushAt {
 		w.flush()
 	}
 	return w.err
@@ -293,10 +309,15 @@ func (w *Writer) flush() {
 	if len(w.buf) == 0 || w.err != nil {
 		return
 	}
-	if err := outbuf.WriteAll(w.out, w.buf); err != nil {
+	w.fail(outbuf.WriteAll(w.out, w.buf))
+	w.buf = w.buf[:0]
+}
+
+// fail makes err, an error of the underlying writer, the Writer's sticky error.
+func (w *Writer) fail(err error) {
+	if err != nil && w.err == nil {
 		w.err = fmt.Errorf("jsonout: %w", err)
 	}
-	w.buf = w.buf[:0]
 }
 
 // End flushes every line to the underlying writer.
@@ -308,7 +329,8 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	return w.err
 }
 
-// Abort drops what is buffered. The Writer holds no files of its own.
+// Abort drops what is buffered. The Writer holds no files of its own. In front of an
+// outbuf.Absorber it holds nothing: what the Absorber holds is for its owner to drop.
 func (w *Writer) Abort() {
 	w.buf = w.buf[:0]
 	w.out = io.Discard

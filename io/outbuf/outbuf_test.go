@@ -73,6 +73,87 @@ func TestWriteAll(t *testing.T) {
 	}
 }
 
+// watchWriter records each write and checks, before it returns, that the encoding it
+// is given has not been handed out for reuse yet: a Prepared.Encode made meanwhile (as a
+// worker's would be) must not get the same buffer.
+type watchWriter struct {
+	p    *Prepared
+	got  []string
+	errs []error
+}
+
+func (w *watchWriter) Write(b []byte) (int, error) {
+	w.got = append(w.got, string(b))
+	e := w.p.Encode(func(dst []byte) []byte { return append(dst, "other"...) })
+	if string(b) != w.got[len(w.got)-1] {
+		w.errs = append(w.errs, errors.New("the buffer being written was reused"))
+	}
+	w.p.AppendTo(nil, e)
+	return len(b), nil
+}
+
+// TestPreparedWriteOut: WriteOut writes an encoding of its own Prepared once, whole, and
+// recycles the buffer only after Write has returned; anything else is refused without a
+// write; write errors and short writes are reported as by WriteAll.
+func TestPreparedWriteOut(t *testing.T) {
+	var p, other Prepared
+	w := &watchWriter{p: &p}
+	for i := range 50 {
+		e := p.Encode(func(b []byte) []byte { return strconv.AppendInt(append(b, "line "...), int64(i), 10) })
+		if ok, err := p.WriteOut(w, e); !ok || err != nil {
+			t.Fatalf("WriteOut %d: %v, %v", i, ok, err)
+		}
+		if ok, _ := p.WriteOut(w, e); ok {
+			t.Fatalf("encoding %d written twice", i)
+		}
+		if want := "line " + strconv.Itoa(i); w.got[i] != want {
+			t.Fatalf("write %d: %q, want %q", i, w.got[i], want)
+		}
+	}
+	for _, err := range w.errs {
+		t.Error(err)
+	}
+	foreign := other.Encode(func(b []byte) []byte { return append(b, "x"...) })
+	for _, v := range []any{nil, "text", foreign} {
+		if ok, err := p.WriteOut(failWriter{}, v); ok || err != nil {
+			t.Errorf("WriteOut(%v) = %v, %v; want false, nil", v, ok, err)
+		}
+	}
+	for _, tt := range []struct {
+		w    io.Writer
+		want error
+	}{{failWriter{}, errDisk}, {shortWriter{}, io.ErrShortWrite}} {
+		e := p.Encode(func(b []byte) []byte { return append(b, "abcd"...) })
+		if ok, err := p.WriteOut(tt.w, e); !ok || !errors.Is(err, tt.want) {
+			t.Errorf("WriteOut to %T: %v, %v; want true, %v", tt.w, ok, err, tt.want)
+		}
+	}
+}
+
+// absorbing is an Absorber that says what it is told.
+type absorbing struct {
+	bytes.Buffer
+	absorbs bool
+}
+
+func (a *absorbing) AbsorbsWrites() bool { return a.absorbs }
+
+func TestAbsorbs(t *testing.T) {
+	for _, tt := range []struct {
+		w    io.Writer
+		want bool
+	}{
+		{&bytes.Buffer{}, false},
+		{io.Discard, false},
+		{&absorbing{absorbs: false}, false},
+		{&absorbing{absorbs: true}, true},
+	} {
+		if got := Absorbs(tt.w); got != tt.want {
+			t.Errorf("Absorbs(%T %+v) = %v, want %v", tt.w, tt.w, got, tt.want)
+		}
+	}
+}
+
 // TestNumCache: through the cache every number reads as format writes it, for edge
 // values and random ones repeated (hits and slot collisions alike), including a format
 // whose text is too long to keep.

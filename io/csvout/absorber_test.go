@@ -1,0 +1,220 @@
+package csvout
+
+import (
+	"bytes"
+	"errors"
+	"io"
+	"testing"
+
+	"hoistfleet/fleet"
+	"hoistfleet/io/outbuf"
+	"hoistfleet/io/sinktest"
+)
+
+// absorber makes w an outbuf.Absorber (as cmd/hoistfleet's flusher is) and counts the
+// writes it takes.
+type absorber struct {
+	w      io.Writer
+	writes int
+}
+
+var _ outbuf.Absorber = (*absorber)(nil)
+
+func (a *absorber) Write(p []byte) (int, error) { a.writes++; return a.w.Write(p) }
+func (a *absorber) AbsorbsWrites() bool         { return true }
+
+// failAfter takes ok writes, then fails every one.
+type failAfter struct {
+	ok  int
+	err error
+}
+
+func (f *failAfter) Write(p []byte) (int, error) {
+	if f.ok == 0 {
+		return 0, f.err
+	}
+	f.ok--
+	return len(p), nil
+}
+
+// countSink counts the results written, to compare with the writes an absorber took.
+type countSink struct{ n int }
+
+func (c *countSink) Begin(*fleet.Header, *fleet.RunInfo) error { return nil }
+func (c *countSink) Write(*fleet.Result) error                 { c.n++; return nil }
+func (c *countSink) End(*fleet.Summary, *fleet.RunInfo) error  { return nil }
+func (c *countSink) Abort()                                    {}
+
+// TestAbsorberSameBytes: in front of an outbuf.Absorber the Writer writes the header and
+// then each hoist's records as they come, one write each, and the bytes are exactly those
+// it writes in 64 KiB blocks to any other writer. Through the pipeline the workers'
+// Prepare runs concurrently with Write, so a buffer recycled before the absorber took it
+// would show as wrong bytes here (and as a race under -race). Results written without
+// Prepare, between prepared ones, keep their place.
+func TestAbsorberSameBytes(t *testing.T) {
+	regs := sinktest.DemoRegisters(t)
+	if !testing.Short() {
+		regs = append(regs, sinktest.GeneratedRegister(t, 400, "si", 3))
+	}
+	for _, reg := range regs {
+		for _, o := range []Options{{}, {Comma: ';', UseCRLF: true, BOM: true}} {
+			t.Run(reg.Name+"/"+dialectName(o), func(t *testing.T) {
+				c := sinktest.NewChecker(t, "iso", 1.25)
+				var blocks, out bytes.Buffer
+				sinktest.RunSinks(t, reg, c, New(&blocks, o))
+				direct, hoists := &absorber{w: &out}, &countSink{}
+				sinktest.RunSinks(t, reg, c, New(direct, o), hoists)
+				sameBytes(t, out.Bytes(), blocks.Bytes())
+				if direct.writes != 1+hoists.n {
+					t.Errorf("%d writes for the header and %d hoists, want one each", direct.writes, hoists.n)
+				}
+			})
+		}
+	}
+	t.Run("some unprepared", func(t *testing.T) {
+		rs := sinktest.RandomResults(7, 300)
+		var blocks, out bytes.Buffer
+		direct := &absorber{w: &out}
+		for _, w := range []*Writer{New(&blocks, Options{}), New(direct, Options{})} {
+			if err := w.Begin(&fleet.Header{}, &fleet.RunInfo{}); err != nil {
+				t.Fatal(err)
+			}
+			for i, r := range rs {
+				if i%3 != 0 {
+					w.Prepare(r)
+				}
+				if err := w.Write(r); err != nil {
+					t.Fatal(err)
+				}
+			}
+			if err := w.End(nil, nil); err != nil {
+				t.Fatal(err)
+			}
+		}
+		sameBytes(t, out.Bytes(), blocks.Bytes())
+		if direct.writes != 1+len(rs) {
+			t.Errorf("%d writes for the header and %d hoists, want one each", direct.writes, len(rs))
+		}
+	})
+}
+
+// TestAbsorberErrorsStick: in front of an absorber a failed write is reported by the call
+// that made it (Begin for the header, Write for a hoist) wrapped as every write error of
+// the Writer is, and every later Write and End returns it without writing again; a short
+// write is io.ErrShortWrite, as in front of any writer.
+func TestAbsorberErrorsStick(t *testing.T) {
+	diskFull := errors.New("no space left on device")
+	tests := []struct {
+		name     string
+		ok       int  // writes that succeed: the header, then hoists
+		prepared bool // the results are prepared, as the pipeline does
+	}{
+		{"header", 0, true},
+		{"prepared hoist", 2, true},
+		{"unprepared hoist", 2, false},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			direct := &absorber{w: &failAfter{ok: tt.ok, err: diskFull}}
+			w := New(direct, Options{})
+			first := w.Begin(&fleet.Header{}, &fleet.RunInfo{})
+			for _, r := range fixture() {
+				if tt.prepared {
+					w.Prepare(r)
+				}
+				if err := w.Write(r); first == nil {
+					first = err
+				} else if err != first {
+					t.Errorf("Write after %v: %v", first, err)
+				}
+			}
+			if !errors.Is(first, diskFull) || first.Error() != "csvout: "+diskFull.Error() {
+				t.Fatalf("first error %v, want csvout: %v", first, diskFull)
+			}
+			if err := w.End(nil, nil); err != first {
+				t.Errorf("End after %v: %v", first, err)
+			}
+			if direct.writes != tt.ok+1 {
+				t.Errorf("%d writes, want %d: none after the failed one", direct.writes, tt.ok+1)
+			}
+		})
+	}
+	t.Run("short write", func(t *testing.T) {
+		sinktest.ShortWriteSticks(t, func(w io.Writer) fleet.Sink { return New(&absorber{w: w}, Options{}) }, fixture()[0])
+	})
+}
+
+// TestAbsorberAbort: after Abort nothing more reaches the absorber (what it already took
+// is its owner's to drop).
+func TestAbsorberAbort(t *testing.T) {
+	var out bytes.Buffer
+	direct := &absorber{w: &out}
+	w := New(direct, Options{})
+	_ = w.Begin(&fleet.Header{}, &fleet.RunInfo{})
+	rs := fixture()
+	_ = w.Write(rs[0])
+	took := direct.writes
+	w.Abort()
+	for _, r := range rs[1:] {
+		w.Prepare(r)
+		_ = w.Write(r)
+	}
+	_ = w.End(nil, nil)
+	if direct.writes != took {
+		t.Errorf("%d writes after Abort", direct.writes-took)
+	}
+}
+
+// chunkCopier copies what it is given into a reused 4 MiB chunk, as cmd/hoistfleet's
+// flusher does; absorbs says whether it claims to be an outbuf.Absorber.
+type chunkCopier struct {
+	chunk   []byte
+	absorbs bool
+	n       int64
+}
+
+func (c *chunkCopier) Write(p []byte) (int, error) {
+	n := len(p)
+	for len(p) > 0 {
+		if len(c.chunk) == cap(c.chunk) {
+			c.chunk = c.chunk[:0]
+		}
+		k := copy(c.chunk[len(c.chunk):cap(c.chunk)], p)
+		c.chunk, p = c.chunk[:len(c.chunk)+k], p[k:]
+		c.n += int64(k)
+	}
+	return n, nil
+}
+
+func (c *chunkCopier) AbsorbsWrites() bool { return c.absorbs }
+
+// BenchmarkWritePrepared writes 2000 checked hoists as the command does, each prepared
+// (encoded) and then written, into a writer that copies into 4 MiB chunks like the
+// command's flusher: "blocks" gathers 64 KiB blocks first (the writer does not claim to
+// absorb writes), "direct" hands each hoist's bytes straight on.
+func BenchmarkWritePrepared(b *testing.B) {
+	h, rs := sinktest.BenchResults(b)
+	for _, absorbs := range []bool{false, true} {
+		name := map[bool]string{false: "blocks", true: "direct"}[absorbs]
+		b.Run(name, func(b *testing.B) {
+			out := &chunkCopier{chunk: make([]byte, 0, 4<<20), absorbs: absorbs}
+			for b.Loop() {
+				w := New(out, Options{})
+				if err := w.Begin(h, &fleet.RunInfo{}); err != nil {
+					b.Fatal(err)
+				}
+				for _, r := range rs {
+					w.Prepare(r)
+					if err := w.Write(r); err != nil {
+						b.Fatal(err)
+					}
+				}
+				if err := w.End(nil, nil); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*len(rs)), "ns/hoist")
+			b.ReportMetric(float64(out.n)/float64(b.N*len(rs)), "bytes/hoist")
+		})
+	}
+}
