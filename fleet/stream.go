@@ -45,8 +45,10 @@ type Recycler interface {
 }
 
 // Forgetter is implemented by a Sink that may say it keeps nothing of a Result once Write
-// has returned: no pointer to the Result, its Asset, or the Asset's Values, Cells or
-// Problems (strings copied out of them are fine). Only then does Run recycle Assets.
+// has returned: no pointer to the Result, its checks, figures or proposed evaluation, its
+// Asset, or the Asset's Values, Cells or Problems (strings and numbers copied out of them
+// are fine). Only then does Run recycle them: the Result's memory goes back to the
+// Checker for a later hoist, and the Asset to a Source that is a Recycler.
 type Forgetter interface {
 	ForgetsResults() bool
 }
