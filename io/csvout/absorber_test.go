@@ -7,43 +7,8 @@ import (
 	"testing"
 
 	"hoistfleet/fleet"
-	"hoistfleet/io/outbuf"
 	"hoistfleet/io/sinktest"
 )
-
-// absorber makes w an outbuf.Absorber (as cmd/hoistfleet's flusher is) and counts the
-// writes it takes.
-type absorber struct {
-	w      io.Writer
-	writes int
-}
-
-var _ outbuf.Absorber = (*absorber)(nil)
-
-func (a *absorber) Write(p []byte) (int, error) { a.writes++; return a.w.Write(p) }
-func (a *absorber) AbsorbsWrites() bool         { return true }
-
-// failAfter takes ok writes, then fails every one.
-type failAfter struct {
-	ok  int
-	err error
-}
-
-func (f *failAfter) Write(p []byte) (int, error) {
-	if f.ok == 0 {
-		return 0, f.err
-	}
-	f.ok--
-	return len(p), nil
-}
-
-// countSink counts the results written, to compare with the writes an absorber took.
-type countSink struct{ n int }
-
-func (c *countSink) Begin(*fleet.Header, *fleet.RunInfo) error { return nil }
-func (c *countSink) Write(*fleet.Result) error                 { c.n++; return nil }
-func (c *countSink) End(*fleet.Summary, *fleet.RunInfo) error  { return nil }
-func (c *countSink) Abort()                                    {}
 
 // TestAbsorberSameBytes: in front of an outbuf.Absorber the Writer writes the header and
 // then each hoist's records as they come, one write each, and the bytes are exactly those
@@ -62,11 +27,11 @@ func TestAbsorberSameBytes(t *testing.T) {
 				c := sinktest.NewChecker(t, "iso", 1.25)
 				var blocks, out bytes.Buffer
 				sinktest.RunSinks(t, reg, c, New(&blocks, o))
-				direct, hoists := &absorber{w: &out}, &countSink{}
+				direct, hoists := &sinktest.Absorber{W: &out}, &sinktest.CountSink{}
 				sinktest.RunSinks(t, reg, c, New(direct, o), hoists)
 				sameBytes(t, out.Bytes(), blocks.Bytes())
-				if direct.writes != 1+hoists.n {
-					t.Errorf("%d writes for the header and %d hoists, want one each", direct.writes, hoists.n)
+				if direct.Writes != 1+hoists.N {
+					t.Errorf("%d writes for the header and %d hoists, want one each", direct.Writes, hoists.N)
 				}
 			})
 		}
@@ -74,7 +39,7 @@ func TestAbsorberSameBytes(t *testing.T) {
 	t.Run("some unprepared", func(t *testing.T) {
 		rs := sinktest.RandomResults(7, 300)
 		var blocks, out bytes.Buffer
-		direct := &absorber{w: &out}
+		direct := &sinktest.Absorber{W: &out}
 		for _, w := range []*Writer{New(&blocks, Options{}), New(direct, Options{})} {
 			if err := w.Begin(&fleet.Header{}, &fleet.RunInfo{}); err != nil {
 				t.Fatal(err)
@@ -92,8 +57,8 @@ func TestAbsorberSameBytes(t *testing.T) {
 			}
 		}
 		sameBytes(t, out.Bytes(), blocks.Bytes())
-		if direct.writes != 1+len(rs) {
-			t.Errorf("%d writes for the header and %d hoists, want one each", direct.writes, len(rs))
+		if direct.Writes != 1+len(rs) {
+			t.Errorf("%d writes for the header and %d hoists, want one each", direct.Writes, len(rs))
 		}
 	})
 }
@@ -115,7 +80,7 @@ func TestAbsorberErrorsStick(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			direct := &absorber{w: &failAfter{ok: tt.ok, err: diskFull}}
+			direct := &sinktest.Absorber{W: &sinktest.FailAfter{OK: tt.ok, Err: diskFull}}
 			w := New(direct, Options{})
 			first := w.Begin(&fleet.Header{}, &fleet.RunInfo{})
 			for _, r := range fixture() {
@@ -134,13 +99,13 @@ func TestAbsorberErrorsStick(t *testing.T) {
 			if err := w.End(nil, nil); err != first {
 				t.Errorf("End after %v: %v", first, err)
 			}
-			if direct.writes != tt.ok+1 {
-				t.Errorf("%d writes, want %d: none after the failed one", direct.writes, tt.ok+1)
+			if direct.Writes != tt.ok+1 {
+				t.Errorf("%d writes, want %d: none after the failed one", direct.Writes, tt.ok+1)
 			}
 		})
 	}
 	t.Run("short write", func(t *testing.T) {
-		sinktest.ShortWriteSticks(t, func(w io.Writer) fleet.Sink { return New(&absorber{w: w}, Options{}) }, fixture()[0])
+		sinktest.ShortWriteSticks(t, func(w io.Writer) fleet.Sink { return New(&sinktest.Absorber{W: w}, Options{}) }, fixture()[0])
 	})
 }
 
@@ -148,20 +113,20 @@ func TestAbsorberErrorsStick(t *testing.T) {
 // is its owner's to drop).
 func TestAbsorberAbort(t *testing.T) {
 	var out bytes.Buffer
-	direct := &absorber{w: &out}
+	direct := &sinktest.Absorber{W: &out}
 	w := New(direct, Options{})
 	_ = w.Begin(&fleet.Header{}, &fleet.RunInfo{})
 	rs := fixture()
 	_ = w.Write(rs[0])
-	took := direct.writes
+	took := direct.Writes
 	w.Abort()
 	for _, r := range rs[1:] {
 		w.Prepare(r)
 		_ = w.Write(r)
 	}
 	_ = w.End(nil, nil)
-	if direct.writes != took {
-		t.Errorf("%d writes after Abort", direct.writes-took)
+	if direct.Writes != took {
+		t.Errorf("%d writes after Abort", direct.Writes-took)
 	}
 }
 
