@@ -871,11 +871,13 @@ func (c *Checker) Check(a *Asset) *Result {
 }
 
 // newResult returns an empty Result for a, with the memory of a recycled one when there
-// is one.
+// is one. A new Result has no figure memory of its own (its checks' figures are each
+// allocated, as a kept Result's should be: a FigureBuf's blocks are sized for reuse);
+// recycle gives it one.
 func (c *Checker) newResult(a *Asset) *Result {
 	r, ok := c.results.Get().(*Result)
 	if !ok {
-		r = &Result{figs: new(calc.FigureBuf)}
+		r = new(Result)
 	}
 	r.Asset = a
 	return r
@@ -889,7 +891,7 @@ func (c *Checker) newResult(a *Asset) *Result {
 func (c *Checker) recycle(r *Result) {
 	figs, checks, proposed, rules := r.figs, r.Checks[:0], r.spare.Checks[:0], r.rules[:0]
 	if figs == nil {
-		return // not made by newResult
+		figs = new(calc.FigureBuf) // from its next use on
 	}
 	figs.Reset()
 	*r = Result{figs: figs, rules: rules}

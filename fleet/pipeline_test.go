@@ -114,6 +114,7 @@ type recordingSink struct {
 	delay    time.Duration // per Write
 	failAt   int           // > 0: Write number failAt fails
 	onWrite  func(n int64) // called after each write
+	before   func(n int64) // called before each write, with the writes so far
 	writeErr error
 }
 
@@ -127,6 +128,9 @@ func (k *recordingSink) Begin(h *Header, info *RunInfo) error {
 }
 
 func (k *recordingSink) Write(r *Result) error {
+	if k.before != nil {
+		k.before(k.writes.Load())
+	}
 	if k.delay > 0 {
 		time.Sleep(k.delay)
 	}
@@ -413,13 +417,20 @@ func TestRunSourceAndSinkFailures(t *testing.T) {
 
 // TestRunMemoryBounded: with Buffer = b the reader never runs more than b rows ahead
 // of the writer, however slow the writer (pipeline.go: memory bounded by the reorder
-// buffer, not by the register). The slow writer makes the reader reach the bound.
+// buffer, not by the register). The writer holds its first write until the reader has
+// read b rows, so the bound is reached whatever the speed of the checks (under -race
+// they can be slower than the slow writer), and then stays slow.
 func TestRunMemoryBounded(t *testing.T) {
 	for _, cfg := range []struct{ workers, buffer int }{{4, 8}, {2, 8}, {4, 1}, {1, 3}} {
 		t.Run(fmt.Sprintf("workers=%d buffer=%d", cfg.workers, cfg.buffer), func(t *testing.T) {
 			const n = 300
 			sink := &recordingSink{delay: 300 * time.Microsecond}
 			src := &fakeSource{h: testHeader(), n: n, sink: sink, buffer: int64(cfg.buffer), gen: func(i int) *Asset { return rowAsset(t, i) }}
+			sink.before = func(written int64) {
+				for deadline := time.Now().Add(20 * time.Second); written == 0 && src.reads.Load() < int64(cfg.buffer) && time.Now().Before(deadline); {
+					time.Sleep(time.Millisecond)
+				}
+			}
 			_, err := runWithin(t, 60*time.Second, context.Background(), src, sink, checkerWith(t, cfg.workers, cfg.buffer), &RunInfo{}, nil)
 			if err != nil {
 				t.Fatal(err)

@@ -87,21 +87,29 @@ func TestRecycledResultsAreWrittenIntact(t *testing.T) {
 	}
 }
 
-// TestCheckReusesARecycledResult: a recycled Result's memory is what the next Check
-// fills. sync.Pool may drop an item (the race detector drops one in four on purpose),
-// so the test asks for reuse at least once in 20 tries.
+// TestCheckReusesARecycledResult: a new Result has no figure memory of its own (a kept
+// Result must not hold a whole block); a recycled one gets it, and its memory is what
+// the next Check fills. sync.Pool may drop an item (the race detector drops one in four
+// on purpose), so the test asks for reuse at least once in 20 tries.
 func TestCheckReusesARecycledResult(t *testing.T) {
 	c := isoChecker(t)
 	a := winchA(t).num("proposed_rated_load", 6000).asset()
+	if r := c.Check(a); r.figs != nil {
+		t.Error("a new Result has figure memory of its own")
+	}
 	for range 20 {
 		r := c.Check(a)
-		checks, figs := &r.Checks[0], r.figs
+		checks := &r.Checks[0]
 		if r.Proposed != &r.spare {
 			t.Fatal("the proposed evaluation is not kept in the Result's own memory")
 		}
 		c.recycle(r)
 		if len(r.Checks) != 0 || r.Proposed != nil || r.Asset != nil {
 			t.Fatalf("a recycled Result still holds its hoist: %d checks, proposed %v, asset %v", len(r.Checks), r.Proposed, r.Asset)
+		}
+		figs := r.figs
+		if figs == nil {
+			t.Fatal("a recycled Result has no figure memory")
 		}
 		again := c.Check(a)
 		if again == r && &again.Checks[0] == checks && again.figs == figs {

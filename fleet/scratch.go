@@ -27,10 +27,10 @@ func (c *Checker) getScratch() *scratch {
 }
 
 // putScratch drops the scratch's references to the hoist (its asset, the closures that
-// read it) and keeps it for the next Check.
+// read it, its Result's figure memory) and keeps it for the next Check.
 func (c *Checker) putScratch(s *scratch) {
 	clear(s.prepared)
-	s.d.a, s.d.closedLimit = nil, nil
+	s.d.a, s.d.closedLimit, s.d.h.Figs = nil, nil, nil
 	c.scratch.Put(s)
 }
 
