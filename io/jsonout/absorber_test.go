@@ -2,7 +2,6 @@ package jsonout
 
 import (
 	"bytes"
-	"errors"
 	"io"
 	"testing"
 
@@ -66,7 +65,6 @@ func TestAbsorberSameBytes(t *testing.T) {
 // Write and End returns it without writing again; a short write is io.ErrShortWrite, as
 // in front of any writer.
 func TestAbsorberErrorsStick(t *testing.T) {
-	diskFull := errors.New("no space left on device")
 	tests := []struct {
 		name     string
 		ok       int  // writes (hoists) that succeed
@@ -78,52 +76,19 @@ func TestAbsorberErrorsStick(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			direct := &sinktest.Absorber{W: &sinktest.FailAfter{OK: tt.ok, Err: diskFull}}
-			w := New(direct, Options{})
-			first := w.Begin(&fleet.Header{}, &fleet.RunInfo{})
-			for _, r := range fixture() {
-				if tt.prepared {
-					w.Prepare(r)
-				}
-				if err := w.Write(r); first == nil {
-					first = err
-				} else if err != first {
-					t.Errorf("Write after %v: %v", first, err)
-				}
-			}
-			if !errors.Is(first, diskFull) || first.Error() != "jsonout: "+diskFull.Error() {
-				t.Fatalf("first error %v, want jsonout: %v", first, diskFull)
-			}
-			if err := w.End(nil, nil); err != first {
-				t.Errorf("End after %v: %v", first, err)
-			}
-			if direct.Writes != tt.ok+1 {
-				t.Errorf("%d writes, want %d: none after the failed one", direct.Writes, tt.ok+1)
-			}
+			sinktest.AbsorbedErrorsStick(t, newDirect, fixture(), "jsonout: ", tt.ok, tt.prepared)
 		})
 	}
 	t.Run("short write", func(t *testing.T) {
-		sinktest.ShortWriteSticks(t, func(w io.Writer) fleet.Sink { return New(&sinktest.Absorber{W: w}, Options{}) }, fixture()[0])
+		sinktest.ShortWriteSticks(t, newDirect, fixture()[0])
 	})
 }
 
 // TestAbsorberAbort: after Abort nothing more reaches the absorber (what it already took
 // is its owner's to drop).
 func TestAbsorberAbort(t *testing.T) {
-	var out bytes.Buffer
-	direct := &sinktest.Absorber{W: &out}
-	w := New(direct, Options{})
-	_ = w.Begin(&fleet.Header{}, &fleet.RunInfo{})
-	rs := fixture()
-	_ = w.Write(rs[0])
-	took := direct.Writes
-	w.Abort()
-	for _, r := range rs[1:] {
-		w.Prepare(r)
-		_ = w.Write(r)
-	}
-	_ = w.End(nil, nil)
-	if direct.Writes != took {
-		t.Errorf("%d writes after Abort", direct.Writes-took)
-	}
+	sinktest.AbsorberAbortWritesNothing(t, newDirect, fixture())
 }
+
+// newDirect is a Writer in front of an absorber (sinktest.Absorber around w).
+func newDirect(w io.Writer) fleet.Sink { return New(&sinktest.Absorber{W: w}, Options{}) }

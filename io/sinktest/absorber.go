@@ -1,7 +1,10 @@
 package sinktest
 
 import (
+	"bytes"
+	"errors"
 	"io"
+	"testing"
 
 	"hoistfleet/fleet"
 	"hoistfleet/io/outbuf"
@@ -43,3 +46,63 @@ func (c *CountSink) Begin(*fleet.Header, *fleet.RunInfo) error { return nil }
 func (c *CountSink) Write(*fleet.Result) error                 { c.N++; return nil }
 func (c *CountSink) End(*fleet.Summary, *fleet.RunInfo) error  { return nil }
 func (c *CountSink) Abort()                                    {}
+
+// The checks below hold for any sink that, in front of an Absorber, writes each hoist as
+// it comes (io/csvout, io/jsonout). newSink makes the sink under test.
+
+// AbsorbedErrorsStick checks, in front of an Absorber whose writer takes ok writes and
+// then fails, that the first error comes from the call whose write failed (Begin for a
+// header, Write for a hoist), wrapped with prefix ("csvout: "), and that every later
+// Write and End returns it without writing again. With prepared the results go through
+// the sink's Prepare first, as the pipeline's workers do.
+func AbsorbedErrorsStick(t *testing.T, newSink func(io.Writer) fleet.Sink, rs []*fleet.Result, prefix string, ok int, prepared bool) {
+	t.Helper()
+	diskFull := errors.New("no space left on device")
+	direct := &Absorber{W: &FailAfter{OK: ok, Err: diskFull}}
+	w := newSink(direct)
+	prep, _ := w.(fleet.Preparer)
+	first := w.Begin(&fleet.Header{}, &fleet.RunInfo{})
+	for _, r := range rs {
+		if prepared && prep != nil {
+			prep.Prepare(r)
+		}
+		if err := w.Write(r); first == nil {
+			first = err
+		} else if err != first {
+			t.Errorf("Write after %v: %v", first, err)
+		}
+	}
+	if !errors.Is(first, diskFull) || first.Error() != prefix+diskFull.Error() {
+		t.Fatalf("first error %v, want %s%v", first, prefix, diskFull)
+	}
+	if err := w.End(nil, nil); err != first {
+		t.Errorf("End after %v: %v", first, err)
+	}
+	if direct.Writes != ok+1 {
+		t.Errorf("%d writes, want %d: none after the failed one", direct.Writes, ok+1)
+	}
+}
+
+// AbsorberAbortWritesNothing checks that after Abort nothing more reaches the Absorber
+// (what it already took is its owner's to drop), prepared results included.
+func AbsorberAbortWritesNothing(t *testing.T, newSink func(io.Writer) fleet.Sink, rs []*fleet.Result) {
+	t.Helper()
+	var out bytes.Buffer
+	direct := &Absorber{W: &out}
+	w := newSink(direct)
+	prep, _ := w.(fleet.Preparer)
+	_ = w.Begin(&fleet.Header{}, &fleet.RunInfo{})
+	_ = w.Write(rs[0])
+	took := direct.Writes
+	w.Abort()
+	for _, r := range rs[1:] {
+		if prep != nil {
+			prep.Prepare(r)
+		}
+		_ = w.Write(r)
+	}
+	_ = w.End(nil, nil)
+	if direct.Writes != took {
+		t.Errorf("%d writes after Abort", direct.Writes-took)
+	}
+}
