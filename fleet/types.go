@@ -11,8 +11,6 @@ import (
 	"strings"
 	"time"
 
-	"github.com/xuri/excelize/v2"
-
 	"hoistfleet/templates"
 )
 
@@ -107,11 +105,11 @@ func (c CellRef) String() string {
 	case c.Col == 0:
 		return fmt.Sprintf("%s!%d:%d", c.Sheet, c.Row, c.Row)
 	case c.Row == 0:
-		name, _ := excelize.ColumnNumberToName(c.Col)
+		name := ColumnName(c.Col) // "" outside 1..16384: "Sheet!:"
 		return fmt.Sprintf("%s!%s:%s", c.Sheet, name, name)
 	}
-	name, err := excelize.CoordinatesToCellName(c.Col, c.Row)
-	if err != nil {
+	name, ok := CellName(c.Col, c.Row)
+	if !ok {
 		return fmt.Sprintf("%s!R%dC%d", c.Sheet, c.Row, c.Col)
 	}
 	return c.Sheet + "!" + name
