@@ -9,7 +9,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	blank "hoistfleet/io/template"
+	"hoistfleet/io/blank"
 	"hoistfleet/templates"
 )
 

@@ -5,7 +5,7 @@
 // converted to the header's unit) and a Notes sheet listing every column and the
 // caution. Units are SI ("si", the schema's default units) or US customary ("us").
 //
-// The package lives in io/template but is named blank, so that it does not clash with
+// The package is named blank, not template, so that it does not clash with
 // text/template.
 package blank
 
