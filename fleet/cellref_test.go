@@ -77,8 +77,8 @@ func TestCellName(t *testing.T) {
 }
 
 // CellRef.String in each of its forms, including references outside a sheet's limits
-// (these texts are what a user sees in an error message; they were checked against
-// excelize's ColumnNumberToName and CoordinatesToCellName for every column).
+// (what a user sees in an error message; the same texts as excelize's
+// ColumnNumberToName and CoordinatesToCellName give).
 func TestCellRefString(t *testing.T) {
 	for _, tc := range []struct {
 		ref  CellRef

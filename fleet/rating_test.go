@@ -223,8 +223,8 @@ func TestLimitLoadClosedForm(t *testing.T) {
 // winchB has two drum-mounted brakes. Its gearbox-torque demand in an emergency stop is
 // η_g i² J_m α_b, and α_b grows as the load falls (a lighter load decelerates faster);
 // calc.GearboxTorque therefore takes the stop with the empty hook, the worst case, so the
-// check's utilisation no longer falls with load. This test keeps a limit search that
-// assumed a utilisation rising from zero load from rating a passing hoist 0 kg.
+// check's utilisation does not fall with load. This test keeps a limit search that
+// assumes a utilisation rising from zero load from rating a passing hoist 0 kg.
 func TestRatingNotBelowAPassingRatedLoad(t *testing.T) {
 	for _, tc := range []struct {
 		name string

@@ -19,11 +19,11 @@ const (
 // the pages already written (posix_fadvise POSIX_FADV_DONTNEED over the whole file), so
 // that gigabytes of long form neither pile up in the page cache nor wait to be written at
 // the end. It does not wait for the disk: a sync (fsync) in the middle of a run holds up
-// the file system's journal and left the workers idle for about 2 s of a million-hoist
+// the file system's journal and leaves the workers idle for about 2 s of a million-hoist
 // run; output.commit's final sync makes the file durable. On this project's CI machines
-// (virtual, 2 cores) writing into fresh page-cache pages was the costliest part of a
-// million-hoist CSV run (22 s of system time; 5.8 s with the advice). Both calls are
-// advice: their errors are ignored.
+// (virtual, 2 cores) writing into fresh page-cache pages is, without the advice, the
+// costliest part of a million-hoist CSV run (22 s of system time; 5.8 s with it). Both
+// calls are advice: their errors are ignored.
 func writeBackAndDrop(f *os.File) func() error {
 	return func() error {
 		rc, err := f.SyscallConn()

@@ -28,8 +28,8 @@ var errFlusherClosed = errors.New("write after the output was closed")
 //   - Writes are copied into chunks of chunkSize that a goroutine of its own writes to the
 //     file in order. A write(2) into the page cache can block for milliseconds (while the
 //     file system commits its journal, say); the reorder buffer holds only a few
-//     milliseconds of results, so a blocked write used to stall every worker. Up to
-//     maxChunks × chunkSize of output now absorbs it.
+//     milliseconds of results, so a write that blocked the result writer would stall
+//     every worker. Up to maxChunks × chunkSize of output absorbs it.
 //   - Every flushEvery bytes a third goroutine calls sync, which asks the operating system
 //     to write the file back (writeBackAndDrop; a plain fsync where that is not
 //     available), so that the disk writes the results while the hoists are still being

@@ -14,7 +14,7 @@ import (
 	"hoistfleet/io/sinktest"
 )
 
-// The differential tests: the Writer must write exactly the bytes the previous writer
+// The differential tests: the Writer must write exactly the bytes the reference writer
 // (reference_test.go) writes, for real registers and for random results, in every
 // dialect.
 

@@ -37,7 +37,7 @@ func checkField(t *testing.T, s string, comma rune) {
 	if len(fields) != 2 || fields[1] != want {
 		t.Fatalf("field %q, separator %q: wrote %q, read back %q, want [%s %q]", s, comma, rec, fields, first, want)
 	}
-	// the same bytes from []byte input, and the same decision as the previous writer
+	// the same bytes from []byte input, and the same decision as the reference writer
 	if got := string(appendText(&fc, nil, []byte(s))); got != string(rec[len(first)+len(string(comma)):len(rec)-1]) {
 		t.Fatalf("field %q: string and []byte encodings differ", s)
 	}

@@ -37,7 +37,7 @@ func TestAppendGMatchesStrconv(t *testing.T) {
 	}
 }
 
-// BenchmarkAppendNum formats the numbers of real results: as the previous writer did
+// BenchmarkAppendNum formats the numbers of real results: as the reference writer does
 // (strconv), with outbuf.AppendShortest, and through outbuf.NumCache.
 func BenchmarkAppendNum(b *testing.B) {
 	_, rs := sinktest.BenchResults(b)

@@ -1,8 +1,7 @@
 package csvout
 
-// The writer as it was before the fast path (commit f7400a6), moved here verbatim with
-// its identifiers prefixed "ref": the differential tests compare the new Writer's bytes
-// with it.
+// The writer of commit f7400a6, without the fast path, kept here verbatim with its
+// identifiers prefixed "ref": the differential tests compare the Writer's bytes with it.
 
 import (
 	"bufio"

@@ -9,7 +9,7 @@ import (
 	"hoistfleet/io/sinktest"
 )
 
-// The differential tests: the Writer must write exactly the bytes the previous writer
+// The differential tests: the Writer must write exactly the bytes the reference writer
 // (reference_test.go, encoding/json) writes, for real registers and random results.
 
 // writeBoth writes rs with the Writer and with the reference writer.

@@ -9,8 +9,8 @@ import (
 	"hoistfleet/io/outbuf"
 )
 
-// JSON values written exactly as encoding/json writes them with SetEscapeHTML(false),
-// the form of the lines before this encoder replaced it.
+// JSON values written exactly as encoding/json writes them with SetEscapeHTML(false)
+// (the differential tests compare them with refWriter, which uses encoding/json).
 
 // safe marks the ASCII bytes written as they are inside a JSON string: printable ASCII
 // but '"' and '\\' (with HTML escaping off, <, > and & are written as they are).

@@ -10,8 +10,8 @@ import (
 	"hoistfleet/io/sinktest"
 )
 
-// jsonString is s as encoding/json writes it with SetEscapeHTML(false), as the lines
-// were written before the hand-written encoder.
+// jsonString is s as encoding/json writes it with SetEscapeHTML(false): the form the
+// hand-written encoder reproduces.
 func jsonString(t *testing.T, s string) string {
 	t.Helper()
 	var buf bytes.Buffer

@@ -1,8 +1,8 @@
 package jsonout
 
-// The writer as it was before the hand-written encoder (commit f7400a6), moved here
-// verbatim with its identifiers prefixed "ref": the differential tests compare the new
-// Writer's bytes with it.
+// The writer of commit f7400a6, which encodes with encoding/json (no hand-written
+// encoder), kept here verbatim with its identifiers prefixed "ref": the differential
+// tests compare the Writer's bytes with it.
 
 import (
 	"bufio"

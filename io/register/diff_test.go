@@ -83,7 +83,8 @@ func showValue(v fleet.Value) string {
 }
 
 // TestCellConversionMatchesReference: every column × every corpus cell × every dialect
-// converts exactly as the reference (the reader before the speed-ups) did.
+// converts exactly as the reference (reference_test.go: commit f7400a6's conversion,
+// without the speed-ups) does.
 func TestCellConversionMatchesReference(t *testing.T) {
 	specs := diffSpecs(t)
 	var cells []string
@@ -131,7 +132,7 @@ func sameHelpers(t *testing.T, s string) {
 }
 
 // FuzzCellMatchesReference: any cell, in any column and dialect, converts exactly as the
-// reference did.
+// reference does.
 func FuzzCellMatchesReference(f *testing.F) {
 	for i, c := range cellCorpus {
 		f.Add(c, uint8(i), uint8(i%4))

@@ -35,7 +35,7 @@ func TestRangeBoundsMatchCheckRange(t *testing.T) {
 }
 
 // TestNumberCellsAtBoundsMatchReference: cells written at, just inside and just outside
-// each column's range, in the column's own unit, convert exactly as the reference did
+// each column's range, in the column's own unit, convert exactly as the reference does
 // (the common number path decides the range with prepare's bounds).
 func TestNumberCellsAtBoundsMatchReference(t *testing.T) {
 	specs := diffSpecs(t)

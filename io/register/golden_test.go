@@ -25,10 +25,10 @@ import (
 )
 
 // The golden dumps in testdata/golden are every field of every Asset (and the Header)
-// that the reader returned for the registers below, written by the reader as it was
-// before the per-row speed-ups (commit f7400a6, run with -update-golden before any
-// change to the reader). TestGoldenDumps compares the current reader against them, so a
-// faster path that changes a single message, state, number bit or cell flag fails.
+// that the reader of commit f7400a6 (without the per-row speed-ups) returns for the
+// registers below, written by it with -update-golden. TestGoldenDumps compares the
+// current reader against them, so a faster path that changes a single message, state,
+// number bit or cell flag fails.
 var updateGolden = flag.Bool("update-golden", false, "rewrite testdata/golden from the current reader")
 
 // goldenInputs returns the registers the dumps are made of: name → (file bytes, is XLSX).

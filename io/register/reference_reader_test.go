@@ -1,6 +1,6 @@
 package register
 
-// The reader's row path as it was before the per-hoist CSV speed-ups (commit dafac1f):
+// The reader's row path of commit dafac1f, without the per-hoist CSV speed-ups:
 // NewCSV over encoding/csv, its csvSource, Next and asset, kept verbatim under ref* names
 // (asset converting each cell with refParse, the reference conversion) as the oracle of
 // reader_diff_test.go. It is not used by the reader.
@@ -17,13 +17,13 @@ import (
 	"hoistfleet/fleet"
 )
 
-// refReader is the Reader as it was: a Reader whose duplicate check is a map.
+// refReader is the Reader of commit dafac1f: a Reader whose duplicate check is a map.
 type refReader struct {
 	*Reader
 	refIDs map[string]int // asset id → row where first seen
 }
 
-// refNewCSV is NewCSV as it was.
+// refNewCSV is NewCSV of commit dafac1f.
 func refNewCSV(r io.Reader, name string) (*refReader, error) {
 	file := displayName(name)
 	text, sep, err := csvStream(r)
@@ -112,7 +112,7 @@ func (s *refCSVSource) next() (rawRow, error) {
 
 func (s *refCSVSource) close() error { return nil }
 
-// refNext is Next as it was, building each Asset with refAsset.
+// refNext is Next of commit dafac1f, building each Asset with refAsset.
 func (r *refReader) refNext(ctx context.Context) (*fleet.Asset, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -161,7 +161,7 @@ func (r *refReader) refNext(ctx context.Context) (*fleet.Asset, error) {
 	}
 }
 
-// refAsset is asset as it was, converting each cell with refParse.
+// refAsset is asset of commit dafac1f, converting each cell with refParse.
 func (r *refReader) refAsset(rr rawRow) *fleet.Asset {
 	n := len(r.specs)
 	a := &fleet.Asset{Index: r.index, Row: rr.row, Cells: make([]fleet.Cell, n)}

@@ -1,7 +1,7 @@
 package register
 
-// The reader's per-cell conversion as it was before the per-row speed-ups (commit
-// f7400a6), kept verbatim under ref* names as the oracle of the differential tests in
+// The reader's per-cell conversion of commit f7400a6, without the per-row speed-ups,
+// kept verbatim under ref* names as the oracle of the differential tests in
 // diff_test.go. It is not used by the reader.
 
 import (
@@ -292,7 +292,7 @@ func (s *colSpec) refMatchEnum(text string) (string, bool) {
 	return "", false
 }
 
-// The first pass over the sheet XML as it was (commit f7400a6).
+// The first pass over the sheet XML of commit f7400a6.
 
 // scan counts the formula elements (<f> or <f …>) that start in win at or after from,
 // and notes the reference of the cell each belongs to when the window holds it.

@@ -62,8 +62,9 @@ func boundarySheet(offset int, mergesAtBoundary bool) string {
 }
 
 // TestScanSheetMatchesReference: the first pass finds the same merged cells, formula count
-// and first formula cells as the pass it replaced, whether it reads the sheet from the zip
-// or from memory, with the markers at every offset around a window boundary.
+// and first formula cells as the reference pass (refScanSheet), whether it reads the
+// sheet from the zip or from memory, with the markers at every offset around a window
+// boundary.
 func TestScanSheetMatchesReference(t *testing.T) {
 	for _, merges := range []bool{false, true} {
 		for offset := -24; offset <= 24; offset++ {

@@ -11,7 +11,7 @@ import (
 )
 
 // This file formats cell values for the streamed sheets exactly as excelize v2.11.1's
-// StreamWriter did (cell.go, lib.go, date.go there), so that the cells read back the
+// StreamWriter does (cell.go, lib.go, date.go there), so that the cells read back the
 // same: numbers, dates, text (escaped, length-limited, xml:space) and formula values.
 
 // maxCellChars is the spreadsheet's limit on a cell's text, in UTF-16 code units

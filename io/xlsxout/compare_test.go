@@ -222,7 +222,7 @@ func compareStreamed(t *testing.T, got, want []byte) {
 }
 
 // TestSameCellsAsStreamWriter: Register and Checks hold exactly the cells excelize's
-// StreamWriter wrote before (legacyWriter), for the demo registers, the fixture's edge
+// StreamWriter writes (legacyWriter), for the demo registers, the fixture's edge
 // cases and a Checks roll-over.
 func TestSameCellsAsStreamWriter(t *testing.T) {
 	type input struct {

@@ -11,11 +11,11 @@ import (
 	"hoistfleet/fleet"
 )
 
-// legacyWriter is the Register and Checks writer as it was before the sheets were
-// formatted by hoistfleet itself: excelize's StreamWriter, fed []any rows of
-// excelize.Cell values. It is kept, for tests only, as the reference the new writer's
-// cells (value, type, style id, formula) are compared against. Summary and Audit are
-// not written (they do not go through the streamed path).
+// legacyWriter writes Register and Checks through excelize's StreamWriter, fed []any
+// rows of excelize.Cell values. It is, for tests only, the reference that the cells of
+// the writer's own sheet XML (sheetxml.go: value, type, style id, formula) are compared
+// against. Summary and Audit are not written (they do not go through the streamed
+// path).
 type legacyWriter struct {
 	f        *excelize.File
 	st       *styles

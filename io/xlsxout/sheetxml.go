@@ -15,7 +15,8 @@ import (
 //
 // The part is: the worksheet element, sheetViews with the frozen pane, cols with the
 // widths, sheetData with the rows in ascending order, and autoFilter. There is no
-// dimension element (readers count the rows themselves, as they did before).
+// dimension element: it is optional, and readers count the rows themselves (excelize's
+// StreamWriter leaves the placeholder A1 there).
 type sheetStream struct {
 	sp   *spool
 	buf  []byte
@@ -199,7 +200,7 @@ func (s *sheetStream) int(col, v, style int) {
 }
 
 // date writes t as a date serial number (1900 date system); a time before 1899-12-31
-// has none and is written as RFC 3339 text, as excelize did.
+// has none and is written as RFC 3339 text, as excelize does.
 func (s *sheetStream) date(col int, t time.Time, style int) {
 	serial, shifted := excelTime(t)
 	if serial > 0 {

@@ -257,8 +257,8 @@ func TestZipEntries(t *testing.T) {
 }
 
 // TestSheetParts: the part found for each sheet is the one excelize wrote that sheet to,
-// also when sheets were renamed, deleted and moved so that names, order and part numbers
-// no longer line up.
+// also when sheets are renamed, deleted and moved so that names, order and part numbers
+// do not line up.
 func TestSheetParts(t *testing.T) {
 	f := excelize.NewFile()
 	defer f.Close()

@@ -18,7 +18,7 @@
 //
 // Register and Checks (and Checks 2, … when Checks is full) are written as results
 // arrive by hoistfleet's own worksheet writer (sheetxml.go), which formats the sheet XML
-// the way excelize's StreamWriter did and deflates it as it goes (on a goroutine per
+// the way excelize's StreamWriter does and deflates it as it goes (on a goroutine per
 // sheet) into a temporary file per sheet (in Options.TmpDir), so memory does not grow
 // with the register. In End,
 // excelize builds the rest of the workbook — Summary and Audit with its normal API,
