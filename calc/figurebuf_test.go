@@ -18,6 +18,7 @@ func TestFigureBufSameFigures(t *testing.T) {
 	}{
 		{"rope-design-factor", func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, 5.6, false) }},
 		{"drum-ratio", func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumRatio(h, 18) }},
+		{"sheave-ratio", func(h calc.Hoist) (calc.Outcome, error) { return calc.SheaveRatio(h, 20) }},
 		{"drum-capacity", func(h calc.Hoist) (calc.Outcome, error) { return calc.DrumCapacity(h, 2) }},
 		{"fleet-angle", func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, 2, 0.5) }},
 		{"motor-torque", calc.MotorTorque},
@@ -42,6 +43,11 @@ func TestFigureBufSameFigures(t *testing.T) {
 			return calc.RopeWear(calc.WearInput{NominalM: 0.016, MeasuredM: 0.0152, MaxReductionFraction: 0.075, BrokenWires: -1, SkipRecord: true, Figs: h.Figs})
 		}},
 	}
+	var names []string
+	for _, c := range checks {
+		names = append(names, c.name)
+	}
+	coversEveryCheck(t, "TestFigureBufSameFigures", names)
 	own := hoistA() // with the statics' fields too (invented for the test)
 	own.Grooves, own.SheaveDiameterM, own.FleetAngleDeg = 40, 0.32, 1.2
 	own.SkipRecord = true

@@ -337,6 +337,15 @@ func TestSkipRecordLifeChecks(t *testing.T) {
 			return calc.LoadTest(5000, 6000, 1.25)
 		}},
 	}
+	// With the hoist checks of recChecks, these cover every check.
+	var names []string
+	for _, c := range recChecks() {
+		names = append(names, c.name)
+	}
+	for _, c := range checks {
+		names = append(names, c.name)
+	}
+	coversEveryCheck(t, "recChecks and TestSkipRecordLifeChecks", names)
 	for _, c := range checks {
 		full, err1 := c.f(false)
 		bare, err2 := c.f(true)

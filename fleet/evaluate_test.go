@@ -40,7 +40,7 @@ func TestStatusWorse(t *testing.T) {
 // fakeCheck is a prepared check with a fixed outcome: status st for unrunnable checks
 // (unchecked / error / info), or the outcome the run returns.
 func fakeCheck(id string, st Status, o *calc.Outcome) preparedCheck {
-	p := preparedCheck{spec: &checkSpec{id: id}, status: st, message: "fake " + st.String()}
+	p := preparedCheck{spec: &checkSpec{Definition: *definitionAt(0, id)}, status: st, message: "fake " + st.String()}
 	if o != nil {
 		oc := *o
 		p.run = func(calc.Hoist) (calc.Outcome, error) { return oc, nil }
@@ -58,7 +58,7 @@ func TestEvaluationPrecedence(t *testing.T) {
 	c := isoChecker(t)
 	d := &hoistData{a: &Asset{ID: "T-1"}, c: c}
 	info := &calc.Outcome{Verdict: calc.Info, Utilisation: math.NaN(), Demand: math.NaN(), Capacity: math.NaN()}
-	calcErr := preparedCheck{spec: &checkSpec{id: "calc-error"}, run: func(calc.Hoist) (calc.Outcome, error) {
+	calcErr := preparedCheck{spec: &checkSpec{Definition: Definition{ID: "calc-error"}}, run: func(calc.Hoist) (calc.Outcome, error) {
 		return calc.Outcome{}, errors.New("no convergence")
 	}}
 	failOutright := &calc.Outcome{Verdict: calc.Fail, Utilisation: math.NaN(), Demand: math.NaN(), Capacity: 0.25}
@@ -305,15 +305,19 @@ func TestEveryCheckReported(t *testing.T) {
 func TestCheckSpecKeysInSchema(t *testing.T) {
 	c := isoChecker(t)
 	for _, s := range c.specs {
-		for _, list := range [][]string{s.needs, s.needsLayered, s.uses} {
+		for _, list := range [][]string{s.Needs, s.Uses} {
 			for _, k := range list {
 				if _, ok := c.keys.lookup(k); !ok {
-					t.Errorf("%s: field %q is not in the schema", s.id, k)
+					t.Errorf("%s: field %q is not in the schema", s.ID, k)
 				}
 			}
 		}
-		if len(s.needsAt) != len(s.needs) || len(s.usesAt) != len(s.uses) || len(s.needsLayeredAt) != len(s.needsLayered) {
-			t.Errorf("%s: index lists do not match the key lists", s.id)
+		layered := len(s.Needs)
+		if s.NeedsOuterLayer {
+			layered++
+		}
+		if len(s.needsAt) != len(s.Needs) || len(s.usesAt) != len(s.Uses) || len(s.needsLayeredAt) != layered {
+			t.Errorf("%s: index lists do not match the key lists", s.ID)
 		}
 	}
 }

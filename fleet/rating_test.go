@@ -439,7 +439,7 @@ func TestRatingNullWhenAFailingLimitIsUnknown(t *testing.T) {
 	c := isoChecker(t)
 	d := &c.getScratch().d
 	c.resolve(winchA(t).asset(), d)
-	spec := func(id string) *checkSpec { return &checkSpec{id: id, loadDependent: true} }
+	spec := func(id string) *checkSpec { return &checkSpec{Definition: Definition{ID: id, LoadDependent: true}} }
 	prepared := []preparedCheck{{spec: spec("motor-torque")}, {spec: spec("gearbox-torque")}}
 	checks := []CheckResult{
 		{ID: "motor-torque", Status: StatusPass, LoadDependent: true, LimitRatedLoadKg: 8000},

@@ -81,9 +81,6 @@ type Brief struct {
 	Mechanical bool
 }
 
-// recordChecks are checks about records and data consistency, not the mechanism itself.
-var recordChecks = map[string]bool{"inspection-due": true, "load-test": true, "hoist-speed": true}
-
 // NewSummary returns an empty summary keeping topN hoists in each list.
 func NewSummary(topN int) *Summary {
 	return &Summary{TopN: topN, Governing: map[string]int{}, FlagCounts: map[string]int{},
@@ -128,14 +125,15 @@ func (s *Summary) Add(r *Result) {
 			}
 		}
 		s.Checks[j].ByStatus[c.Status]++
+		def := definitionAt(k, c.ID)
 		switch {
-		case c.ID == "inspection-due" && c.Status == StatusFail:
+		case def.OverdueList && c.Status == StatusFail:
 			s.OverdueCount++
 			o := b
 			o.Days = c.Demand - c.Capacity
 			o.Reason = c.Message
 			s.Overdue = insertTop(s.Overdue, o, s.TopN, func(x, y Brief) bool { return x.Days > y.Days })
-		case (c.ID == "rope-wear" || c.ID == "design-life" || c.ID == "load-test") && (c.Status == StatusFail || c.Status == StatusMarginal):
+		case def.FlagList && (c.Status == StatusFail || c.Status == StatusMarginal):
 			s.FlagCounts[c.ID]++
 			f := b
 			f.Reason = c.ID + " " + c.Status.String()
@@ -174,8 +172,8 @@ func (s *Summary) Add(r *Result) {
 	}
 	s.MarginBins[bin]++
 	if r.Status != StatusPass {
-		for _, c := range r.Checks {
-			if c.Status == r.Status && !recordChecks[c.ID] {
+		for k, c := range r.Checks {
+			if c.Status == r.Status && definitionAt(k, c.ID).Kind != Records {
 				b.Mechanical = true
 				break
 			}

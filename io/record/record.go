@@ -303,8 +303,8 @@ func (p *printer) check(n int, c *fleet.CheckResult) {
 		p.line("Result: demand %s, capacity %s [%s].", Num(c.Demand), Num(c.Capacity), c.Unit)
 	}
 	if c.LoadDependent && !math.IsNaN(c.LimitRatedLoadKg) {
-		if c.Status == fleet.StatusInfo && c.ID == "brake-stop" {
-			p.line("Rated load above which the brakes can no longer stop the lowering load (a_b = 0): %s.", kg(c.LimitRatedLoadKg))
+		if def, _ := fleet.DefinitionOf(c.ID); c.Status == fleet.StatusInfo && def.InfoLimit != "" {
+			p.line("%s: %s.", def.InfoLimit, kg(c.LimitRatedLoadKg))
 		} else {
 			p.line("Rated load at which this check reaches its limit: %s.", kg(c.LimitRatedLoadKg))
 		}

@@ -1,0 +1,438 @@
+package fleet
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"hoistfleet/calc"
+)
+
+// CheckKind says what a check judges.
+type CheckKind uint8
+
+const (
+	// Mechanical checks judge the mechanism itself: rope, drum, motor, gearbox, brakes,
+	// life, wear, and the hazard figures (runaway, shaft load).
+	Mechanical CheckKind = iota
+	// Records checks judge records and data consistency: the periodic inspection, the
+	// load test, the declared hoist speed. The summary's worst list puts a hoist whose
+	// status comes from a mechanical check first.
+	Records
+)
+
+// Definition is everything hoistfleet knows about one check apart from its engineering,
+// which is the calc function its prepare returns. The table of definitions
+// (Definitions) is the only place a check is declared: CheckIDs, the summary's lists,
+// the calculation record and the coverage tests (every check has rule rows in both
+// profiles, a README entry and an outside reference test) are derived from it.
+type Definition struct {
+	ID   string
+	Kind CheckKind
+	// Needs are the schema keys the check cannot run without: a Bad cell makes it
+	// error, an empty one unchecked.
+	Needs []string
+	// NeedsOuterLayer: with more than one rope layer the check also needs the rope
+	// diameter, which places the outer layer.
+	NeedsOuterLayer bool
+	// Uses are optional keys with defaults: a Bad cell makes the check error, an empty
+	// one takes the default (reported).
+	Uses []string
+	// Rules are the rule ids the check looks up; each has a row in both built-in
+	// profiles. OptionalRules are looked up when the rules in force have a row (a user
+	// rule file may add one); without it the check behaves as documented in Rule.
+	Rules, OptionalRules []string
+	// LoadDependent checks enter the maximum permissible rated load; Linear ones have a
+	// utilisation affine in the rated load and are solved in closed form, the others by
+	// bracketed root finding (or their own closed form, set by prepare).
+	LoadDependent, Linear bool
+	// NullsRating: when this load-independent check fails, the hoist has no rating.
+	NullsRating bool
+	// NoBand: pass up to utilisation 1, no marginal band (a load test at exactly the
+	// required test load covers the rating); such a check sets the smallest margin and
+	// the worst check only when it fails.
+	NoBand bool
+	// Rule and Source describe the limit of a check that used no rule-table row (its
+	// limit is the register's own rating of the component, or it has none).
+	Rule, Source string
+	// InfoLimit is set for a check that is information when the rules give it no limit
+	// but still fails outright (brake-stop: brakes that cannot stop the load). Its
+	// limiting rated load is the load where it starts to fail, and InfoLimit says, for
+	// the calculation record, what that load means.
+	InfoLimit string
+	// OverdueList: a fail is an overdue examination (the summary counts and lists it).
+	// FlagList: a fail or marginal is listed among the summary's condition flags.
+	OverdueList, FlagList bool
+	// Reference names the calc tests that check this check's engineering against
+	// outside values (standards tables, handbook examples, limiting cases).
+	Reference []string
+
+	// applicable reports whether the check applies at all (false: info "not applicable").
+	applicable func(d *hoistData) (bool, string)
+	// prepare looks up the rules and returns the function to evaluate at any hoist state
+	// with the rule rows it used; an error makes the check unchecked.
+	prepare func(d *hoistData) (run func(h calc.Hoist) (calc.Outcome, error), rules []int, err error)
+	// afterCheck, when set, adds to the hoist's messages once the check has run at the
+	// rated load.
+	afterCheck func(d *hoistData, cr *CheckResult)
+}
+
+// definitions is the table of checks, in presentation order. It is never modified.
+var definitions = checkDefinitions()
+
+// CheckIDs lists every check in the order results show them. The ids are a contract
+// (design.md): extend, never rename.
+var CheckIDs = func() []string {
+	ids := make([]string, len(definitions))
+	for i, d := range definitions {
+		ids[i] = d.ID
+	}
+	return ids
+}()
+
+// Definitions returns the checks' definitions in presentation order (a copy).
+func Definitions() []Definition { return append([]Definition(nil), definitions...) }
+
+// DefinitionOf returns the definition of the check with the given id.
+func DefinitionOf(id string) (Definition, bool) {
+	for _, d := range definitions {
+		if d.ID == id {
+			return d, true
+		}
+	}
+	return Definition{}, false
+}
+
+// definitionAt returns the definition of the check with the given id, which a result
+// usually lists k-th; a check id outside the table gets the zero Definition.
+func definitionAt(k int, id string) *Definition {
+	if k < len(definitions) && definitions[k].ID == id {
+		return &definitions[k]
+	}
+	for i := range definitions {
+		if definitions[i].ID == id {
+			return &definitions[i]
+		}
+	}
+	return &Definition{ID: id}
+}
+
+var loadNeeds = []string{"rated_load"}
+
+// reevingUses are the optional inputs of every rope-tension calculation.
+var reevingUses = []string{"hook_block_mass", "parts_of_line", "rope_ends", "sheave_efficiency", "deflection_sheaves", "special_service"}
+
+// driveUses are the optional inputs of the drive-train calculations.
+var driveUses = join(reevingUses, []string{"rope_layers", "gear_efficiency", "gear_backdrive_efficiency", "motor_peak_torque", "acceleration"})
+
+// brakeUses are the optional inputs of the brake calculations.
+var brakeUses = join(driveUses, []string{"brake_location", "brakes", "brake_delay", "control_braking", "lowering_speed"})
+
+func join(lists ...[]string) []string {
+	var out []string
+	for _, l := range lists {
+		out = append(out, l...)
+	}
+	return out
+}
+
+// prepareFunc is a check's prepare.
+type prepareFunc = func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error)
+
+// withRule prepares a check whose calc function takes one rule value.
+func withRule(id string, run func(h calc.Hoist, v float64) (calc.Outcome, error)) prepareFunc {
+	return func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+		v, r, err := d.rule(id)
+		if err != nil {
+			return nil, nil, err
+		}
+		return func(h calc.Hoist) (calc.Outcome, error) { return run(h, v) }, d.usedRows(r), nil
+	}
+}
+
+// noRule prepares a check whose limit comes from the register, not the rules.
+func noRule(run func(h calc.Hoist) (calc.Outcome, error)) prepareFunc {
+	return func(*hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) { return run, nil, nil }
+}
+
+// closedForm prepares a check without rules whose limiting rated load has a closed form.
+func closedForm(run func(h calc.Hoist) (calc.Outcome, error), limit func(h calc.Hoist) float64) prepareFunc {
+	return func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+		d.closedLimit = limit
+		return run, nil, nil
+	}
+}
+
+// checkDefinitions returns the table of checks in presentation order.
+func checkDefinitions() []Definition {
+	return []Definition{
+		{ID: "rope-design-factor", Kind: Mechanical, LoadDependent: true, Linear: true,
+			Needs: join(loadNeeds, []string{"rope_mbf"}), Uses: join(reevingUses, []string{"rope_grade", "rope_construction", "duty_group"}),
+			Rules:     []string{"rope.design_factor", "rope.basis"},
+			Reference: []string{"TestRopeDesignFactor", "TestRopeTensionWRUMLeadLine", "TestRopeDesignFactorStaticBasis29CFR"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				z, rz, err := d.rule("rope.design_factor")
+				if err != nil {
+					return nil, nil, err
+				}
+				basis, rb, err := d.ruleWord("rope.basis")
+				if err != nil {
+					return nil, nil, err
+				}
+				static := basis == "static"
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, z, static) }, d.usedRows(rz, rb), nil
+			}},
+		{ID: "drum-ratio", Kind: Mechanical, NullsRating: true,
+			Needs: []string{"drum_diameter", "rope_diameter"}, Uses: []string{"duty_group"},
+			Rules:     []string{"drum.h1"},
+			Reference: []string{"TestDrumAndSheaveRatio"},
+			prepare:   withRule("drum.h1", calc.DrumRatio)},
+		{ID: "sheave-ratio", Kind: Mechanical, NullsRating: true,
+			Needs: []string{"sheave_diameter", "rope_diameter"}, Uses: []string{"duty_group"},
+			Rules:     []string{"sheave.h2"},
+			Reference: []string{"TestDrumAndSheaveRatio"},
+			applicable: func(d *hoistData) (bool, string) {
+				if d.h.Parts <= d.h.RopeEnds && d.h.DeflectionSheaves == 0 && d.isMissing("sheave_diameter") {
+					return false, "no running sheaves (single part per rope end, no deflection sheaves)"
+				}
+				return true, ""
+			},
+			prepare: withRule("sheave.h2", calc.SheaveRatio)},
+		{ID: "drum-capacity", Kind: Mechanical, NullsRating: true,
+			Needs: []string{"drum_diameter", "rope_diameter", "lift_height", "drum_grooves"}, Uses: []string{"parts_of_line", "rope_ends", "rope_layers"},
+			Rules:     []string{"drum.dead_wraps"},
+			Reference: []string{"TestDrumCapacity"},
+			prepare:   withRule("drum.dead_wraps", calc.DrumCapacity)},
+		{ID: "fleet-angle", Kind: Mechanical, NullsRating: true,
+			Needs: []string{"fleet_angle"}, Uses: []string{"drum_grooved"},
+			Rules:     []string{"fleet_angle.max_grooved", "fleet_angle.max_plain", "fleet_angle.min"},
+			Reference: []string{"TestFleetAngle"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				id := "fleet_angle.max_grooved"
+				if !d.h.Grooved {
+					id = "fleet_angle.max_plain"
+				}
+				mx, r1, err := d.rule(id)
+				if err != nil {
+					return nil, nil, err
+				}
+				mn, r2, err := d.rule("fleet_angle.min")
+				if err != nil {
+					return nil, nil, err
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, d.usedRows(r1, r2), nil
+			}},
+		{ID: "motor-torque", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
+			Needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), Uses: driveUses,
+			Rule: "steady hoisting torque ≤ rated motor torque M_r = P / ω_m", Source: "motor rating from the register; statics of the drive train (textbook)",
+			Reference: []string{"TestMotorTorqueHand", "TestUSCustomaryHoist"},
+			prepare:   noRule(calc.MotorTorque)},
+		{ID: "motor-power", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
+			Needs: join(loadNeeds, []string{"hoist_speed", "motor_power"}), Uses: driveUses,
+			Rule: "steady hoisting power ≤ rated motor power P", Source: "motor rating from the register; P = m g v / η (textbook identity)",
+			Reference: []string{"TestMotorPower"},
+			prepare:   noRule(calc.MotorPower)},
+		{ID: "hoist-speed", Kind: Records, NullsRating: true,
+			Needs: []string{"motor_speed", "drum_diameter", "gear_ratio", "hoist_speed"}, Uses: []string{"parts_of_line", "rope_ends"},
+			Rules:     []string{"hoist_speed.tolerance"},
+			Reference: []string{"TestHoistSpeed"},
+			prepare:   withRule("hoist_speed.tolerance", calc.HoistSpeed),
+			afterCheck: func(d *hoistData, cr *CheckResult) {
+				if cr.Status != StatusFail {
+					return
+				}
+				if vc := calc.FigureValue(cr.Figures, "calculated_speed_m_s"); !math.IsNaN(vc) {
+					d.messages = append(d.messages, fmt.Sprintf("the declared hoist speed %.3g m/min disagrees with the drive's %.3g m/min (motor speed, gear ratio, drum, reeving): motor-power, brake-stop and runaway use the declared speed, so check the register before trusting them",
+						d.h.HoistSpeedMS*60, vc*60))
+				}
+			}},
+		{ID: "motor-accel-torque", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
+			Needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), Uses: driveUses,
+			Rule: "accelerating torque ≤ peak motor torque p M_r", Source: "Newton's second law for load, drum and rotor; peak torque ratio from the register or the rule default",
+			Reference: []string{"TestMotorAccelTorqueByHand", "TestTorqueLimitsKg"},
+			prepare:   closedForm(calc.MotorAccelTorque, calc.MotorAccelTorqueLimitKg)},
+		{ID: "gearbox-torque", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
+			Needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), Uses: brakeUses,
+			Rule: "largest drum-shaft torque ≤ gearbox rated output torque", Source: "gear unit rating from the register; Newton's second law",
+			Reference: []string{"TestGearboxTorque", "TestTorqueLimitsKg"},
+			applicable: func(d *hoistData) (bool, string) {
+				if d.isMissing("gearbox_rated_torque") {
+					return false, "no gearbox rated torque in the register"
+				}
+				return true, ""
+			},
+			prepare: closedForm(calc.GearboxTorque, calc.GearboxTorqueLimitKg)},
+		{ID: "brake-holding", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
+			Needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), Uses: brakeUses,
+			Rules:     []string{"brake.factor", "brake.each"},
+			Reference: []string{"TestBrakeHolding"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				f, r1, err := d.rule("brake.factor")
+				if err != nil {
+					return nil, nil, err
+				}
+				each, r2, err := d.ruleWord("brake.each")
+				if err != nil {
+					return nil, nil, err
+				}
+				e := each == "yes"
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, d.usedRows(r1, r2), nil
+			}},
+		{ID: "brake-stop", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
+			Needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), Uses: join(brakeUses, []string{"rope_mbf"}),
+			OptionalRules: []string{"brake_stop.max_distance"},
+			Rule:          "information: no stopping-distance limit in the rules in force; fails only when the brakes cannot stop the load",
+			Source:        "Newton's second law (emergency stop while lowering)",
+			InfoLimit:     "Rated load above which the brakes can no longer stop the lowering load (a_b = 0)",
+			Reference:     []string{"TestBrakeStopAgainstIntegration", "TestBrakeStopWorkedHoists", "TestBrakeStopLimitKg"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				lim := math.NaN()
+				var rules []int
+				if i := d.c.opts.Rules.LookupIndex("brake_stop.max_distance", d.scope); i >= 0 {
+					v, err := d.c.opts.Rules.ValueAt(i)
+					if err != nil {
+						return nil, nil, err
+					}
+					d.rules = append(d.rules, i)
+					lim, rules = v, d.usedRows(i)
+				}
+				if len(rules) == 0 {
+					d.closedLimit = calc.BrakeStopLimitKg
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, lim) }, rules, nil
+			}},
+		{ID: "runaway", Kind: Mechanical, NeedsOuterLayer: true,
+			Needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), Uses: driveUses,
+			Rule: "information: no limit", Source: "Newton's second law (brake released, motor unpowered)",
+			Reference: []string{"TestRunawayTextbook", "TestRunawayEnergyBalance", "ExampleRunaway"},
+			prepare:   noRule(calc.Runaway)},
+		{ID: "shaft-load", Kind: Mechanical,
+			Needs: join(loadNeeds, []string{"drum_mass"}), Uses: reevingUses,
+			Rule: "information: no limit", Source: "statics: drum weight plus rope pull",
+			Reference: []string{"TestShaftLoad"},
+			prepare:   noRule(calc.ShaftLoad)},
+		{ID: "design-life", Kind: Mechanical, NullsRating: true, FlagList: true,
+			Needs: []string{"operating_hours"}, Uses: []string{"duty_group", "load_spectrum", "spectrum_factor", "usage_records", "commissioned"},
+			Rules:     []string{"life.duration_h", "life.record_factor"},
+			Reference: []string{"TestDesignLife", "TestFullLoadDurationAgainstISO4301"},
+			prepare:   prepareDesignLife},
+		{ID: "inspection-due", Kind: Records, OverdueList: true,
+			Needs: []string{"last_inspection"}, Uses: []string{"service"},
+			Rules:     []string{"inspection.interval_months"},
+			Reference: []string{"TestInspectionDueCalendar"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				months, r, err := d.rule("inspection.interval_months")
+				if err != nil {
+					return nil, nil, err
+				}
+				last := d.a.Get("last_inspection").Date
+				asOf := d.c.opts.AsOf
+				interval := int(math.Round(months))
+				if d.c.opts.Record {
+					return func(calc.Hoist) (calc.Outcome, error) {
+						return calc.InspectionDue(last, asOf, interval)
+					}, d.usedRows(r), nil
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) {
+					return calc.InspectionDueNumbers(last, asOf, interval, h.Figs)
+				}, d.usedRows(r), nil
+			}},
+		{ID: "load-test", Kind: Records, NoBand: true, FlagList: true,
+			Needs: join(loadNeeds, []string{"test_load"}), Uses: []string{"test_type", "proposed_rated_load"},
+			Rules:     []string{"load_test.factor"},
+			Reference: []string{"TestLoadTest"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				f, r, err := d.rule("load_test.factor")
+				if err != nil {
+					return nil, nil, err
+				}
+				test, _ := d.num("test_load")
+				if d.c.opts.Record {
+					return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, d.usedRows(r), nil
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTestNumbers(h.RatedLoadKg, test, f, h.Figs) }, d.usedRows(r), nil
+			}},
+		{ID: "rope-wear", Kind: Mechanical, NullsRating: true, FlagList: true,
+			Needs: []string{"rope_diameter"}, Uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_reference_diameter", "rope_construction", "rope_fitted"},
+			Rules:     []string{"rope_wear.basis", "rope_wear.max_reduction", "rope_wear.broken_wires_lay"},
+			Reference: []string{"TestIso4309UniformDecrease", "TestAsmeB302DiameterBand", "TestRopeWear"},
+			prepare:   prepareRopeWear},
+	}
+}
+
+func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+	if d.group == 0 {
+		return nil, nil, &Error{Kind: Missing, Field: "duty_group", Err: errors.New("needs the duty group (or the usage to derive it)")}
+	}
+	km, ok := d.num("spectrum_factor")
+	if !ok {
+		if s := d.text("load_spectrum"); len(s) == 2 {
+			km, ok = calc.SpectrumFactor(int(s[1] - '0'))
+		}
+	}
+	if !ok {
+		return nil, nil, &Error{Kind: Missing, Field: "load_spectrum", Err: errors.New("needs the load spectrum (L1–L4) or the spectrum factor")}
+	}
+	dur, r1, err := d.rule("life.duration_h")
+	if err != nil {
+		return nil, nil, err
+	}
+	x, r2, err := d.rule("life.record_factor")
+	if err != nil {
+		return nil, nil, err
+	}
+	hours, _ := d.num("operating_hours")
+	in := calc.LifeInput{OperatingHours: hours / 3600, Km: km, RecordFactor: x, FullLoadDurationH: dur,
+		Commissioned: d.a.Get("commissioned").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
+	return func(h calc.Hoist) (calc.Outcome, error) {
+		in := in
+		in.Figs = h.Figs
+		return calc.DesignLife(in)
+	}, d.usedRows(r1, r2), nil
+}
+
+func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+	meas, okm := d.num("rope_measured_diameter")
+	bw, okb := d.num("rope_broken_wires")
+	if !okm && !okb {
+		return nil, nil, &Error{Kind: Missing, Field: "rope_measured_diameter", Err: errors.New("needs the measured rope diameter or the broken-wire count from the last inspection")}
+	}
+	in := calc.WearInput{NominalM: d.h.RopeDiameterM, MeasuredM: meas, BrokenWires: -1,
+		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
+	in.ReferenceM, _ = d.num("rope_reference_diameter")
+	if basis, _, err := d.ruleWord("rope_wear.basis"); err == nil && basis == "nominal" {
+		// The profile measures the reduction from nominal (ASME B30.2), whatever
+		// reference diameter the register gives.
+		in.ReferenceM = 0
+	}
+	if okb {
+		in.BrokenWires = int(bw)
+	}
+	rules := d.rowBuf[:0]
+	if okm {
+		v, r, err := d.rule("rope_wear.max_reduction")
+		if err != nil {
+			return nil, nil, err
+		}
+		rules = append(rules, r)
+		if d.c.opts.Rules.Rules[r].Dimension() == "length" {
+			in.MaxReductionM = v
+		} else {
+			in.MaxReductionFraction = v
+		}
+	}
+	if okb {
+		v, r, err := d.rule("rope_wear.broken_wires_lay")
+		if err != nil {
+			return nil, nil, err
+		}
+		rules = append(rules, r)
+		in.MaxBrokenWires = int(v)
+	}
+	d.rowBuf = rules // keep a grown buffer
+	return func(h calc.Hoist) (calc.Outcome, error) {
+		in := in
+		in.Figs = h.Figs
+		return calc.RopeWear(in)
+	}, rules, nil
+}

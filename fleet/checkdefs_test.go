@@ -1,0 +1,186 @@
+package fleet
+
+import (
+	"go/ast"
+	"go/parser"
+	"go/token"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"hoistfleet/templates"
+)
+
+// resolveRuleIDs are the rule ids that resolving a hoist reads (judgement defaults and
+// the usage-to-duty assumptions), not any one check.
+var resolveRuleIDs = []string{
+	"default.sheave_efficiency", "default.gear_efficiency", "default.peak_torque_ratio",
+	"default.brake_delay", "default.acceleration", "default.design_years", "default.working_days",
+}
+
+// unreadRuleIDs are known rule ids with rows in the tables that no check reads yet, each
+// with the reason. rope_wear.broken_wires_strand: the register has no column for the
+// broken wires in one strand (only in one lay), so ASME B30.2's criterion is listed in the
+// audit but never applied.
+var unreadRuleIDs = []string{"rope_wear.broken_wires_strand"}
+
+// TestDefinitionsAreComplete: every check declares what the rest of the tool needs, so
+// that a new check that forgets something fails here rather than misbehaving quietly.
+func TestDefinitionsAreComplete(t *testing.T) {
+	seen := map[string]bool{}
+	for _, d := range Definitions() {
+		if d.ID == "" || seen[d.ID] {
+			t.Errorf("check id %q is empty or declared twice", d.ID)
+		}
+		seen[d.ID] = true
+		if d.prepare == nil {
+			t.Errorf("%s: no prepare (no calc function)", d.ID)
+		}
+		if len(d.Rules) == 0 && (d.Rule == "" || d.Source == "") {
+			t.Errorf("%s: no rule ids and no Rule/Source text: its results would name no limit and no source", d.ID)
+		}
+		if len(d.OptionalRules) > 0 && (d.Rule == "" || d.Source == "") {
+			t.Errorf("%s: optional rules need a Rule/Source text for when no row applies", d.ID)
+		}
+		if d.Linear && !d.LoadDependent {
+			t.Errorf("%s: linear but not load-dependent", d.ID)
+		}
+		if d.NullsRating && d.LoadDependent {
+			t.Errorf("%s: a load-dependent check sets the rating; it cannot also null it", d.ID)
+		}
+		if len(d.Reference) == 0 {
+			t.Errorf("%s: no reference test against outside values", d.ID)
+		}
+	}
+	if !slices.Equal(CheckIDs, func() []string {
+		var ids []string
+		for _, d := range Definitions() {
+			ids = append(ids, d.ID)
+		}
+		return ids
+	}()) {
+		t.Errorf("CheckIDs %v differ from the definitions' order", CheckIDs)
+	}
+}
+
+// TestDefinitionRulesInBothProfiles: every rule id a check declares is a known rule id
+// with at least one row in each built-in profile, and every known rule id is read by a
+// check or by resolving the hoist (an id nobody reads is a limit that is never applied).
+func TestDefinitionRulesInBothProfiles(t *testing.T) {
+	claimed := map[string]bool{}
+	for _, id := range resolveRuleIDs {
+		claimed[id] = true
+	}
+	for _, profile := range templates.Profiles() {
+		tab, err := templates.Profile(profile)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rows := map[string]bool{}
+		for _, r := range tab.Rules {
+			rows[r.ID] = true
+		}
+		for _, d := range Definitions() {
+			for _, id := range d.Rules {
+				claimed[id] = true
+				if !rows[id] {
+					t.Errorf("%s: rule %s has no row in the %s profile", d.ID, id, profile)
+				}
+			}
+			for _, id := range d.OptionalRules {
+				claimed[id] = true
+			}
+		}
+		for _, id := range resolveRuleIDs {
+			if !rows[id] {
+				t.Errorf("resolve: rule %s has no row in the %s profile", id, profile)
+			}
+		}
+	}
+	known := templates.KnownRuleIDs()
+	for id := range claimed {
+		if !slices.Contains(known, id) {
+			t.Errorf("rule %s is declared by a check but is not a known rule id (templates)", id)
+		}
+	}
+	for _, id := range known {
+		if !claimed[id] && !slices.Contains(unreadRuleIDs, id) {
+			t.Errorf("known rule id %s is read by no check and not by resolve", id)
+		}
+	}
+}
+
+// TestDefinitionRulesAreTheOnesRead runs every check's prepare on two realistic hoists under
+// both profiles and compares the rule rows it read with the ids its definition declares.
+func TestDefinitionRulesAreTheOnesRead(t *testing.T) {
+	for _, profile := range templates.Profiles() {
+		tab, err := templates.Profile(profile)
+		if err != nil {
+			t.Fatal(err)
+		}
+		c, err := NewChecker(Options{Rules: tab})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, a := range []*Asset{winchA(t).asset(), winchB(t).asset()} {
+			s := c.getScratch()
+			d := &s.d
+			c.resolve(a, d)
+			for i := range c.specs {
+				spec := &c.specs[i]
+				before := len(d.rules)
+				c.prepare(d, spec)
+				for _, row := range d.rules[before:] {
+					id := tab.Rules[row].ID
+					if !slices.Contains(spec.Rules, id) && !slices.Contains(spec.OptionalRules, id) {
+						t.Errorf("%s (%s, %s): read rule %s, which its definition does not declare", spec.ID, profile, a.ID, id)
+					}
+				}
+			}
+			c.putScratch(s)
+		}
+	}
+}
+
+// TestDefinitionsInReadme: README.md describes every check (its id in backquotes).
+func TestDefinitionsInReadme(t *testing.T) {
+	b, err := os.ReadFile(filepath.Join("..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, id := range CheckIDs {
+		if !strings.Contains(string(b), "`"+id+"`") {
+			t.Errorf("README.md does not describe check %s", id)
+		}
+	}
+}
+
+// TestDefinitionReferenceTestsExist: the reference tests a definition names exist in calc.
+func TestDefinitionReferenceTestsExist(t *testing.T) {
+	files, err := filepath.Glob(filepath.Join("..", "calc", "*_test.go"))
+	if err != nil || len(files) == 0 {
+		t.Fatalf("calc tests: %v", err)
+	}
+	funcs := map[string]bool{}
+	fset := token.NewFileSet()
+	for _, f := range files {
+		file, err := parser.ParseFile(fset, f, nil, parser.SkipObjectResolution)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, decl := range file.Decls {
+			if fn, ok := decl.(*ast.FuncDecl); ok && fn.Recv == nil {
+				funcs[fn.Name.Name] = true
+			}
+		}
+	}
+	for _, d := range Definitions() {
+		for _, name := range d.Reference {
+			if !funcs[name] {
+				t.Errorf("%s: reference test %s is not in calc", d.ID, name)
+			}
+		}
+	}
+}
