@@ -10,7 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/rules"
 )
 
 // resolveRuleIDs are the rule ids that resolving a hoist reads (judgement defaults and
@@ -73,8 +73,8 @@ func TestDefinitionRulesInBothProfiles(t *testing.T) {
 	for _, id := range resolveRuleIDs {
 		claimed[id] = true
 	}
-	for _, profile := range templates.Profiles() {
-		tab, err := templates.Profile(profile)
+	for _, profile := range rules.Profiles() {
+		tab, err := rules.Profile(profile)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -99,7 +99,7 @@ func TestDefinitionRulesInBothProfiles(t *testing.T) {
 			}
 		}
 	}
-	known := templates.KnownRuleIDs()
+	known := rules.KnownRuleIDs()
 	for id := range claimed {
 		if !slices.Contains(known, id) {
 			t.Errorf("rule %s is declared by a check but is not a known rule id (templates)", id)
@@ -115,8 +115,8 @@ func TestDefinitionRulesInBothProfiles(t *testing.T) {
 // TestDefinitionRulesAreTheOnesRead runs every check's prepare on two realistic hoists under
 // both profiles and compares the rule rows it read with the ids its definition declares.
 func TestDefinitionRulesAreTheOnesRead(t *testing.T) {
-	for _, profile := range templates.Profiles() {
-		tab, err := templates.Profile(profile)
+	for _, profile := range rules.Profiles() {
+		tab, err := rules.Profile(profile)
 		if err != nil {
 			t.Fatal(err)
 		}

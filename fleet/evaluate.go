@@ -11,12 +11,13 @@ import (
 	"time"
 
 	"hoistfleet/calc"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/rules"
+	"hoistfleet/fleet/schema"
 )
 
 // Options configure a run. The zero value is not usable: Rules is required.
 type Options struct {
-	Rules           *templates.Table
+	Rules           *rules.Table
 	MarginalBand    float64   // default 0.10
 	AsOf            time.Time // the run's date for inspection and age checks
 	RatedLoadFactor float64   // > 0: re-rate every hoist to factor × rated load
@@ -32,14 +33,14 @@ type Options struct {
 // Checker evaluates hoists against the rules in force. It is safe for concurrent use.
 type Checker struct {
 	opts    Options
-	columns []templates.Column // the schema, read once
-	specs   []checkSpec        // the checks, built once
-	keys    keyIndex           // schema key → index in columns
-	texts   sync.Map           // ruleSet → ruleText: the rule and source text of a set of rows
-	ropes   ropeCache          // rope construction text → what calc reads from it
-	dflts   sync.Map           // defaultKey → the text saying a rule default was applied
-	scratch sync.Pool          // *scratch, reused from one Check to the next
-	results sync.Pool          // *Result, recycled by Run once written (recycle)
+	columns []schema.Column // the schema, read once
+	specs   []checkSpec     // the checks, built once
+	keys    keyIndex        // schema key → index in columns
+	texts   sync.Map        // ruleSet → ruleText: the rule and source text of a set of rows
+	ropes   ropeCache       // rope construction text → what calc reads from it
+	dflts   sync.Map        // defaultKey → the text saying a rule default was applied
+	scratch sync.Pool       // *scratch, reused from one Check to the next
+	results sync.Pool       // *Result, recycled by Run once written (recycle)
 }
 
 // ruleSet names up to four rows of the rule table (indices, unused slots −1): the rows
@@ -106,7 +107,7 @@ func NewChecker(opts Options) (*Checker, error) {
 	if opts.TopN <= 0 {
 		opts.TopN = 20
 	}
-	c := &Checker{opts: opts, columns: templates.Columns()}
+	c := &Checker{opts: opts, columns: schema.Columns()}
 	keys := make([]string, len(c.columns))
 	for i, col := range c.columns {
 		keys[i] = col.Key
@@ -419,7 +420,7 @@ func (c *Checker) fill(cr *CheckResult, o calc.Outcome, noBand bool) {
 
 // ruleUses turns use counts into the audit list: every rule in force, sorted by rule id
 // (table order within an id).
-func ruleUses(t *templates.Table, counts []int) []RuleUse {
+func ruleUses(t *rules.Table, counts []int) []RuleUse {
 	out := make([]RuleUse, 0, len(t.Rules))
 	for i, r := range t.Rules {
 		n := 0

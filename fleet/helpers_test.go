@@ -7,7 +7,8 @@ import (
 	"testing"
 	"time"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/rules"
+	"hoistfleet/fleet/schema"
 )
 
 // approxEqual reports whether got is within absTol or relTol × max(|got|, |want|) of want
@@ -34,7 +35,7 @@ var asOf = time.Date(2026, 6, 1, 0, 0, 0, 0, time.UTC)
 // order, so that every hand-built Value has a realistic cell reference.
 func colOf(t testing.TB, key string) int {
 	t.Helper()
-	for i, c := range templates.Columns() {
+	for i, c := range schema.Columns() {
 		if c.Key == key {
 			return i + 1
 		}
@@ -193,13 +194,13 @@ func winchB(t testing.TB) *assetBuilder {
 // with extra rule rows (CSV lines after the header) laid over it.
 func isoChecker(t testing.TB, extraRules ...string) *Checker {
 	t.Helper()
-	tab, err := templates.Profile("iso")
+	tab, err := rules.Profile("iso")
 	if err != nil {
 		t.Fatal(err)
 	}
 	if len(extraRules) > 0 {
 		csv := "rule,groups,when,value,unit,source,provenance,note\n" + strings.Join(extraRules, "\n") + "\n"
-		user, err := templates.ParseRules(strings.NewReader(csv), "test rules")
+		user, err := rules.ParseRules(strings.NewReader(csv), "test rules")
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -4,14 +4,14 @@ import (
 	"fmt"
 	"testing"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // TestKeyIndex: every schema key finds its own column, and keys outside the schema
 // (including near misses that share a length and bytes with real keys) find nothing.
 func TestKeyIndex(t *testing.T) {
 	var keys []string
-	for _, c := range templates.Columns() {
+	for _, c := range schema.Columns() {
 		keys = append(keys, c.Key)
 	}
 	sets := map[string][]string{
@@ -50,7 +50,7 @@ func TestKeyIndex(t *testing.T) {
 func BenchmarkKeyLookup(b *testing.B) {
 	var keys []string
 	m := map[string]int{}
-	for i, c := range templates.Columns() {
+	for i, c := range schema.Columns() {
 		keys = append(keys, c.Key)
 		m[c.Key] = i
 	}

@@ -9,7 +9,7 @@ import (
 	"sync/atomic"
 
 	"hoistfleet/calc"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/rules"
 )
 
 // defaultKey identifies a "default applied" text: its format, rule and value. The value
@@ -69,7 +69,7 @@ type hoistData struct {
 	a        *Asset
 	h        calc.Hoist
 	group    int
-	scope    templates.Scope
+	scope    rules.Scope
 	missing  []bool   // empty fields, by schema index
 	bad      []*Error // unreadable fields, by schema index
 	defaults []string

@@ -1,6 +1,8 @@
 package fleet
 
-import "hoistfleet/templates"
+import (
+	"hoistfleet/fleet/rules"
+)
 
 // scratch is the working memory of one Check: the resolved inputs and the prepared
 // checks. Nothing in it outlives the Check that used it (Result gets fresh slices or
@@ -18,7 +20,7 @@ func (c *Checker) getScratch() *scratch {
 		d: hoistData{
 			missing: make([]bool, len(c.columns)),
 			bad:     make([]*Error, len(c.columns)),
-			scope:   templates.Scope{Attrs: make(map[string]string, 8), Nums: make(map[string]float64, 2)},
+			scope:   rules.Scope{Attrs: make(map[string]string, 8), Nums: make(map[string]float64, 2)},
 			rules:   make([]int, 0, 24),
 			texts:   new(textMemo),
 		},

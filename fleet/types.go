@@ -11,7 +11,7 @@ import (
 	"strings"
 	"time"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // Status is a check's or a hoist's verdict.
@@ -210,7 +210,7 @@ type Asset struct {
 	ID    string // asset id ("" when missing)
 	Cells []Cell // every cell as given, aligned with Header.Columns (padded to its length)
 	// Values are the schema fields, converted: Values[i] is the field of
-	// templates.Columns()[i] (NewValues makes the slice); a short or nil slice reads as
+	// schema.Columns()[i] (NewValues makes the slice); a short or nil slice reads as
 	// Empty. Readers fill Values; Fields is the older keyed form, read when Values is nil.
 	Values []Value
 	Fields map[string]Value
@@ -222,7 +222,7 @@ type Asset struct {
 // Get returns a field's value (Empty when absent).
 func (a *Asset) Get(key string) Value {
 	if a.Values != nil {
-		if i, ok := templates.ColumnIndex(key); ok && i < len(a.Values) {
+		if i, ok := schema.ColumnIndex(key); ok && i < len(a.Values) {
 			return a.Values[i]
 		}
 		return Value{}
@@ -251,7 +251,7 @@ func (a *Asset) at(i int, key string) *Value {
 // Set stores a field's value by schema key (in Values, made when nil); a key outside the
 // schema is an error.
 func (a *Asset) Set(key string, v Value) error {
-	i, ok := templates.ColumnIndex(key)
+	i, ok := schema.ColumnIndex(key)
 	if !ok {
 		return fmt.Errorf("fleet: %q is not a schema key", key)
 	}
@@ -263,4 +263,4 @@ func (a *Asset) Set(key string, v Value) error {
 }
 
 // NewValues returns an all-Empty Values slice, one entry per schema column.
-func NewValues() []Value { return make([]Value, templates.ColumnCount()) }
+func NewValues() []Value { return make([]Value, schema.ColumnCount()) }

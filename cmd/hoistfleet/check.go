@@ -17,13 +17,13 @@ import (
 	"github.com/spf13/pflag"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/rules"
 	"hoistfleet/io/csvout"
 	"hoistfleet/io/jsonout"
 	"hoistfleet/io/register"
 	"hoistfleet/io/rulesfile"
 	"hoistfleet/io/textout"
 	"hoistfleet/io/xlsxout"
-	"hoistfleet/templates"
 )
 
 // checkConfig is what the flags shared by check, explain and demo set.
@@ -46,7 +46,7 @@ func (c *checkConfig) register(fs *pflag.FlagSet) {
 }
 
 // loadRules builds the rule table in force from --rules values.
-func loadRules(values []string) (*templates.Table, string, error) {
+func loadRules(values []string) (*rules.Table, string, error) {
 	profile := "iso"
 	var files []string
 	for _, v := range values {
@@ -56,14 +56,14 @@ func loadRules(values []string) (*templates.Table, string, error) {
 		}
 		files = append(files, v)
 	}
-	t, err := templates.Profile(profile)
+	t, err := rules.Profile(profile)
 	if err != nil {
 		return nil, "", usagef("--rules: %v", err)
 	}
 	for _, name := range files {
 		f, err := os.Open(name)
 		if err != nil {
-			return nil, "", usagef("--rules: %v (want %s or a rule file)", err, strings.Join(templates.Profiles(), ", "))
+			return nil, "", usagef("--rules: %v (want %s or a rule file)", err, strings.Join(rules.Profiles(), ", "))
 		}
 		user, err := rulesfile.Read(name, f, "")
 		f.Close()
@@ -76,7 +76,7 @@ func loadRules(values []string) (*templates.Table, string, error) {
 }
 
 func isProfile(s string) bool {
-	for _, p := range templates.Profiles() {
+	for _, p := range rules.Profiles() {
 		if s == p {
 			return true
 		}
@@ -96,12 +96,12 @@ func parseAsOf(s string) (time.Time, error) {
 	return t, nil
 }
 
-func (c *checkConfig) checker() (*fleet.Checker, *templates.Table, string, time.Time, error) {
+func (c *checkConfig) checker() (*fleet.Checker, *rules.Table, string, time.Time, error) {
 	return c.checkerRecord(false)
 }
 
 // checkerRecord builds the checker; record keeps the calculation record (explain).
-func (c *checkConfig) checkerRecord(record bool) (*fleet.Checker, *templates.Table, string, time.Time, error) {
+func (c *checkConfig) checkerRecord(record bool) (*fleet.Checker, *rules.Table, string, time.Time, error) {
 	rules, userFiles, err := loadRules(c.rules)
 	if err != nil {
 		return nil, nil, "", time.Time{}, err

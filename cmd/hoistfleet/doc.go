@@ -23,7 +23,9 @@
 // licensed engineering practice, which always prevail.
 package main
 
-import "hoistfleet/templates"
+import (
+	"hoistfleet/fleet/schema"
+)
 
 const usageText = `hoistfleet checks a register of powered drum hoists and writes a results workbook.
 
@@ -114,5 +116,5 @@ Examples:
 
 func init() {
 	commandHelp["columns"] = columnsHelp()
-	commandHelp["columns-md"] = templates.ColumnsMarkdown()
+	commandHelp["columns-md"] = schema.ColumnsMarkdown()
 }

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"hoistfleet/fleet/rules"
 	"hoistfleet/io/blank"
 	"hoistfleet/templates"
 )
@@ -73,11 +74,11 @@ func runRules(args []string, st Streams) error {
 	}
 	switch format {
 	case "md":
-		fmt.Fprint(st.Out, templates.RulesMarkdown(t))
+		fmt.Fprint(st.Out, rules.Markdown(t))
 		return nil
 	case "csv":
 		w := csv.NewWriter(st.Out)
-		w.Write(templates.RuleColumns[:])
+		w.Write(rules.RuleColumns[:])
 		for _, r := range t.Rules {
 			w.Write([]string{r.ID, r.Groups, r.When, r.Value, r.Unit, r.Source, r.Provenance, r.Note})
 		}

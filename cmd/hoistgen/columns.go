@@ -6,7 +6,7 @@ import (
 	"strconv"
 	"time"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // Exact unit factors, SI per unit (NIST SP 811, appendix B; standards.md "Units").
@@ -160,7 +160,7 @@ func fields(units string) ([]field, error) {
 	}
 	var out []field
 	seen := map[string]bool{}
-	for _, c := range templates.Columns() {
+	for _, c := range schema.Columns() {
 		get, ok := extractors[c.Key]
 		if !ok {
 			continue

@@ -14,7 +14,7 @@ import (
 	"github.com/spf13/pflag"
 	"github.com/xuri/excelize/v2"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // approxEqual reports |got − want| ≤ max(absTol, relTol·max(|got|, |want|)).
@@ -97,7 +97,7 @@ func TestRowCount(t *testing.T) {
 // quantity (or one of the two pass-through columns), in schema order, and every column
 // the checks need is there.
 func TestHeadersMatchSchema(t *testing.T) {
-	cols := templates.Columns()
+	cols := schema.Columns()
 	order := map[string]int{}
 	for i, c := range cols {
 		order[c.Key] = i
@@ -120,7 +120,7 @@ func TestHeadersMatchSchema(t *testing.T) {
 				}
 				continue
 			}
-			c, ok := templates.ColumnByKey(f.Key)
+			c, ok := schema.ColumnByKey(f.Key)
 			if !ok {
 				t.Fatalf("%s: %q is not a schema key", units, f.Key)
 			}
@@ -138,7 +138,7 @@ func TestHeadersMatchSchema(t *testing.T) {
 			present[f.Key] = true
 		}
 		for _, c := range cols {
-			if (c.Need == templates.NeedID || c.Need == templates.NeedRequired || c.Need == templates.NeedChecks) && !present[c.Key] {
+			if (c.Need == schema.NeedID || c.Need == schema.NeedRequired || c.Need == schema.NeedChecks) && !present[c.Key] {
 				t.Errorf("%s: column %q, needed by the checks, is not generated", units, c.Header)
 			}
 		}

@@ -33,11 +33,11 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/rules"
 	"hoistfleet/io/csvout"
 	"hoistfleet/io/jsonout"
 	"hoistfleet/io/register"
 	"hoistfleet/io/xlsxout"
-	"hoistfleet/templates"
 )
 
 // asOf matches hoistgen's default --as-of, so inspection dates are realistic.
@@ -138,7 +138,7 @@ func report(b *testing.B, rows int, outBytes int64) {
 }
 
 func newChecker(b *testing.B) *fleet.Checker {
-	tab, err := templates.Profile("iso")
+	tab, err := rules.Profile("iso")
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -12,7 +12,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // Sheet names of the XLSX template. The register is the first sheet, so that a reader
@@ -97,14 +97,14 @@ var example = map[string]any{
 
 // column is one template column: the schema column and the unit in its header.
 type column struct {
-	templates.Column
+	schema.Column
 	unit   string // header unit ("" none)
 	header string // header text with unit
 }
 
 func columns(units string) ([]column, error) {
 	var out []column
-	for _, c := range templates.Columns() {
+	for _, c := range schema.Columns() {
 		u, err := HeaderUnit(c, units)
 		if err != nil {
 			return nil, err
@@ -141,7 +141,7 @@ func exampleValue(c column) (any, error) {
 		}
 		return x, nil
 	case string:
-		if c.Kind == templates.Date {
+		if c.Kind == schema.Date {
 			d, err := time.Parse("2006-01-02", x)
 			if err != nil {
 				return nil, fmt.Errorf("example %s: %w", c.Key, err)
@@ -199,11 +199,11 @@ func WriteCSV(w io.Writer, units string) error {
 }
 
 // Header fills (our own palette): what a missing value costs.
-var needFill = map[templates.Need]string{
-	templates.NeedID:       "F2C28B", // amber: the row is reported without it
-	templates.NeedRequired: "F2C28B",
-	templates.NeedChecks:   "B9D3E8", // pale blue: the checks using it are unchecked without it
-	templates.NeedOptional: "DCE3D5", // sage: a default applies or nothing depends on it
+var needFill = map[schema.Need]string{
+	schema.NeedID:       "F2C28B", // amber: the row is reported without it
+	schema.NeedRequired: "F2C28B",
+	schema.NeedChecks:   "B9D3E8", // pale blue: the checks using it are unchecked without it
+	schema.NeedOptional: "DCE3D5", // sage: a default applies or nothing depends on it
 }
 
 // WriteXLSX writes the blank register as an XLSX workbook: sheet "Register" (header
@@ -238,7 +238,7 @@ func WriteXLSX(w io.Writer, units string) error {
 
 func writeRegister(f *excelize.File, cols []column) error {
 	const sh = RegisterSheet
-	styles := map[templates.Need]int{}
+	styles := map[schema.Need]int{}
 	for need, fill := range needFill {
 		id, err := f.NewStyle(&excelize.Style{
 			Font:      &excelize.Font{Bold: true},
@@ -291,7 +291,7 @@ func writeRegister(f *excelize.File, cols []column) error {
 				return err
 			}
 		}
-		if c.Kind == templates.Date {
+		if c.Kind == schema.Date {
 			if err := f.SetColStyle(sh, name, dateStyle); err != nil {
 				return err
 			}
@@ -306,7 +306,7 @@ func writeRegister(f *excelize.File, cols []column) error {
 			if err := f.SetCellValue(sh, cell, v); err != nil {
 				return err
 			}
-			if c.Kind == templates.Date {
+			if c.Kind == schema.Date {
 				if err := f.SetCellStyle(sh, cell, cell, dateStyle); err != nil {
 					return err
 				}
@@ -324,7 +324,7 @@ func writeRegister(f *excelize.File, cols []column) error {
 func prompt(c column) string {
 	var b strings.Builder
 	b.WriteString(c.Description)
-	if d := templates.DefaultText(c.Column); d == "—" {
+	if d := schema.DefaultText(c.Column); d == "—" {
 		b.WriteString(" Default: none (optional).")
 	} else {
 		b.WriteString(" Default: ")
@@ -357,7 +357,7 @@ func rangeText(c column) string {
 	if len(c.Values) > 0 {
 		return "Values: " + strings.Join(c.Values, ", ") + "."
 	}
-	if c.Kind != templates.Number && c.Kind != templates.Integer {
+	if c.Kind != schema.Number && c.Kind != schema.Integer {
 		return ""
 	}
 	lo, hi, hasLo, hasHi := bounds(c)
@@ -366,7 +366,7 @@ func rangeText(c column) string {
 		u = " " + c.unit
 	}
 	kind := "A number"
-	if c.Kind == templates.Integer {
+	if c.Kind == schema.Integer {
 		kind = "A whole number"
 	}
 	switch {
@@ -388,17 +388,17 @@ func dataValidation(c column, sqref string) (*excelize.DataValidation, error) {
 	dv := excelize.NewDataValidation(true)
 	dv.Sqref = sqref
 	switch c.Kind {
-	case templates.Enum, templates.Bool:
+	case schema.Enum, schema.Bool:
 		if len(c.Values) == 0 {
 			return nil, nil
 		}
 		if err := dv.SetDropList(c.Values); err != nil {
 			return nil, err
 		}
-	case templates.Number, templates.Integer:
+	case schema.Number, schema.Integer:
 		lo, hi, hasLo, hasHi := bounds(c)
 		t := excelize.DataValidationTypeDecimal
-		if c.Kind == templates.Integer {
+		if c.Kind == schema.Integer {
 			t = excelize.DataValidationTypeWhole
 		}
 		var (
@@ -512,14 +512,14 @@ func writeNotes(f *excelize.File, cols []column, units string) error {
 	if err := f.SetCellStyle(sh, fmt.Sprintf("A%d", first), fmt.Sprintf("F%d", first), headStyle); err != nil {
 		return err
 	}
-	need := map[templates.Need]string{
-		templates.NeedID:       "required",
-		templates.NeedRequired: "required",
-		templates.NeedChecks:   "for the checks that use it",
-		templates.NeedOptional: "optional",
+	need := map[schema.Need]string{
+		schema.NeedID:       "required",
+		schema.NeedRequired: "required",
+		schema.NeedChecks:   "for the checks that use it",
+		schema.NeedOptional: "optional",
 	}
 	for i, c := range cols {
-		row := []any{c.header, c.Description, templates.DefaultText(c.Column), need[c.Need], rangeText(c), strings.Join(c.Synonyms, ", ")}
+		row := []any{c.header, c.Description, schema.DefaultText(c.Column), need[c.Need], rangeText(c), strings.Join(c.Synonyms, ", ")}
 		cell := fmt.Sprintf("A%d", first+1+i)
 		if err := f.SetSheetRow(sh, cell, &row); err != nil {
 			return err

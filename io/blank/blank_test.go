@@ -12,7 +12,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // approxEqual reports whether got is within absTol or relTol·max(|got|,|want|) of want.
@@ -87,7 +87,7 @@ func TestHeadersUS(t *testing.T) {
 		"gear_ratio":      "Gear ratio",
 	}
 	wantSI := map[string]string{"rated_load": "Rated load [t]", "rope_diameter": "Rope diameter [mm]", "motor_power": "Motor power [kW]"}
-	for i, c := range templates.Columns() {
+	for i, c := range schema.Columns() {
 		if w, ok := want[c.Key]; ok && us[i] != w {
 			t.Errorf("US header %s = %q, want %q", c.Key, us[i], w)
 		}
@@ -104,7 +104,7 @@ func TestHeadersUS(t *testing.T) {
 // (standards.md), not by our own code.
 func TestExampleIsRealistic(t *testing.T) {
 	for k := range example {
-		if _, ok := templates.ColumnByKey(k); !ok {
+		if _, ok := schema.ColumnByKey(k); !ok {
 			t.Errorf("example has %q, which is not a schema column", k)
 		}
 	}
@@ -178,7 +178,7 @@ func TestWriteXLSX(t *testing.T) {
 				t.Fatalf("sheets %v", got)
 			}
 			heads, _ := Headers(units)
-			cols := templates.Columns()
+			cols := schema.Columns()
 			dvs, err := f.GetDataValidations(RegisterSheet)
 			if err != nil {
 				t.Fatal(err)
@@ -209,7 +209,7 @@ func TestWriteXLSX(t *testing.T) {
 				}
 				data := bySqref[name+"2:"+name+strconv.Itoa(DataRows+1)]
 				switch c.Kind {
-				case templates.Enum, templates.Bool:
+				case schema.Enum, schema.Bool:
 					if data == nil || data.Type != "list" {
 						t.Errorf("%s (%s): no list validation on the data rows", name, c.Key)
 						continue
@@ -219,7 +219,7 @@ func TestWriteXLSX(t *testing.T) {
 							t.Errorf("%s: list %q lacks %q", c.Key, data.Formula1, v)
 						}
 					}
-				case templates.Number, templates.Integer:
+				case schema.Number, schema.Integer:
 					if (c.HasMin || c.HasMax) && data == nil {
 						t.Errorf("%s (%s): no range validation", name, c.Key)
 					}
@@ -243,7 +243,7 @@ func TestWriteXLSX(t *testing.T) {
 // Range validations carry the schema's bounds converted to the header's unit.
 func TestRangeValidationsConverted(t *testing.T) {
 	find := func(f *excelize.File, key string) *excelize.DataValidation {
-		for i, c := range templates.Columns() {
+		for i, c := range schema.Columns() {
 			if c.Key != key {
 				continue
 			}
@@ -316,10 +316,10 @@ func TestNotesSheet(t *testing.T) {
 		t.Error("Notes sheet lacks the caution")
 	}
 	heads, _ := Headers(US)
-	for i, c := range templates.Columns() {
+	for i, c := range schema.Columns() {
 		found := false
 		for _, r := range rows {
-			if len(r) >= 3 && r[0] == heads[i] && r[1] == c.Description && r[2] == templates.DefaultText(c) {
+			if len(r) >= 3 && r[0] == heads[i] && r[1] == c.Description && r[2] == schema.DefaultText(c) {
 				found = true
 				break
 			}
@@ -343,7 +343,7 @@ func TestWriteCSV(t *testing.T) {
 	if len(recs) != 2 || strings.Join(recs[0], "|") != strings.Join(heads, "|") {
 		t.Fatalf("records %q", recs)
 	}
-	for i, c := range templates.Columns() {
+	for i, c := range schema.Columns() {
 		v := recs[1][i]
 		switch c.Key {
 		case "rated_load": // 5 t = 11 023.1 lb (lb = 0.45359237 kg, NIST SP 811)

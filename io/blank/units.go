@@ -1,5 +1,5 @@
 // Package blank writes hoistfleet's blank register: the header row generated from the
-// column schema (templates.Columns) with units in square brackets, one example row of
+// column schema (schema.Columns) with units in square brackets, one example row of
 // an invented hoist, and — in the XLSX form — an input message on every header cell,
 // data validation on the data rows (lists for enum and yes/no columns, number ranges
 // converted to the header's unit) and a Notes sheet listing every column and the
@@ -13,7 +13,7 @@ import (
 	"fmt"
 	"math"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // Unit systems accepted by HeaderUnit, WriteXLSX and WriteCSV.
@@ -69,7 +69,7 @@ var toSI = map[string]float64{
 
 // HeaderUnit is the unit the template writes in column c's header for the unit system
 // ("si" or "us"); "" for a column without a unit.
-func HeaderUnit(c templates.Column, units string) (string, error) {
+func HeaderUnit(c schema.Column, units string) (string, error) {
 	switch units {
 	case SI:
 		return c.Unit, nil

@@ -2,7 +2,7 @@ package outbuf
 
 import (
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // TextField reads one schema field of each Asset (the site, say) by its column index,
@@ -14,7 +14,7 @@ type TextField struct {
 
 // NewTextField returns a TextField reading the schema field key.
 func NewTextField(key string) TextField {
-	i, ok := templates.ColumnIndex(key)
+	i, ok := schema.ColumnIndex(key)
 	if !ok {
 		i = -1
 	}

@@ -4,13 +4,13 @@ import (
 	"testing"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // TestTextField: a TextField reads what fleet.Asset.Get reads, the text of an OK field
 // and "" otherwise, from Values (full, short, nil) and from the older Fields.
 func TestTextField(t *testing.T) {
-	i, ok := templates.ColumnIndex("site")
+	i, ok := schema.ColumnIndex("site")
 	if !ok {
 		t.Fatal("site is not a schema key")
 	}
@@ -24,9 +24,9 @@ func TestTextField(t *testing.T) {
 	ok1 := fleet.Value{State: fleet.OK, Text: "Millbrook Coil Centre"}
 	bad := fleet.Value{State: fleet.Bad, Text: "not written"}
 	assets := map[string]*fleet.Asset{
-		"values ok":    withValues(templates.ColumnCount(), ok1),
-		"values bad":   withValues(templates.ColumnCount(), bad),
-		"values empty": withValues(templates.ColumnCount(), fleet.Value{}),
+		"values ok":    withValues(schema.ColumnCount(), ok1),
+		"values bad":   withValues(schema.ColumnCount(), bad),
+		"values empty": withValues(schema.ColumnCount(), fleet.Value{}),
 		"values short": withValues(i, ok1),
 		"fields ok":    {Fields: map[string]fleet.Value{"site": ok1}},
 		"fields bad":   {Fields: map[string]fleet.Value{"site": bad}},

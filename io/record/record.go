@@ -14,7 +14,7 @@ import (
 	"strings"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // Format is the record's layout.
@@ -176,7 +176,7 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 		si := ""
 		if col.Key != "" {
 			v := a.Get(col.Key)
-			c, _ := templates.ColumnByKey(col.Key)
+			c, _ := schema.ColumnByKey(col.Key)
 			switch {
 			case v.State == fleet.Bad:
 				si = "unreadable (see messages)"
@@ -184,12 +184,12 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 			case c.Quantity == "time" && c.Unit == "h":
 				// Hours columns are shown in hours: the checks that use them work in h.
 				si = Num(v.Num/3600) + " h"
-			case c.Kind == templates.Number || c.Kind == templates.Integer:
+			case c.Kind == schema.Number || c.Kind == schema.Integer:
 				si = Num(v.Num)
 				if u := siUnit[c.Quantity]; u != "" && u != "1" {
 					si += " " + u
 				}
-			case c.Kind == templates.Date:
+			case c.Kind == schema.Date:
 				si = v.Date.Format("2006-01-02")
 			default:
 				si = v.Text

@@ -12,7 +12,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 const benchRows = 20000
@@ -21,7 +21,7 @@ const benchRows = 20000
 // each column's range) as a header and rows of cells; dates are ISO text in CSV and
 // serials in XLSX.
 func benchRegister(xlsx bool) ([]string, [][]any) {
-	cols := templates.Columns()[:40]
+	cols := schema.Columns()[:40]
 	header := make([]string, len(cols))
 	for i, c := range cols {
 		header[i] = c.HeaderWithUnit("")
@@ -31,7 +31,7 @@ func benchRegister(xlsx bool) ([]string, [][]any) {
 		row := make([]any, len(cols))
 		for i, c := range cols {
 			switch c.Kind {
-			case templates.Number, templates.Integer:
+			case schema.Number, schema.Integer:
 				x := 1.0
 				switch {
 				case c.HasMin && c.HasMax:
@@ -39,19 +39,19 @@ func benchRegister(xlsx bool) ([]string, [][]any) {
 				case c.HasMin:
 					x = c.Min + 1 + float64(r%7)
 				}
-				if c.Kind == templates.Integer {
+				if c.Kind == schema.Integer {
 					x = float64(int(x))
 				}
 				row[i] = x
-			case templates.Date:
+			case schema.Date:
 				if xlsx {
 					row[i] = 45000 + r%400
 				} else {
 					row[i] = "2023-05-17"
 				}
-			case templates.Enum:
+			case schema.Enum:
 				row[i] = c.Values[r%len(c.Values)]
-			case templates.Bool:
+			case schema.Bool:
 				row[i] = "yes"
 			default:
 				row[i] = fmt.Sprintf("%s %d", c.Key, r)

@@ -12,8 +12,8 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/schema"
 	"hoistfleet/io/units"
-	"hoistfleet/templates"
 )
 
 // Sentinels wrapped by the errors of Bad values, for errors.Is.
@@ -45,11 +45,11 @@ type dialect struct {
 
 // colSpec is what the reader knows about one column of the register.
 type colSpec struct {
-	known     bool             // the schema knows the column
-	col       templates.Column // the schema column when known
-	field     int              // its index in templates.Columns() (fleet.Asset.Values)
-	factor    float64          // cell × factor = SI
-	unitLabel string           // unit in messages ("t", "%"), "" for none
+	known     bool          // the schema knows the column
+	col       schema.Column // the schema column when known
+	field     int           // its index in schema.Columns() (fleet.Asset.Values)
+	factor    float64       // cell × factor = SI
+	unitLabel string        // unit in messages ("t", "%"), "" for none
 	minSI     float64
 	maxSI     float64
 	enumKeys  []string // normalized col.Values

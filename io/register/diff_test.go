@@ -10,7 +10,7 @@ import (
 	"testing"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // cellCorpus is the cells the differential tests try in every column: good values in each
@@ -37,7 +37,7 @@ var cellCorpus = []string{
 func diffSpecs(t testing.TB) []colSpec {
 	t.Helper()
 	var titles []string
-	for _, c := range templates.Columns() {
+	for _, c := range schema.Columns() {
 		titles = append(titles, c.HeaderWithUnit(""))
 	}
 	// Same quantities in other units, and header problems, in a second header (a

@@ -5,10 +5,10 @@ import (
 	"strings"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
-// cellKind is templates.Kind as a small integer, so that the per-cell conversion switches
+// cellKind is schema.Kind as a small integer, so that the per-cell conversion switches
 // on a byte instead of comparing strings.
 type cellKind uint8
 
@@ -22,19 +22,19 @@ const (
 	kindBool                    //
 )
 
-func kindOf(k templates.Kind) cellKind {
+func kindOf(k schema.Kind) cellKind {
 	switch k {
-	case templates.Text:
+	case schema.Text:
 		return kindText
-	case templates.Number:
+	case schema.Number:
 		return kindNumber
-	case templates.Integer:
+	case schema.Integer:
 		return kindInteger
-	case templates.Date:
+	case schema.Date:
 		return kindDate
-	case templates.Enum:
+	case schema.Enum:
 		return kindEnum
-	case templates.Bool:
+	case schema.Bool:
 		return kindBool
 	}
 	return kindOther

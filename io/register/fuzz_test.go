@@ -12,7 +12,7 @@ import (
 	"testing"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // FuzzParseCell: the cell parser never panics; a Bad value always carries a located,
@@ -22,7 +22,7 @@ func FuzzParseCell(f *testing.F) {
 		f.Add(s, uint8(0), false, false)
 		f.Add(s, uint8(6), true, true)
 	}
-	cols := templates.Columns()
+	cols := schema.Columns()
 	f.Fuzz(func(t *testing.T, raw string, pick uint8, comma, xlsx bool) {
 		col := cols[int(pick)%len(cols)]
 		r := &Reader{sheet: "R"}
@@ -49,7 +49,7 @@ func FuzzParseCell(f *testing.F) {
 				t.Fatalf("Bad without a located error: %+v", v.Err)
 			}
 		case fleet.OK:
-			if col.Kind == templates.Number || col.Kind == templates.Integer {
+			if col.Kind == schema.Number || col.Kind == schema.Integer {
 				if math.IsNaN(v.Num) || math.IsInf(v.Num, 0) {
 					t.Fatalf("%q → %v", raw, v.Num)
 				}
@@ -60,9 +60,9 @@ func FuzzParseCell(f *testing.F) {
 					t.Fatalf("%q → %v → %q → %+v", raw, v.Num, back, v2)
 				}
 			}
-			if col.Kind == templates.Enum || col.Kind == templates.Bool {
+			if col.Kind == schema.Enum || col.Kind == schema.Bool {
 				allowed := col.Values
-				if col.Kind == templates.Bool {
+				if col.Kind == schema.Bool {
 					allowed = []string{"yes", "no"}
 				}
 				found := false

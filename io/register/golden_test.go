@@ -21,6 +21,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/schema"
 	"hoistfleet/templates"
 )
 
@@ -198,7 +199,7 @@ func dumpAsset(b *strings.Builder, a *fleet.Asset) {
 	// The fields the reader wrote: every one carries its cell reference (the dumps were
 	// made when Asset held a map of exactly those).
 	var keys []string
-	for i, col := range templates.Columns() {
+	for i, col := range schema.Columns() {
 		if i < len(a.Values) && a.Values[i].Cell.Row != 0 {
 			keys = append(keys, col.Key)
 		}
@@ -275,7 +276,7 @@ func csvToXLSX(t testing.TB, data []byte) []byte {
 // unknown ones, mixing good values with the kinds of bad ones registers hold.
 func generatedRegister(seed uint64, n int) ([]string, [][]string) {
 	rng := rand.New(rand.NewPCG(seed, 7))
-	cols := templates.Columns()
+	cols := schema.Columns()
 	header := []string{}
 	for i, c := range cols {
 		h := c.HeaderWithUnit("")
@@ -299,7 +300,7 @@ func generatedRegister(seed uint64, n int) ([]string, [][]string) {
 		for i, c := range cols {
 			good := rng.IntN(10) < 7
 			switch c.Kind {
-			case templates.Number, templates.Integer:
+			case schema.Number, schema.Integer:
 				x := 1.0 + float64(rng.IntN(50))
 				switch {
 				case c.HasMin && c.HasMax:
@@ -307,7 +308,7 @@ func generatedRegister(seed uint64, n int) ([]string, [][]string) {
 				case c.HasMin:
 					x = c.Min + 1 + 100*rng.Float64()
 				}
-				if c.Kind == templates.Integer {
+				if c.Kind == schema.Integer {
 					x = math.Round(x)
 				}
 				row[i] = strconv.FormatFloat(x, 'g', 1+rng.IntN(8), 64)
@@ -316,20 +317,20 @@ func generatedRegister(seed uint64, n int) ([]string, [][]string) {
 						"95%", "95 %", "1e3", "-3", "0", "1e400", "NaN", "Inf", "0x1p3", "1_000", "+7", "007", ".5", "5.", "3.5e", "12,5,0",
 						"12.5.0", " 7 ", "1,5e3", "2.5", "-0", "1.2345", "1.234,5", "1'250", "12\u00a0500", "½", "١٢")
 				}
-			case templates.Date:
+			case schema.Date:
 				row[i] = fmt.Sprintf("%04d-%02d-%02d", 2015+rng.IntN(12), 1+rng.IntN(12), 1+rng.IntN(28))
 				if !good {
 					row[i] = pick("", "31/12/2023", "2023-02-30", "2023-13-01", "2024-02-29", "2023-02-29", "2023-06-30T10:00:00Z",
 						"2023-06-30 10:00", "2023-06-30T10:00", "2023-06-30T25:00", "2023-06-30x", "45292", "45292.5", "0", "3000000",
 						"2023-6-30", "20230630", " 2023-06-30 ", "2023-06-30T10:00:00.123+02:00", "0000-01-01", "9999-12-31")
 				}
-			case templates.Enum:
+			case schema.Enum:
 				row[i] = c.Values[rng.IntN(len(c.Values))]
 				if !good {
 					v := c.Values[rng.IntN(len(c.Values))]
 					row[i] = pick(strings.ToUpper(v), " "+v+" ", "ISO "+v, "FEM "+v, "iso4301 "+v, "fem9511-"+v, "iso", "X9", "3", "2.5", "Ünknown", v+"!", strings.ReplaceAll(v, "", "-"))
 				}
-			case templates.Bool:
+			case schema.Bool:
 				row[i] = pick("yes", "no", "Y", "n", "TRUE", "false", "1", "0", "maybe", " yes ", "Yes")
 			default:
 				row[i] = fmt.Sprintf("%s %d", c.Key, r)

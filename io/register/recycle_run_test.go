@@ -7,8 +7,8 @@ import (
 	"time"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/rules"
 	"hoistfleet/io/csvout"
-	"hoistfleet/templates"
 )
 
 // countingReader passes a Reader through and notes every distinct Asset it returns, so a
@@ -44,7 +44,7 @@ func (k keepingSink) Prepare(r *fleet.Result) { k.w.Prepare(r) }
 func TestRunWithRecycledAssets(t *testing.T) {
 	header, rows := generatedRegister(7, 600)
 	data := generatedCSV(header, rows, ',')
-	tab, err := templates.Profile("iso")
+	tab, err := rules.Profile("iso")
 	if err != nil {
 		t.Fatal(err)
 	}

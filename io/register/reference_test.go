@@ -19,8 +19,8 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/schema"
 	"hoistfleet/io/units"
-	"hoistfleet/templates"
 )
 
 // parse reads one cell of the column: the Value in SI for a known column and the Cell
@@ -34,7 +34,7 @@ func (s *colSpec) refParse(raw string, d dialect, ref fleet.CellRef, asset strin
 		return v, c
 	}
 	kind := s.col.Kind
-	c.IsNumber = kind != templates.Text && kind != templates.Date && refIsPlainNumber(text)
+	c.IsNumber = kind != schema.Text && kind != schema.Date && refIsPlainNumber(text)
 	if text == "" {
 		return v, c
 	}
@@ -48,7 +48,7 @@ func (s *colSpec) refParse(raw string, d dialect, ref fleet.CellRef, asset strin
 		return bad(fleet.HeaderProblem, ErrUnit, "%s", s.headerErr)
 	}
 	switch kind {
-	case templates.Number, templates.Integer:
+	case schema.Number, schema.Integer:
 		x, hint, ok := refParseNumber(text, d)
 		factor := s.factor
 		if !ok && s.col.Quantity == "ratio" && strings.HasSuffix(text, "%") {
@@ -59,7 +59,7 @@ func (s *colSpec) refParse(raw string, d dialect, ref fleet.CellRef, asset strin
 		if !ok {
 			return bad(fleet.Invalid, ErrNotNumber, "%q is not a number%s%s", text, s.in(), hint)
 		}
-		if kind == templates.Integer && x != math.Trunc(x) {
+		if kind == schema.Integer && x != math.Trunc(x) {
 			return bad(fleet.Invalid, ErrNotWhole, "%q is not a whole number%s", text, s.in())
 		}
 		si := x * factor
@@ -71,14 +71,14 @@ func (s *colSpec) refParse(raw string, d dialect, ref fleet.CellRef, asset strin
 			return bad(fleet.OutOfRange, ErrOutOfRange, "%q is out of range%s: %s", text, s.in(), msg)
 		}
 		v.State = fleet.OK
-	case templates.Date:
+	case schema.Date:
 		t, msg := refParseDate(text, d)
 		if msg != "" {
 			return bad(fleet.Invalid, ErrNotDate, "%q is not a date: %s", text, msg)
 		}
 		v.Date, v.State = t, fleet.OK
 		c.IsDate, c.Date = true, t
-	case templates.Enum:
+	case schema.Enum:
 		if s.col.Key == "load_spectrum" {
 			if _, _, ok := refParseNumber(text, d); ok {
 				return bad(fleet.Invalid, ErrNotAllowed, "%q is a number: the load spectrum is a class L1 to L4; for a factor km use the Spectrum factor column", text)
@@ -89,7 +89,7 @@ func (s *colSpec) refParse(raw string, d dialect, ref fleet.CellRef, asset strin
 			return bad(fleet.Invalid, ErrNotAllowed, "%q is not one of %s", text, strings.Join(s.col.Values, ", "))
 		}
 		v.Text, v.State = val, fleet.OK
-	case templates.Bool:
+	case schema.Bool:
 		switch strings.ToLower(text) {
 		case "yes", "y", "true", "1":
 			v.Text = "yes"

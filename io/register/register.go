@@ -3,7 +3,7 @@
 // known column converted to SI. It implements fleet.Source.
 //
 // The header is the first row. Each header cell is matched to the column schema
-// (templates.Columns) by its title, ignoring case, spaces and punctuation, against the
+// (schema.Columns) by its title, ignoring case, spaces and punctuation, against the
 // schema's key, header and synonyms; the unit in brackets at its end is converted with
 // package units, and a column without a unit takes the schema's default unit. For
 // example, with the header
@@ -41,8 +41,8 @@ import (
 	"strings"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/schema"
 	"hoistfleet/io/units"
-	"hoistfleet/templates"
 )
 
 // rawRow is one row as the file gives it.
@@ -118,7 +118,7 @@ func (r *Reader) newAsset(n int) (a *fleet.Asset, values []fleet.Value) {
 		} else {
 			cells = make([]fleet.Cell, n)
 		}
-		if len(vals) == templates.ColumnCount() {
+		if len(vals) == schema.ColumnCount() {
 			clear(vals)
 		} else {
 			vals = nil
@@ -350,7 +350,7 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 			matched++
 			sc, _ := index.col(key)
 			spec.known, spec.col = true, sc
-			spec.field, _ = templates.ColumnIndex(key)
+			spec.field, _ = schema.ColumnIndex(key)
 			r.known++
 			col.Key = key
 			spec.setUnit(raw, unit, splitErr, &col)

@@ -13,7 +13,7 @@ import (
 	"time"
 
 	"hoistfleet/fleet"
-	"hoistfleet/templates"
+	"hoistfleet/fleet/schema"
 )
 
 // approxEqual reports whether got and want agree within absTol or relTol × max(|got|,
@@ -151,7 +151,7 @@ func TestUSUnitsMatchSI(t *testing.T) {
 		t.Fatalf("rows: %d %d", len(si), len(us))
 	}
 	n := 0
-	for _, col := range templates.Columns() {
+	for _, col := range schema.Columns() {
 		k := col.Key
 		want, got := si[0].Get(k), us[0].Get(k)
 		if want.Cell.Row == 0 { // not a column of the register

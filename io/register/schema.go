@@ -4,21 +4,21 @@ import (
 	"sort"
 	"strings"
 
+	"hoistfleet/fleet/schema"
 	"hoistfleet/io/units"
-	"hoistfleet/templates"
 )
 
 // schemaIdx finds a schema column from a header title.
 type schemaIdx struct {
 	byName    map[string]string   // normalized key, header or synonym → key
 	ambiguous map[string][]string // normalized names claimed by several keys
-	cols      map[string]templates.Column
+	cols      map[string]schema.Column
 }
 
-// schemaIndex indexes templates.Columns by the normalized key, header and synonyms.
+// schemaIndex indexes schema.Columns by the normalized key, header and synonyms.
 func schemaIndex() *schemaIdx {
-	x := &schemaIdx{byName: map[string]string{}, ambiguous: map[string][]string{}, cols: map[string]templates.Column{}}
-	for _, c := range templates.Columns() {
+	x := &schemaIdx{byName: map[string]string{}, ambiguous: map[string][]string{}, cols: map[string]schema.Column{}}
+	for _, c := range schema.Columns() {
 		x.cols[c.Key] = c
 		names := append([]string{c.Key, c.Header}, c.Synonyms...)
 		for _, n := range names {
@@ -62,7 +62,7 @@ func (x *schemaIdx) match(title string) (key, ambiguous string) {
 	return x.byName[n], ""
 }
 
-func (x *schemaIdx) col(key string) (templates.Column, bool) {
+func (x *schemaIdx) col(key string) (schema.Column, bool) {
 	c, ok := x.cols[key]
 	return c, ok
 }

@@ -1,8 +1,8 @@
 // Package rulesfile reads a user's rule file — their insurer's or jurisdiction's
 // acceptance criteria — as CSV or as one sheet of an XLSX workbook, into rule rows that
-// override a built-in profile (templates.Table.Override).
+// override a built-in profile (rules.Table.Override).
 //
-// The file has the columns of the built-in tables (templates.RuleColumns):
+// The file has the columns of the built-in tables (rules.RuleColumns):
 //
 //	rule,groups,when,value,unit,source,provenance,note
 //	rope.design_factor,M6,,6.0,1,Insurer acceptance criteria 2025 §3,seen,stricter than ISO 4308-1
@@ -21,7 +21,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/rules"
 )
 
 // MaxSize is the largest rule file read, in bytes.
@@ -35,8 +35,8 @@ var zipMagic = []byte("PK\x03\x04")
 // without regard to case), or the first sheet when sheet is "". Anything else is read
 // as CSV (comma or semicolon separated, UTF-8), where a sheet name is an error. Rules
 // come back with Origin set to name (and ", sheet S" for a workbook) and Line to their
-// line or sheet row. Errors from the rows are a templates.RuleErrors.
-func Read(name string, r io.Reader, sheet string) ([]templates.Rule, error) {
+// line or sheet row. Errors from the rows are a rules.RuleErrors.
+func Read(name string, r io.Reader, sheet string) ([]rules.Rule, error) {
 	data, err := io.ReadAll(io.LimitReader(r, MaxSize+1))
 	if err != nil {
 		return nil, fmt.Errorf("%s: reading rules: %w", name, err)
@@ -50,10 +50,10 @@ func Read(name string, r io.Reader, sheet string) ([]templates.Rule, error) {
 	if sheet != "" {
 		return nil, fmt.Errorf("%s: a sheet (%q) was named but the file is not an XLSX workbook", name, sheet)
 	}
-	return templates.ParseRules(bytes.NewReader(data), name)
+	return rules.ParseRules(bytes.NewReader(data), name)
 }
 
-func readXLSX(name string, data []byte, sheet string) ([]templates.Rule, error) {
+func readXLSX(name string, data []byte, sheet string) ([]rules.Rule, error) {
 	f, err := excelize.OpenReader(bytes.NewReader(data))
 	if err != nil {
 		return nil, fmt.Errorf("%s: not a readable XLSX workbook: %w", name, err)
@@ -86,8 +86,8 @@ func readXLSX(name string, data []byte, sheet string) ([]templates.Rule, error) 
 	if len(sheets) > 1 {
 		where = name + "[" + use + "]"
 	}
-	rules, err := templates.ParseRuleRecords(rows, where, 1)
-	var es templates.RuleErrors
+	parsed, err := rules.ParseRuleRecords(rows, where, 1)
+	var es rules.RuleErrors
 	if errors.As(err, &es) {
 		for _, e := range es {
 			if e.Col > 0 {
@@ -103,8 +103,8 @@ func readXLSX(name string, data []byte, sheet string) ([]templates.Rule, error) 
 	if err != nil {
 		return nil, err
 	}
-	for i := range rules {
-		rules[i].Origin = name + ", sheet " + use
+	for i := range parsed {
+		parsed[i].Origin = name + ", sheet " + use
 	}
-	return rules, nil
+	return parsed, nil
 }

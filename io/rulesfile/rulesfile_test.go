@@ -9,7 +9,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
-	"hoistfleet/templates"
+	"hoistfleet/fleet/rules"
 )
 
 // approxEqual reports whether got is within absTol or relTol·max(|got|,|want|) of want.
@@ -75,14 +75,14 @@ func TestReadXLSXNamedSheet(t *testing.T) {
 			{"rope.design_factor", "M6", nil, 6.3, "1", "Site criteria rev 3", "seen", nil},
 		},
 	})
-	rules, err := Read("rules.xlsx", bytes.NewReader(data), "limits")
+	rows, err := Read("rules.xlsx", bytes.NewReader(data), "limits")
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rules) != 2 {
-		t.Fatalf("%d rules, want 2", len(rules))
+	if len(rows) != 2 {
+		t.Fatalf("%d rules, want 2", len(rows))
 	}
-	r := rules[0]
+	r := rows[0]
 	if r.Origin != "rules.xlsx, sheet Limits" || r.Line != 3 {
 		t.Errorf("origin %q line %d", r.Origin, r.Line)
 	}
@@ -90,11 +90,11 @@ func TestReadXLSXNamedSheet(t *testing.T) {
 	if v, err := r.ValueSI(); err != nil || !approxEqual(v, 0.0254/64, 0, 1e-12) {
 		t.Errorf("ValueSI = %v, %v; want %v", v, err, 0.0254/64)
 	}
-	iso, err := templates.Profile("iso")
+	iso, err := rules.Profile("iso")
 	if err != nil {
 		t.Fatal(err)
 	}
-	got, ok := iso.Override(rules).Lookup("rope.design_factor", templates.Scope{Group: 6})
+	got, ok := iso.Override(rows).Lookup("rope.design_factor", rules.Scope{Group: 6})
 	if !ok || got.Value != "6.3" || got.Origin != "rules.xlsx, sheet Limits" || got.Line != 4 {
 		t.Errorf("override: %+v", got)
 	}
@@ -108,7 +108,7 @@ func TestReadXLSXFirstSheetAndErrors(t *testing.T) {
 		{"drum.h1", "M6", nil, "twenty", "1", "ISO 4308-1", "memory, medium", nil},
 	}})
 	_, err := Read("rules.xlsx", bytes.NewReader(one), "")
-	var es templates.RuleErrors
+	var es rules.RuleErrors
 	if !errors.As(err, &es) || len(es) != 2 {
 		t.Fatalf("got %v, want two located errors", err)
 	}
@@ -140,9 +140,9 @@ func TestReadCSV(t *testing.T) {
 	if err == nil || !strings.HasPrefix(err.Error(), "insurer.csv:3: when: ") {
 		t.Errorf("got %v", err)
 	}
-	rules, err := Read("insurer.csv", strings.NewReader(text[:strings.LastIndex(strings.TrimRight(text, "\n"), "\n")+1]), "")
-	if err != nil || len(rules) != 1 || rules[0].Origin != "insurer.csv" {
-		t.Errorf("got %v %v", rules, err)
+	rows, err := Read("insurer.csv", strings.NewReader(text[:strings.LastIndex(strings.TrimRight(text, "\n"), "\n")+1]), "")
+	if err != nil || len(rows) != 1 || rows[0].Origin != "insurer.csv" {
+		t.Errorf("got %v %v", rows, err)
 	}
 	if _, err := Read("insurer.csv", strings.NewReader(text), "Sheet1"); err == nil {
 		t.Error("a sheet name with a CSV file: no error")

@@ -16,6 +16,7 @@ import (
 	"time"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/rules"
 	"hoistfleet/io/register"
 	"hoistfleet/templates"
 )
@@ -83,7 +84,7 @@ func GeneratedRegister(t testing.TB, n int, units string, seed int) Register {
 
 func NewChecker(t testing.TB, profile string, factor float64) *fleet.Checker {
 	t.Helper()
-	tab, err := templates.Profile(profile)
+	tab, err := rules.Profile(profile)
 	if err != nil {
 		t.Fatal(err)
 	}

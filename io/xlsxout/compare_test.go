@@ -15,6 +15,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/rules"
 	"hoistfleet/io/register"
 	"hoistfleet/templates"
 )
@@ -32,7 +33,7 @@ func demoResults(t *testing.T, name, profile string, factor float64) (*fleet.Hea
 		t.Fatal(err)
 	}
 	defer src.Close()
-	tab, err := templates.Profile(profile)
+	tab, err := rules.Profile(profile)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,8 +1,9 @@
-package templates
+package schema
 
 import (
 	"flag"
 	"fmt"
+	"hoistfleet/fleet/rules"
 	"os"
 	"path/filepath"
 	"strings"
@@ -64,34 +65,7 @@ func TestColumnsMarkdown(t *testing.T) {
 	}
 }
 
-func TestRulesMarkdown(t *testing.T) {
-	for _, p := range Profiles() {
-		tb := mustProfile(t, p)
-		md := RulesMarkdown(tb)
-		lines := strings.Split(strings.TrimRight(md, "\n"), "\n")
-		if len(lines) != len(tb.Rules)+2 {
-			t.Fatalf("%s: %d lines for %d rules", p, len(lines), len(tb.Rules))
-		}
-		for i, r := range tb.Rules {
-			cs := cells(lines[i+2])
-			if len(cs) != 8 || cs[0] != "`"+r.ID+"`" || cs[3] != r.Value || cs[6] != r.Provenance {
-				t.Errorf("%s line %d: %q", p, i+3, lines[i+2])
-			}
-		}
-	}
-	user, err := ParseRules(strings.NewReader("rule,groups,when,value,unit,source,provenance,note\ndrum.h1,M5,,20,1,site rule | rev 2,seen,\n"), "site.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	md := RulesMarkdown(mustProfile(t, "iso").Override(user))
-	last := strings.Split(strings.TrimRight(md, "\n"), "\n")
-	cs := cells(last[len(last)-1])
-	if len(cs) != 9 || cs[8] != "site.csv" || cs[5] != "site rule | rev 2" {
-		t.Errorf("override row: %q", last[len(last)-1])
-	}
-}
-
-var updateReadme = flag.Bool("update-readme", false, "rewrite the generated blocks of ../README.md (columns, rules)")
+var updateReadme = flag.Bool("update-readme", false, "rewrite the generated blocks of ../../README.md (columns, rules)")
 
 // replaceBlock puts content between "<!-- name:begin -->" and "<!-- name:end -->".
 func replaceBlock(text, name, content string) (string, error) {
@@ -107,12 +81,12 @@ func replaceBlock(text, name, content string) (string, error) {
 // rulesReadme is the README's rules block: every built-in profile's table.
 func rulesReadme() (string, error) {
 	var b strings.Builder
-	for _, p := range Profiles() {
-		tb, err := Profile(p)
+	for _, p := range rules.Profiles() {
+		tb, err := rules.Profile(p)
 		if err != nil {
 			return "", err
 		}
-		fmt.Fprintf(&b, "### Profile `%s`\n\n%s\n", p, RulesMarkdown(tb))
+		fmt.Fprintf(&b, "### Profile `%s`\n\n%s\n", p, rules.Markdown(tb))
 	}
 	return b.String(), nil
 }
@@ -120,14 +94,14 @@ func rulesReadme() (string, error) {
 // README.md must carry the generated column table verbatim: regenerate it whenever
 // columns.csv changes with
 //
-//	go test ./templates -run TestReadmeHasColumnTable -update-readme
+//	go test ./fleet/schema -run TestReadmeHasColumnTable -update-readme
 //
 // which rewrites the columns and rules blocks. A missing README fails.
 func TestReadmeHasColumnTable(t *testing.T) {
-	path := filepath.Join("..", "README.md")
+	path := filepath.Join("..", "..", "README.md")
 	data, err := os.ReadFile(path)
 	if err != nil {
-		t.Fatalf("README.md: %v (it must contain the output of templates.ColumnsMarkdown())", err)
+		t.Fatalf("README.md: %v (it must contain the output of schema.ColumnsMarkdown())", err)
 	}
 	readme := strings.ReplaceAll(string(data), "\r\n", "\n")
 	if *updateReadme {
@@ -146,6 +120,6 @@ func TestReadmeHasColumnTable(t *testing.T) {
 		}
 	}
 	if !strings.Contains(readme, ColumnsMarkdown()) {
-		t.Errorf("README.md does not contain the current column table: run go test ./templates -run TestReadmeHasColumnTable -update-readme")
+		t.Errorf("README.md does not contain the current column table: run go test ./fleet/schema -run TestReadmeHasColumnTable -update-readme")
 	}
 }

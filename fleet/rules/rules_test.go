@@ -1,4 +1,4 @@
-package templates
+package rules
 
 import (
 	"errors"

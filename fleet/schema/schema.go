@@ -1,20 +1,18 @@
-// Package templates holds hoistfleet's embedded data: the register's column schema
-// (columns.csv), the rule tables of each profile (rules/*.csv) and what is generated
-// from them. The schema is the single source of truth for the parser, the blank
-// template, --help and README's column table.
-package templates
+// Package schema is the register's column schema: each column's key, header, synonyms,
+// quantity, default unit, kind, default or need, description and valid range, parsed
+// from templates/columns.csv. It is the single source of truth for the parser, the
+// blank template, --help and README's column table.
+package schema
 
 import (
-	_ "embed"
 	"encoding/csv"
 	"fmt"
 	"strconv"
 	"strings"
 	"sync"
-)
 
-//go:embed columns.csv
-var columnsCSV string
+	"hoistfleet/templates"
+)
 
 // Kind is how a column's cells are read.
 type Kind string
@@ -76,7 +74,7 @@ var (
 )
 
 func loadSchema() {
-	schema, schemaErr = parseColumns(columnsCSV)
+	schema, schemaErr = parseColumns(templates.ColumnsCSV)
 	schemaIndex = make(map[string]int, len(schema))
 	for i, c := range schema {
 		schemaIndex[c.Key] = i
@@ -87,7 +85,7 @@ func loadSchema() {
 func mustSchema() {
 	schemaOnce.Do(loadSchema)
 	if schemaErr != nil {
-		panic("templates: embedded columns.csv: " + schemaErr.Error())
+		panic("schema: embedded templates/columns.csv: " + schemaErr.Error())
 	}
 }
 

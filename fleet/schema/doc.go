@@ -1,6 +1,7 @@
-package templates
+package schema
 
 import (
+	"hoistfleet/fleet/rules"
 	"strconv"
 	"strings"
 )
@@ -20,7 +21,7 @@ func ColumnsMarkdown() string {
 			DefaultText(c),
 			strings.Join(c.Synonyms, ", "),
 		}
-		writeRow(&b, row)
+		rules.MarkdownRow(&b, row)
 	}
 	return b.String()
 }
@@ -78,12 +79,12 @@ func DefaultText(c Column) string {
 // % is shown in % ("rule default.peak_torque_ratio (160 %)").
 func ruleDefaultText(id, colUnit string) string {
 	var vals, names []string
-	for _, p := range Profiles() {
-		t, err := Profile(p)
+	for _, p := range rules.Profiles() {
+		t, err := rules.Profile(p)
 		if err != nil {
 			continue
 		}
-		r, ok := t.Lookup(id, Scope{})
+		r, ok := t.Lookup(id, rules.Scope{})
 		if !ok {
 			continue
 		}
@@ -113,47 +114,4 @@ func ruleDefaultText(id, colUnit string) string {
 		parts[i] = names[i] + " " + vals[i]
 	}
 	return "rule " + id + " (" + strings.Join(parts, ", ") + ")"
-}
-
-// RulesMarkdown is a rule table as a markdown table, rows in table order. An Origin
-// column is added when some rows come from elsewhere than the built-in profile.
-func RulesMarkdown(t *Table) string {
-	mixed := false
-	for _, r := range t.Rules {
-		if r.Origin != "built-in "+t.Profile {
-			mixed = true
-			break
-		}
-	}
-	var b strings.Builder
-	head := []string{"Rule", "Groups", "When", "Value", "Unit", "Source", "Provenance", "Note"}
-	if mixed {
-		head = append(head, "Origin")
-	}
-	writeRow(&b, head)
-	b.WriteString("|" + strings.Repeat("---|", len(head)) + "\n")
-	for _, r := range t.Rules {
-		row := []string{"`" + r.ID + "`", r.Groups, r.When, r.Value, r.Unit, r.Source, r.Provenance, r.Note}
-		if mixed {
-			row = append(row, r.Origin)
-		}
-		writeRow(&b, row)
-	}
-	return b.String()
-}
-
-// mdCell makes text safe in a markdown table cell: pipes escaped, line breaks as spaces.
-func mdCell(s string) string {
-	s = strings.NewReplacer("\r\n", " ", "\n", " ", "\r", " ", "|", `\|`).Replace(s)
-	return strings.TrimSpace(s)
-}
-
-func writeRow(b *strings.Builder, cells []string) {
-	b.WriteString("|")
-	for _, c := range cells {
-		b.WriteString(" ")
-		b.WriteString(mdCell(c))
-		b.WriteString(" |")
-	}
-	b.WriteString("\n")
 }

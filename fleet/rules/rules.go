@@ -1,8 +1,10 @@
-package templates
+// Package rules is the rule engine: rule rows and tables, the "when" conditions, lookup
+// of the most specific row for a hoist, parsing and validation of rule files. The
+// built-in tables are embedded in package templates.
+package rules
 
 import (
 	"bufio"
-	"embed"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -12,6 +14,8 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+
+	"hoistfleet/templates"
 )
 
 // Rule tables
@@ -39,9 +43,6 @@ import (
 // Lookup picks, among the rows of an id that match the hoist's group and all their
 // conditions, the most specific one: most conditions first, then the narrowest group
 // span (one group beats a range beats "all"), then the later row.
-
-//go:embed rules/*.csv
-var rulesFS embed.FS
 
 // RuleColumns are the columns of a rule table, in the order the built-in tables use.
 var RuleColumns = [...]string{"rule", "groups", "when", "value", "unit", "source", "provenance", "note"}
@@ -277,7 +278,7 @@ var (
 func loadBuiltin() {
 	builtin = map[string][]Rule{}
 	for _, p := range Profiles() {
-		data, err := rulesFS.ReadFile("rules/" + p + ".csv")
+		data, err := templates.RuleTable(p)
 		if err != nil {
 			builtinErr = fmt.Errorf("built-in rule profile %s: %w", p, err)
 			return
