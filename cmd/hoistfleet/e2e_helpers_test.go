@@ -65,15 +65,6 @@ func clip(s string) string {
 	return s
 }
 
-// approxEqual reports whether got is within absTol or relTol (relative to want) of want.
-func approxEqual(got, want, absTol, relTol float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return false
-	}
-	d := math.Abs(got - want)
-	return d <= absTol || d <= relTol*math.Abs(want)
-}
-
 func sha256File(t *testing.T, path string) string {
 	t.Helper()
 	b, err := os.ReadFile(path)

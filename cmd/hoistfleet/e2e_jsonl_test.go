@@ -12,6 +12,8 @@ import (
 	"time"
 
 	"github.com/xuri/excelize/v2"
+
+	"hoistfleet/calc/approx"
 )
 
 var hoistStatuses = map[string]bool{"pass": true, "marginal": true, "fail": true, "unchecked": true, "error": true}
@@ -184,13 +186,13 @@ func checkHoistObject(t *testing.T, h jsonHoist) {
 		t.Errorf("%s: status %s, but the worst of its checks (fail > error > unchecked > marginal > pass) is %s", id, got, worst)
 	}
 	if mm, ok := num(h["min_margin"]); ok {
-		if !approxEqual(mm, minMargin, 1e-12, 1e-12) {
+		if !approx.Equal(mm, minMargin, 1e-12, 1e-12) {
 			t.Errorf("%s: min_margin %v, want %v (1 − the largest utilisation of pass/marginal/fail checks)", id, mm, minMargin)
 		}
 		if wc := h.str("worst_check"); wc != "" {
 			if c := h.check(wc); c == nil {
 				t.Errorf("%s: worst_check %q is not one of its checks", id, wc)
-			} else if u, ok := num(c["utilisation"]); ok && c["status"] == h.str("status") && !approxEqual(1-u, mm, 1e-12, 1e-12) && 1-u < mm {
+			} else if u, ok := num(c["utilisation"]); ok && c["status"] == h.str("status") && !approx.Equal(1-u, mm, 1e-12, 1e-12) && 1-u < mm {
 				// worst_check is the check behind the verdict: the smallest margin among the
 				// checks of the hoist's status (a fleet angle below its minimum is marginal
 				// with a large margin), so its margin is at least min_margin.
@@ -224,10 +226,10 @@ func checkHoistObject(t *testing.T, h jsonHoist) {
 		if gc == "" {
 			t.Errorf("%s: a rating of %v kg without a governing_check", id, mr)
 		} else if c := h.check(gc); c != nil {
-			if l, ok := num(c["limit_rated_load_kg"]); !ok || !approxEqual(l, mr, 1e-9, 0) {
+			if l, ok := num(c["limit_rated_load_kg"]); !ok || !approx.Equal(l, mr, 1e-9, 0) {
 				t.Errorf("%s: governing_check %s has limit %v, the rating is %v", id, gc, c["limit_rated_load_kg"], mr)
 			}
-		} else if !approxEqual(mr, smallest, 1e-9, 0) && mr > smallest {
+		} else if !approx.Equal(mr, smallest, 1e-9, 0) && mr > smallest {
 			t.Errorf("%s: governing cap %s gives %v above the checks' %v", id, gc, mr, smallest)
 		}
 	}
@@ -359,7 +361,7 @@ func TestDemoVerdictsMatchREADME(t *testing.T) {
 					t.Errorf("%s %s: %s (%s), README intends pass", id, cid, st, c["message"])
 				}
 				if listed && !math.IsNaN(wc.util) {
-					if u, ok := num(c["utilisation"]); !ok || !approxEqual(u, wc.util, 0.0051, 0) {
+					if u, ok := num(c["utilisation"]); !ok || !approx.Equal(u, wc.util, 0.0051, 0) {
 						t.Errorf("%s %s: utilisation %v, README %.2f", id, cid, c["utilisation"], wc.util)
 					}
 				}
@@ -388,7 +390,7 @@ func TestDemoVerdictsMatchREADME(t *testing.T) {
 				if err != nil {
 					t.Fatalf("%s: README stop distance %q", id, w.stop)
 				}
-				if !dok || !approxEqual(dist, wd, 0.00051, 0) {
+				if !dok || !approx.Equal(dist, wd, 0.00051, 0) {
 					t.Errorf("%s brake-stop: distance %v m, README %.3f m", id, figures(stop)["distance_m"], wd)
 				}
 			}
@@ -426,7 +428,7 @@ func TestDemoVerdictsMatchREADME(t *testing.T) {
 		st, _ := c["status"].(string)
 		if cid == "load-test" {
 			// 16 t against the last test's 15.625 t / 1.25 = 12.5 t: 1.28.
-			if u, _ := num(c["utilisation"]); st != "fail" || !approxEqual(u, 1.28, 1e-9, 0) {
+			if u, _ := num(c["utilisation"]); st != "fail" || !approx.Equal(u, 1.28, 1e-9, 0) {
 				t.Errorf("CS-H11 proposed load-test: %s %v, want fail 1.28 (16 / (15.625 / 1.25))", st, c["utilisation"])
 			}
 		} else if st != "pass" && st != "info" {
@@ -471,13 +473,13 @@ func TestDemoHandChecks(t *testing.T) {
 	h := hs["CS-H04"]
 	c := h.check("rope-design-factor")
 	F := 10210 * g / (2 * 0.99)
-	if v, _ := num(figures(c)["rope_tension_n"]); !approxEqual(v, F, 1e-6, 1e-9) {
+	if v, _ := num(figures(c)["rope_tension_n"]); !approx.Equal(v, F, 1e-6, 1e-9) {
 		t.Errorf("CS-H04 rope_tension_n %v, by hand %v", v, F)
 	}
-	if v, _ := num(figures(c)["reeving_efficiency"]); !approxEqual(v, 0.99, 1e-12, 0) {
+	if v, _ := num(figures(c)["reeving_efficiency"]); !approx.Equal(v, 0.99, 1e-12, 0) {
 		t.Errorf("CS-H04 reeving_efficiency %v, by hand 0.99", v)
 	}
-	if v, _ := num(c["utilisation"]); !approxEqual(v, 5.6*F/226100, 1e-9, 0) {
+	if v, _ := num(c["utilisation"]); !approx.Equal(v, 5.6*F/226100, 1e-9, 0) {
 		t.Errorf("CS-H04 rope-design-factor utilisation %v, by hand %v", v, 5.6*F/226100)
 	}
 	// The limit: the rated load at which 5.6 F = MBF, floored to 0.1 kg:
@@ -493,7 +495,7 @@ func TestDemoHandChecks(t *testing.T) {
 	// utilisation 16 / 15 = 1.0667; drum ratio fails whatever the load, so no rating.
 	h = hs["OF-H02"]
 	c = h.check("drum-ratio")
-	if v, _ := num(c["utilisation"]); !approxEqual(v, 16.0/15.0, 1e-12, 0) || c["status"] != "fail" {
+	if v, _ := num(c["utilisation"]); !approx.Equal(v, 16.0/15.0, 1e-12, 0) || c["status"] != "fail" {
 		t.Errorf("OF-H02 drum-ratio %v %v, by hand fail 1.0667", c["status"], c["utilisation"])
 	}
 	if h["max_rated_load_kg"] != nil {

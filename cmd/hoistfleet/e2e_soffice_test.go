@@ -16,6 +16,7 @@ import (
 	"testing"
 	"time"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/io/xlsxout"
 )
 
@@ -126,7 +127,7 @@ func TestLibreOfficeReadsRegister(t *testing.T) {
 			want := strings.TrimSpace(demoRows[r][c])
 			got := strings.TrimSpace(row[c])
 			if x, err := strconv.ParseFloat(want, 64); err == nil {
-				if y, ok := loNumber(got); !ok || !approxEqual(y, x, 0, 1e-12) {
+				if y, ok := loNumber(got); !ok || !approx.Equal(y, x, 0, 1e-12) {
 					t.Errorf("%s %s: LibreOffice reads %q, the register holds %q", id, demoHeader[c], got, want)
 				}
 			} else if got != want {
@@ -141,7 +142,7 @@ func TestLibreOfficeReadsRegister(t *testing.T) {
 		}
 		got, gok := loNumber(row[maxLoad])
 		want, wok := num(h["max_rated_load_kg"])
-		if gok != wok || (wok && !approxEqual(got*1000, want, 1e-9, 1e-12)) {
+		if gok != wok || (wok && !approx.Equal(got*1000, want, 1e-9, 1e-12)) {
 			t.Errorf("%s: LibreOffice reads max rated load %q t, jsonl %v kg", id, row[maxLoad], h["max_rated_load_kg"])
 		}
 		for _, c := range h.checks() {
@@ -156,7 +157,7 @@ func TestLibreOfficeReadsRegister(t *testing.T) {
 			}
 			got, gok := loNumber(row[ui])
 			want, wok := num(c["utilisation"])
-			if gok != wok || (wok && !approxEqual(got, want, 1e-12, 1e-12)) {
+			if gok != wok || (wok && !approx.Equal(got, want, 1e-12, 1e-12)) {
 				t.Errorf("%s %s: LibreOffice reads utilisation %q, jsonl %v", id, cid, row[ui], c["utilisation"])
 			}
 		}

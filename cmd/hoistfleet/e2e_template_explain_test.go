@@ -10,6 +10,7 @@ import (
 	"testing"
 	"time"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 )
 
@@ -113,7 +114,7 @@ func TestTemplateFilledByHandChecksCleanly(t *testing.T) {
 		}
 	}
 	// README: BQ-H01 stops in 0.081 m; the component WLL of 5 t caps the rating.
-	if d, _ := num(figures(h.check("brake-stop"))["distance_m"]); !approxEqual(d, 0.081, 0.00051, 0) {
+	if d, _ := num(figures(h.check("brake-stop"))["distance_m"]); !approx.Equal(d, 0.081, 0.00051, 0) {
 		t.Errorf("filled template: stop distance %v m, README 0.081 m", d)
 	}
 	if mr, _ := num(h["max_rated_load_kg"]); mr != 5000 {
@@ -172,7 +173,7 @@ func TestTemplateUSUnits(t *testing.T) {
 		t.Fatalf("US template has %d data rows, want the one example", len(recs))
 	}
 	// 5 t = 5000 / 0.45359237 lb = 11023.1 lb (NIST SP 811, lb = 0.45359237 kg exactly).
-	if v, _ := strconv.ParseFloat(recs[0][colIndex(header, "Rated load [lb]")], 64); !approxEqual(v, 5000/0.45359237, 0, 1e-4) {
+	if v, _ := strconv.ParseFloat(recs[0][colIndex(header, "Rated load [lb]")], 64); !approx.Equal(v, 5000/0.45359237, 0, 1e-4) {
 		t.Errorf("US template rated load %v lb, want 11023 lb", v)
 	}
 	var got [2]jsonHoist
@@ -194,7 +195,7 @@ func TestTemplateUSUnits(t *testing.T) {
 		id, _ := c["id"].(string)
 		u1, ok1 := num(c["utilisation"])
 		u0, ok0 := num(got[0].check(id)["utilisation"])
-		if ok1 != ok0 || (ok1 && !approxEqual(u0, u1, 1e-3, 5e-4)) {
+		if ok1 != ok0 || (ok1 && !approx.Equal(u0, u1, 1e-3, 5e-4)) {
 			t.Errorf("%s: utilisation %v in US units, %v in SI", id, got[0].check(id)["utilisation"], c["utilisation"])
 		}
 	}

@@ -4,6 +4,8 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"hoistfleet/calc/approx"
 )
 
 // Values from outside the generator, each with its source (standards.md labels).
@@ -99,7 +101,7 @@ func TestCleanDesignsPass(t *testing.T) {
 		}
 		// EN 12385-4: MBF = d² R K / 1000 kN, d in mm (standards.md: seen); written to 0.1 kN
 		dmm := h.RopeDiaM * 1000
-		if want := dmm * dmm * h.GradeNmm2 * testK[h.Construction]; !approxEqual(h.RopeMBFN, want, 50, 0) {
+		if want := dmm * dmm * h.GradeNmm2 * testK[h.Construction]; !approx.Equal(h.RopeMBFN, want, 50, 0) {
 			t.Fatalf("%s: MBF %g N, EN 12385-4 gives %g N", h.ID, h.RopeMBFN, want)
 		}
 		// ISO 4308-1: design factor ≥ Zp (with the 10 % marginal band: ≥ Zp/0.9)

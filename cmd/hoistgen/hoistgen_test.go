@@ -14,25 +14,9 @@ import (
 	"github.com/spf13/pflag"
 	"github.com/xuri/excelize/v2"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet/schema"
 )
-
-// approxEqual reports |got − want| ≤ max(absTol, relTol·max(|got|, |want|)).
-func approxEqual(got, want, absTol, relTol float64) bool {
-	d := got - want
-	if d < 0 {
-		d = -d
-	}
-	m := max(abs(got), abs(want))
-	return d <= absTol || d <= relTol*m
-}
-
-func abs(x float64) float64 {
-	if x < 0 {
-		return -x
-	}
-	return x
-}
 
 var asOf = time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)
 
@@ -198,7 +182,7 @@ func TestUSMatchesSI(t *testing.T) {
 				continue
 			}
 			// 6 significant digits written: relative rounding up to 5e-6
-			if !approxEqual(y*f, x, 1e-12, 1e-5) {
+			if !approx.Equal(y*f, x, 1e-12, 1e-5) {
 				t.Fatalf("row %d %q: %s %s = %g %s, want %s", i+1, si[0][j], b, uu, y*f, su, a)
 			}
 			checked++
@@ -239,7 +223,7 @@ func TestXLSX(t *testing.T) {
 			x, e1 := strconv.ParseFloat(got, 64)
 			y, e2 := strconv.ParseFloat(want[i][j], 64)
 			if e1 == nil && e2 == nil {
-				if !approxEqual(x, y, 1e-12, 1e-9) {
+				if !approx.Equal(x, y, 1e-12, 1e-9) {
 					t.Fatalf("%d,%d: xlsx %q, csv %q", i+1, j+1, got, want[i][j])
 				}
 				continue

@@ -11,18 +11,10 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 	"hoistfleet/fleet/schema"
 )
-
-// approxEqual reports whether got is within absTol or relTol·max(|got|,|want|) of want.
-func approxEqual(got, want, absTol, relTol float64) bool {
-	if got == want {
-		return true
-	}
-	d := math.Abs(got - want)
-	return d <= absTol || d <= relTol*math.Max(math.Abs(got), math.Abs(want))
-}
 
 func TestConversionFactors(t *testing.T) {
 	tests := []struct {
@@ -50,7 +42,7 @@ func TestConversionFactors(t *testing.T) {
 		if tol == 0 {
 			tol = 1e-12
 		}
-		if got := convert(tt.v, tt.from, tt.to); !approxEqual(got, tt.want, 0, tol) {
+		if got := convert(tt.v, tt.from, tt.to); !approx.Equal(got, tt.want, 0, tol) {
 			t.Errorf("convert(%v %s → %s) = %v, want %v", tt.v, tt.from, tt.to, got, tt.want)
 		}
 	}
@@ -112,7 +104,7 @@ func TestExampleIsRealistic(t *testing.T) {
 	const g = 9.80665 // NIST SP 811 g_n
 	d, grade := f("rope_diameter"), f("rope_grade")
 	// EN 12385-4: F_min = d² R_r K / 1000 kN, K = 0.356 for 6×36 IWRC (standards.md, seen).
-	if mbf := d * d * grade * 0.356 / 1000; !approxEqual(f("rope_mbf"), mbf, 0.05, 0) {
+	if mbf := d * d * grade * 0.356 / 1000; !approx.Equal(f("rope_mbf"), mbf, 0.05, 0) {
 		t.Errorf("example MBF %v kN, EN 12385-4 gives %v kN", f("rope_mbf"), mbf)
 	}
 	m := f("rated_load")*1000 + f("hook_block_mass")
@@ -138,7 +130,7 @@ func TestExampleIsRealistic(t *testing.T) {
 	// Hook speed from motor speed: v = ω r / (i n_e) (design.md hoist-speed), within 10 %.
 	omega := 2 * math.Pi * f("motor_speed") / 60
 	v := omega * f("drum_diameter") / 2000 / (f("gear_ratio") * ne) * 60
-	if !approxEqual(v, f("hoist_speed"), 0, 0.02) {
+	if !approx.Equal(v, f("hoist_speed"), 0, 0.02) {
 		t.Errorf("example hook speed from the drive %.3f m/min, declared %v", v, f("hoist_speed"))
 	}
 	// Steady hoisting power m g v / η (textbook identity) well under the rating.
@@ -290,10 +282,10 @@ func TestRangeValidationsConverted(t *testing.T) {
 		if dv.Operator != tt.op {
 			t.Errorf("%s: operator %q, want %q", tt.key, dv.Operator, tt.op)
 		}
-		if !approxEqual(parse(dv.Formula1), tt.lo, 1e-12, tt.relT) {
+		if !approx.Equal(parse(dv.Formula1), tt.lo, 1e-12, tt.relT) {
 			t.Errorf("%s: lower %s, want %v", tt.key, dv.Formula1, tt.lo)
 		}
-		if !math.IsNaN(tt.hi) && !approxEqual(parse(dv.Formula2), tt.hi, 1e-12, tt.relT) {
+		if !math.IsNaN(tt.hi) && !approx.Equal(parse(dv.Formula2), tt.hi, 1e-12, tt.relT) {
 			t.Errorf("%s: upper %s, want %v", tt.key, dv.Formula2, tt.hi)
 		}
 	}
@@ -348,12 +340,12 @@ func TestWriteCSV(t *testing.T) {
 		switch c.Key {
 		case "rated_load": // 5 t = 11 023.1 lb (lb = 0.45359237 kg, NIST SP 811)
 			x, _ := strconv.ParseFloat(v, 64)
-			if !approxEqual(x, 5000/0.45359237, 0, 1e-4) {
+			if !approx.Equal(x, 5000/0.45359237, 0, 1e-4) {
 				t.Errorf("rated load %q lb", v)
 			}
 		case "rope_mbf": // 76.9 kN = 17 288 lbf (lbf = 4.4482216152605 N, NIST SP 811)
 			x, _ := strconv.ParseFloat(v, 64)
-			if !approxEqual(x, 76900/4.4482216152605, 0, 1e-4) {
+			if !approx.Equal(x, 76900/4.4482216152605, 0, 1e-4) {
 				t.Errorf("MBF %q lbf", v)
 			}
 		case "commissioned":

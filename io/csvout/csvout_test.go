@@ -15,14 +15,6 @@ import (
 	"hoistfleet/fleet"
 )
 
-func approxEqual(got, want, absTol, relTol float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	d := math.Abs(got - want)
-	return d <= absTol || d <= relTol*math.Max(math.Abs(got), math.Abs(want))
-}
-
 var nan = math.NaN()
 
 // fixture builds results by hand; its numbers are chosen, not produced by the tool.

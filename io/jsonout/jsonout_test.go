@@ -10,16 +10,9 @@ import (
 	"testing"
 
 	"hoistfleet/calc"
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 )
-
-func approxEqual(got, want, absTol, relTol float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	d := math.Abs(got - want)
-	return d <= absTol || d <= relTol*math.Max(math.Abs(got), math.Abs(want))
-}
 
 var nan = math.NaN()
 
@@ -165,7 +158,7 @@ func TestValues(t *testing.T) {
 	if h.AssetID != "H-01" || h.Status != "pass" || *h.Governing != "brake-holding" || *h.Site != "North <works> & yard" {
 		t.Errorf("identity/status wrong: %+v", h)
 	}
-	if !approxEqual(*h.MaxRatedLoadKg, 6480.5, 0, 1e-15) || !approxEqual(*h.MinMargin, 0.12, 0, 1e-15) {
+	if !approx.Equal(*h.MaxRatedLoadKg, 6480.5, 0, 1e-15) || !approx.Equal(*h.MinMargin, 0.12, 0, 1e-15) {
 		t.Errorf("numbers changed in transit: %v %v", *h.MaxRatedLoadKg, *h.MinMargin)
 	}
 	if len(h.Messages) != 0 || h.Messages == nil {
@@ -203,7 +196,7 @@ func TestValues(t *testing.T) {
 	if h.MaxRatedLoadKg != nil {
 		t.Errorf("NaN rating must be null")
 	}
-	if h.Proposed == nil || h.Proposed.Status != "fail" || !approxEqual(h.Proposed.RatedLoadKg, 2500, 0, 0) {
+	if h.Proposed == nil || h.Proposed.Status != "fail" || !approx.Equal(h.Proposed.RatedLoadKg, 2500, 0, 0) {
 		t.Errorf("proposed: %+v", h.Proposed)
 	}
 	if !strings.Contains(lines[2], `"governing_check":null`) || !strings.Contains(lines[2], `"checks":[]`) {

@@ -3,6 +3,8 @@ package register
 import (
 	"testing"
 	"time"
+
+	"hoistfleet/calc/approx"
 )
 
 func TestParseNumber(t *testing.T) {
@@ -48,7 +50,7 @@ func TestParseNumber(t *testing.T) {
 	}
 	for _, tt := range tests {
 		got, hint, ok := parseNumber(tt.in, tt.d)
-		if ok != tt.ok || hint != tt.hint || (ok && !approxEqual(got, tt.want, 0, 1e-15)) {
+		if ok != tt.ok || hint != tt.hint || (ok && !approx.Equal(got, tt.want, 0, 1e-15)) {
 			t.Errorf("parseNumber(%q, comma %v) = %v, %q, %v; want %v, %q, %v", tt.in, tt.d.decimalComma, got, hint, ok, tt.want, tt.hint, tt.ok)
 		}
 	}

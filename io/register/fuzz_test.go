@@ -11,6 +11,7 @@ import (
 	"strings"
 	"testing"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 	"hoistfleet/fleet/schema"
 )
@@ -56,7 +57,7 @@ func FuzzParseCell(f *testing.F) {
 				// Round trip: the value in the column's unit, formatted, reads back.
 				back := strconv.FormatFloat(v.Num/s.factor, 'g', -1, 64)
 				v2, _ := s.parse(back, dialect{}, ref, "A-1")
-				if v2.State != fleet.OK || !approxEqual(v2.Num, v.Num, 1e-300, 1e-12) {
+				if v2.State != fleet.OK || !approx.Equal(v2.Num, v.Num, 1e-300, 1e-12) {
 					t.Fatalf("%q → %v → %q → %+v", raw, v.Num, back, v2)
 				}
 			}

@@ -5,26 +5,16 @@ import (
 	"context"
 	"errors"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 	"time"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 	"hoistfleet/fleet/schema"
 )
-
-// approxEqual reports whether got and want agree within absTol or relTol × max(|got|,
-// |want|) (the rule of gonum's scalar.EqualWithinAbsOrRel).
-func approxEqual(got, want, absTol, relTol float64) bool {
-	if got == want {
-		return true
-	}
-	d := math.Abs(got - want)
-	return d <= absTol || d <= relTol*math.Max(math.Abs(got), math.Abs(want))
-}
 
 // readAll reads every row of a source.
 func readAll(t testing.TB, r fleet.Source) []*fleet.Asset {
@@ -113,13 +103,13 @@ func TestCSVDialects(t *testing.T) {
 				t.Errorf("site %q (encoding)", got)
 			}
 			// 12.5 t = 12 500 kg (NIST SP 811: tonne = 1000 kg).
-			if v := a.Get("rated_load"); v.State != fleet.OK || !approxEqual(v.Num, 12500, 0, 1e-15) {
+			if v := a.Get("rated_load"); v.State != fleet.OK || !approx.Equal(v.Num, 12500, 0, 1e-15) {
 				t.Errorf("rated load %+v", v)
 			}
-			if v := a.Get("rope_diameter"); !approxEqual(v.Num, 0.016, 0, 1e-15) {
+			if v := a.Get("rope_diameter"); !approx.Equal(v.Num, 0.016, 0, 1e-15) {
 				t.Errorf("rope diameter %v", v.Num)
 			}
-			if v := a.Get("sheave_efficiency"); !approxEqual(v.Num, 0.98, 0, 1e-15) {
+			if v := a.Get("sheave_efficiency"); !approx.Equal(v.Num, 0.98, 0, 1e-15) {
 				t.Errorf("sheave efficiency %v", v.Num)
 			}
 			if v := a.Get("last_inspection"); !v.Date.Equal(time.Date(2024, 3, 1, 0, 0, 0, 0, time.UTC)) {
@@ -165,7 +155,7 @@ func TestUSUnitsMatchSI(t *testing.T) {
 			continue
 		}
 		n++
-		if !approxEqual(got.Num, want.Num, 0, 1e-12) {
+		if !approx.Equal(got.Num, want.Num, 0, 1e-12) {
 			t.Errorf("%s: US %.15g, SI %.15g", k, got.Num, want.Num)
 		}
 	}
@@ -188,7 +178,7 @@ func TestUSUnitsMatchSI(t *testing.T) {
 		{"motor_peak_torque", 1.6, "160 % (default unit of the column) = 1.6"},
 	}
 	for _, s := range spot {
-		if got := us[0].Get(s.key).Num; !approxEqual(got, s.want, 0, 5e-7) {
+		if got := us[0].Get(s.key).Num; !approx.Equal(got, s.want, 0, 5e-7) {
 			t.Errorf("%s = %.10g, want %.10g (NIST SP 811: %s)", s.key, got, s.want, s.note)
 		}
 	}
@@ -279,7 +269,7 @@ H-4,#DIV/0!,4,FEM 1Am,L1,0,2024-01-31T08:30:00,0.97,0.5,
 	}
 	for _, g := range good {
 		v := as[g.row].Get(g.key)
-		if v.State != fleet.OK || v.Text != g.text || !approxEqual(v.Num, g.num, 1e-15, 0) {
+		if v.State != fleet.OK || v.Text != g.text || !approx.Equal(v.Num, g.num, 1e-15, 0) {
 			t.Errorf("row %d %s: %+v, want %q %v", g.row, g.key, v, g.text, g.num)
 		}
 	}
@@ -414,10 +404,10 @@ func TestGD2Column(t *testing.T) {
 	}
 	a := readAll(t, r)[0]
 	// 2 kgf m² GD² → 0.5 kg m²; 98.0665 N m² GD² = 10 kgf m² → 2.5 kg m² (g_n 9.80665, NIST SP 811).
-	if v := a.Get("motor_inertia").Num; !approxEqual(v, 0.5, 0, 1e-15) {
+	if v := a.Get("motor_inertia").Num; !approx.Equal(v, 0.5, 0, 1e-15) {
 		t.Errorf("motor inertia %v, want 0.5", v)
 	}
-	if v := a.Get("drum_inertia").Num; !approxEqual(v, 2.5, 0, 1e-15) {
+	if v := a.Get("drum_inertia").Num; !approx.Equal(v, 2.5, 0, 1e-15) {
 		t.Errorf("drum inertia %v, want 2.5", v)
 	}
 	if u := r.Header().Columns[1].Unit; u != "GD2 kgf m2" {

@@ -10,6 +10,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 )
 
@@ -84,7 +85,7 @@ func TestXLSXRegister(t *testing.T) {
 		t.Errorf("rated load %+v", v)
 	}
 	// 0.75 in = 19.05 mm (NIST SP 811: in = 0.0254 m, exact).
-	if v := a.Get("rope_diameter"); !approxEqual(v.Num, 0.01905, 0, 1e-15) {
+	if v := a.Get("rope_diameter"); !approx.Equal(v.Num, 0.01905, 0, 1e-15) {
 		t.Errorf("rope diameter %v", v.Num)
 	}
 	// Excel serial 45292 is 2024-01-01 in the 1900 date system (Microsoft, "Date systems
@@ -105,7 +106,7 @@ func TestXLSXRegister(t *testing.T) {
 		t.Errorf("pass-through %+v %+v", a.Cells[5], as[1].Cells[5])
 	}
 	// Hidden row 3 is read like the others.
-	if v := as[1].Get("rope_diameter"); !approxEqual(v.Num, 0.0127, 0, 1e-15) {
+	if v := as[1].Get("rope_diameter"); !approx.Equal(v.Num, 0.0127, 0, 1e-15) {
 		t.Errorf("hidden row %+v", v)
 	}
 	if !as[2].Blank || len(as[2].Problems) != 1 || as[2].Problems[0].Error() != "Register!4:4: row 4 is empty" {

@@ -3,23 +3,14 @@ package rulesfile
 import (
 	"bytes"
 	"errors"
-	"math"
 	"strings"
 	"testing"
 
 	"github.com/xuri/excelize/v2"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet/rules"
 )
-
-// approxEqual reports whether got is within absTol or relTol·max(|got|,|want|) of want.
-func approxEqual(got, want, absTol, relTol float64) bool {
-	if got == want {
-		return true
-	}
-	d := math.Abs(got - want)
-	return d <= absTol || d <= relTol*math.Max(math.Abs(got), math.Abs(want))
-}
 
 var header = []any{"rule", "groups", "when", "value", "unit", "source", "provenance", "note"}
 
@@ -87,7 +78,7 @@ func TestReadXLSXNamedSheet(t *testing.T) {
 		t.Errorf("origin %q line %d", r.Origin, r.Line)
 	}
 	// 1/64 in = 0.000396875 m (in = 0.0254 m exactly, NIST SP 811).
-	if v, err := r.ValueSI(); err != nil || !approxEqual(v, 0.0254/64, 0, 1e-12) {
+	if v, err := r.ValueSI(); err != nil || !approx.Equal(v, 0.0254/64, 0, 1e-12) {
 		t.Errorf("ValueSI = %v, %v; want %v", v, err, 0.0254/64)
 	}
 	iso, err := rules.Profile("iso")

@@ -5,17 +5,9 @@ import (
 	"math"
 	"strings"
 	"testing"
-)
 
-// approxEqual reports whether got and want agree within absTol or relTol × max(|got|,
-// |want|) (the rule of gonum's scalar.EqualWithinAbsOrRel).
-func approxEqual(got, want, absTol, relTol float64) bool {
-	if got == want {
-		return true
-	}
-	d := math.Abs(got - want)
-	return d <= absTol || d <= relTol*math.Max(math.Abs(got), math.Abs(want))
-}
+	"hoistfleet/calc/approx"
+)
 
 // NIST SP 811 (2008) appendix B prints inexact factors to 7 significant digits.
 const nist7 = 5e-7
@@ -78,7 +70,7 @@ func TestFactorNIST(t *testing.T) {
 			t.Errorf("Factor(%q, %q): %v (want %v, %s)", tt.quantity, tt.unit, err, tt.want, tt.source)
 			continue
 		}
-		if !approxEqual(got, tt.want, 0, tt.relTol) {
+		if !approx.Equal(got, tt.want, 0, tt.relTol) {
 			t.Errorf("Factor(%q, %q) = %.12g, want %.12g (%s)", tt.quantity, tt.unit, got, tt.want, tt.source)
 		}
 	}
@@ -100,7 +92,7 @@ func TestDerivedIdentities(t *testing.T) {
 		{"g_n = 32.17404856 ft/s² (standards.md, computed)", StandardGravity / Foot, 32.17404856},
 	}
 	for _, tt := range tests {
-		if !approxEqual(tt.got, tt.want, 0, 1e-9) {
+		if !approx.Equal(tt.got, tt.want, 0, 1e-9) {
 			t.Errorf("%s: %.17g vs %.17g", tt.name, tt.got, tt.want)
 		}
 	}
@@ -120,7 +112,7 @@ func TestSpellings(t *testing.T) {
 			}
 			// A value converted to SI and back is the value (round trip).
 			for _, v := range []float64{1, 12.5, 0.001, 7e5} {
-				if back := v * f / f; !approxEqual(back, v, 0, 1e-15) {
+				if back := v * f / f; !approx.Equal(back, v, 0, 1e-15) {
 					t.Errorf("round trip %q %q: %v → %v", q, name, v, back)
 				}
 			}

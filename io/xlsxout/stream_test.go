@@ -16,6 +16,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/calc"
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 )
 
@@ -225,7 +226,7 @@ func TestNumberFormat(t *testing.T) {
 			t.Errorf("appendNumber(%v) = %q, want %q", tc.v, got, tc.want)
 		}
 		got, _ := strconv.ParseFloat(string(appendNumber(nil, tc.v)), 64)
-		if tc.v != 0 && math.Abs(got-tc.v)/math.Abs(tc.v) > 1e-14 {
+		if tc.v != 0 && !approx.Equal(got, tc.v, 0, 1e-14) {
 			t.Errorf("appendNumber(%v) reads back as %v", tc.v, got)
 		}
 	}

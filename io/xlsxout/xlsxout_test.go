@@ -16,16 +16,9 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/calc"
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 )
-
-func approxEqual(got, want, absTol, relTol float64) bool {
-	if math.IsNaN(got) || math.IsNaN(want) {
-		return math.IsNaN(got) && math.IsNaN(want)
-	}
-	d := math.Abs(got - want)
-	return d <= absTol || d <= relTol*math.Max(math.Abs(got), math.Abs(want))
-}
 
 var nan = math.NaN()
 
@@ -185,7 +178,7 @@ func TestRegisterPassThrough(t *testing.T) {
 	// 2019-03-04 is serial 43528 in the 1900 date system (ECMA-376 Part 1 §18.17.4.1:
 	// serial 1 = 1900-01-01, with the 1900-02-29 leap-year bug; 2019-03-04 − 1899-12-30 = 43528 days).
 	raw, _ := f.GetCellValue(SheetRegister, "D2")
-	if v, err := strconv.ParseFloat(raw, 64); err != nil || !approxEqual(v, 43528, 0, 0) {
+	if v, err := strconv.ParseFloat(raw, 64); err != nil || !approx.Equal(v, 43528, 0, 0) {
 		t.Errorf("D2 raw %q, want date serial 43528", raw)
 	}
 	sid, _ := f.GetCellStyle(SheetRegister, "D2")
@@ -226,7 +219,7 @@ func TestRegisterResults(t *testing.T) {
 			c := headerCol(t, f, SheetRegister, "Max rated load ["+tc.unit+"]")
 			raw, _ := f.GetCellValue(SheetRegister, cellName(c, 2))
 			v, err := strconv.ParseFloat(raw, 64)
-			if err != nil || !approxEqual(v, tc.want, 0, 1e-12) { // %s
+			if err != nil || !approx.Equal(v, tc.want, 0, 1e-12) { // %s
 				t.Errorf("max rated load %q, want %v (%s)", raw, tc.want, tc.src)
 			}
 			if raw, _ := f.GetCellValue(SheetRegister, cellName(c, 3)); raw != "" {
