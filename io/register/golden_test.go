@@ -454,21 +454,3 @@ func plainFloat(s string) bool {
 	m := strings.TrimPrefix(s, "-")
 	return m != "" && m[0] != '.' && !strings.HasSuffix(m, ".") && (len(m) == 1 || m[0] != '0' || m[1] == '.')
 }
-
-// TestDumpFile writes the dump of the register named by HOISTFLEET_DUMP_IN (.csv or
-// .xlsx) to HOISTFLEET_DUMP_OUT, to compare two versions of the reader on a large
-// register (e.g. one from cmd/hoistgen); skipped when they are not set.
-func TestDumpFile(t *testing.T) {
-	in, out := os.Getenv("HOISTFLEET_DUMP_IN"), os.Getenv("HOISTFLEET_DUMP_OUT")
-	if in == "" || out == "" {
-		t.Skip("HOISTFLEET_DUMP_IN and HOISTFLEET_DUMP_OUT not set")
-	}
-	b, err := os.ReadFile(in)
-	if err != nil {
-		t.Fatal(err)
-	}
-	dump := dumpRegister(t, filepath.Base(in), goldenInput{data: b, xlsx: strings.HasSuffix(in, ".xlsx")})
-	if err := os.WriteFile(out, []byte(dump), 0o644); err != nil {
-		t.Fatal(err)
-	}
-}

@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"regexp"
 	"strconv"
 	"strings"
@@ -465,17 +464,6 @@ func TestLifecycleErrors(t *testing.T) {
 	f := open(t, build(t, header("t", 1000), rs, Options{}))
 	if v, _ := f.GetCellValue(SheetRegister, "A3"); v != "@SUM(A1)" {
 		t.Errorf("out-of-order row written at A3 = %q", v)
-	}
-}
-
-// TestSample writes a larger workbook for a visual check when XLSXOUT_SAMPLE names a file.
-func TestSample(t *testing.T) {
-	path := os.Getenv("XLSXOUT_SAMPLE")
-	if path == "" {
-		t.Skip("XLSXOUT_SAMPLE not set")
-	}
-	if err := os.WriteFile(path, build(t, header("t", 1000), synthetic(300), Options{TopN: 10}), 0o644); err != nil {
-		t.Fatal(err)
 	}
 }
 
