@@ -39,6 +39,10 @@ func TestFigureBufSameFigures(t *testing.T) {
 		{"design-life", func(h calc.Hoist) (calc.Outcome, error) {
 			return calc.DesignLife(calc.LifeInput{OperatingHours: 2000, Km: 0.25, RecordFactor: 1.2, FullLoadDurationH: 1600, SkipRecord: true, Figs: h.Figs})
 		}},
+		{"overload-limiter", func(h calc.Hoist) (calc.Outcome, error) {
+			return calc.OverloadLimiter(calc.LimiterInput{Fitted: true, RatedLoadKg: h.RatedLoadKg, RequiredFromKg: 1000,
+				LastTest: date(2026, 5, 1), AsOf: date(2026, 12, 1), IntervalMonths: 12, SkipRecord: true, Figs: h.Figs})
+		}},
 		{"rope-wear", func(h calc.Hoist) (calc.Outcome, error) {
 			return calc.RopeWear(calc.WearInput{NominalM: 0.016, MeasuredM: 0.0152, MaxReductionFraction: 0.075, BrokenWires: -1, SkipRecord: true, Figs: h.Figs})
 		}},

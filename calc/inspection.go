@@ -43,17 +43,31 @@ func InspectionDueNumbers(last, asOf time.Time, intervalMonths int, figs *Figure
 }
 
 func inspectionDue(last, asOf time.Time, intervalMonths int, record bool, figs *FigureBuf) (Outcome, error) {
+	return dueCheck(periodicInspection, last, asOf, intervalMonths, record, figs)
+}
+
+// dueTexts names what a due-date check is about, for its notes and errors.
+type dueTexts struct {
+	field, intervalField string // schema keys of the last date and of what sets the interval
+	what, short          string // "periodic inspection", "inspection"
+}
+
+var periodicInspection = dueTexts{field: "last_inspection", intervalField: "service", what: "periodic inspection", short: "inspection"}
+
+// dueCheck is a check that something done periodically is current: the last date plus
+// an interval of calendar months against the as-of date (InspectionDue's definitions).
+func dueCheck(t dueTexts, last, asOf time.Time, intervalMonths int, record bool, figs *FigureBuf) (Outcome, error) {
 	switch {
 	case last.IsZero():
-		return Outcome{}, &RangeError{Field: "last_inspection", Msg: "no last inspection date"}
+		return Outcome{}, &RangeError{Field: t.field, Msg: "no last " + t.short + " date"}
 	case asOf.IsZero():
-		return Outcome{}, &RangeError{Msg: "no as-of date for the inspection check"}
+		return Outcome{}, &RangeError{Msg: "no as-of date for the " + t.short + " check"}
 	case intervalMonths < 1:
-		return Outcome{}, &RangeError{Field: "service", Msg: fmt.Sprintf("inspection interval must be ≥ 1 month (got %d)", intervalMonths)}
+		return Outcome{}, &RangeError{Field: t.intervalField, Msg: fmt.Sprintf("%s interval must be ≥ 1 month (got %d)", t.short, intervalMonths)}
 	}
 	l, a := lifeDay(last), lifeDay(asOf)
 	if a.Before(l) {
-		return Outcome{}, &RangeError{Field: "last_inspection", Msg: fmt.Sprintf("last inspection %s is after the as-of date %s", lifeISO(l), lifeISO(a))}
+		return Outcome{}, &RangeError{Field: t.field, Msg: fmt.Sprintf("last %s %s is after the as-of date %s", t.short, lifeISO(l), lifeISO(a))}
 	}
 	next := addMonthsClamped(l, intervalMonths)
 	since := lifeDaysBetween(l, a)
@@ -86,9 +100,9 @@ func inspectionDue(last, asOf time.Time, intervalMonths int, record bool, figs *
 		}
 	}
 	if overdue > 0 {
-		o.Note = "periodic inspection overdue by " + strconv.Itoa(overdue) + " days (due " + nextISO + ")"
+		o.Note = t.what + " overdue by " + strconv.Itoa(overdue) + " days (due " + nextISO + ")"
 	} else {
-		o.Note = "next periodic inspection due " + nextISO
+		o.Note = "next " + t.what + " due " + nextISO
 	}
 	return o, nil
 }

@@ -330,6 +330,10 @@ func TestSkipRecordLifeChecks(t *testing.T) {
 		}},
 		// 5 t rated, last tested statically with 6 t: 6000 / 1.25 = 4800 kg covered, so it
 		// fails with a note (2006/42/EC static coefficient 1.25, law, memory high).
+		{"overload-limiter", func(skip bool) (calc.Outcome, error) {
+			return calc.OverloadLimiter(calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, RequiredFromKg: 1000,
+				LastTest: day(2026, 2, 1), AsOf: day(2026, 12, 1), IntervalMonths: 12, SkipRecord: skip})
+		}},
 		{"load-test", func(skip bool) (calc.Outcome, error) {
 			if skip {
 				return calc.LoadTestNumbers(5000, 6000, 1.25, nil)

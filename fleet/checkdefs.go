@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 
 	"hoistfleet/calc"
 )
@@ -288,12 +289,11 @@ func checkDefinitions() []Definition {
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				lim := math.NaN()
 				var rules []int
-				if i := d.c.opts.Rules.LookupIndex("brake_stop.max_distance", d.scope); i >= 0 {
-					v, err := d.c.opts.Rules.ValueAt(i)
-					if err != nil {
-						return nil, nil, err
-					}
-					d.rules = append(d.rules, i)
+				v, i, ok, err := d.optionalRule("brake_stop.max_distance")
+				if err != nil {
+					return nil, nil, err
+				}
+				if ok {
 					lim, rules = v, d.usedRows(i)
 				}
 				if len(rules) == 0 {
@@ -357,7 +357,71 @@ func checkDefinitions() []Definition {
 			Rules:     []string{"rope_wear.basis", "rope_wear.max_reduction", "rope_wear.broken_wires_lay"},
 			Reference: []string{"TestIso4309UniformDecrease", "TestAsmeB302DiameterBand", "TestRopeWear"},
 			prepare:   prepareRopeWear},
+		{ID: "overload-limiter", Kind: Records, FlagList: true,
+			Needs: loadNeeds, Uses: []string{"limiter_fitted", "limiter_last_test", "service"},
+			Rules: []string{"limiter.test_interval_months"}, OptionalRules: []string{"limiter.required_from"},
+			Rule:      "information: the rules in force require no overload limiter",
+			Source:    "no limiter.required_from row in the rules in force",
+			Reference: []string{"TestOverloadLimiter", "TestInspectionDueCalendar"},
+			applicable: func(d *hoistData) (bool, string) {
+				if !d.isMissing("limiter_fitted") {
+					return true, ""
+				}
+				if from, _, ok, err := d.limiterRequiredFrom(); err == nil && ok && d.h.RatedLoadKg >= from {
+					return true, ""
+				}
+				return false, "the rules in force require no overload limiter at this rated load, and the register does not say whether one is fitted"
+			},
+			prepare: prepareOverloadLimiter},
 	}
+}
+
+// limiterRequiredFrom is the rated load from which the rules require an overload limiter.
+func (d *hoistData) limiterRequiredFrom() (kg float64, row int, ok bool, err error) {
+	t := d.c.opts.Rules
+	i := t.LookupIndex("limiter.required_from", d.scope)
+	if i < 0 {
+		return math.NaN(), -1, false, nil
+	}
+	v, err := t.ValueAt(i)
+	return v, i, err == nil, err
+}
+
+func prepareOverloadLimiter(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+	from, row, ok, err := d.optionalRule("limiter.required_from")
+	if err != nil {
+		return nil, nil, err
+	}
+	if !ok {
+		from = math.NaN()
+	}
+	rows := d.rowBuf[:0]
+	if ok {
+		rows = append(rows, row)
+	}
+	in := calc.LimiterInput{RequiredFromKg: from, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
+	switch {
+	case d.isMissing("limiter_fitted"): // applicable: the rules require one at this load
+		return nil, nil, &Error{Kind: Missing, Field: "limiter_fitted", Err: errors.New("needs Overload limiter (yes or no): the rules require one from " + strconv.FormatFloat(from, 'f', -1, 64) + " kg of rated load")}
+	case d.text("limiter_fitted") == "yes":
+		in.Fitted = true
+		in.LastTest = d.a.Get("limiter_last_test").Date
+		if in.LastTest.IsZero() {
+			return nil, nil, &Error{Kind: Missing, Field: "limiter_last_test", Err: errors.New("needs Limiter last tested: the date of the overload limiter's last test")}
+		}
+		months, r, err := d.rule("limiter.test_interval_months")
+		if err != nil {
+			return nil, nil, err
+		}
+		in.IntervalMonths = int(math.Round(months))
+		rows = append(rows, r)
+	}
+	d.rowBuf = rows // keep a grown buffer
+	return func(h calc.Hoist) (calc.Outcome, error) {
+		in := in
+		in.RatedLoadKg, in.Figs = h.RatedLoadKg, h.Figs
+		return calc.OverloadLimiter(in)
+	}, rows, nil
 }
 
 func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {

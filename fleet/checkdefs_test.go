@@ -184,3 +184,40 @@ func TestDefinitionReferenceTestsExist(t *testing.T) {
 		}
 	}
 }
+
+// TestOverloadLimiterPaths follows the overload-limiter check through its definition: the
+// ISO profile requires a limiter from 1 000 kg (Machinery Directive 2006/42/EC Annex I
+// 4.2.2, memory, medium-high), the US profile has no such row.
+func TestOverloadLimiterPaths(t *testing.T) {
+	us, err := rules.Profile("us")
+	if err != nil {
+		t.Fatal(err)
+	}
+	usChecker, err := NewChecker(Options{Rules: us, MarginalBand: 0.10, AsOf: asOf})
+	if err != nil {
+		t.Fatal(err)
+	}
+	iso := isoChecker(t)
+	cases := []struct {
+		name    string
+		c       *Checker
+		a       *Asset
+		want    Status
+		message string
+	}{
+		{"ISO, fitted and tested", iso, winchA(t).asset(), StatusPass, "next overload limiter test due 2027-03-01"},
+		{"ISO, 5 t, register silent", iso, winchA(t).drop("limiter_fitted").drop("limiter_last_test").asset(), StatusUnchecked, "needs Overload limiter (yes or no): the rules require one from 1000 kg"},
+		{"ISO, 5 t, none fitted", iso, winchA(t).text("limiter_fitted", "no").asset(), StatusFail, "no overload limiter fitted"},
+		{"ISO, fitted, no test date", iso, winchA(t).drop("limiter_last_test").asset(), StatusUnchecked, "needs Limiter last tested"},
+		{"ISO, 0.5 t, register silent", iso, winchA(t).num("rated_load", 500).drop("limiter_fitted").asset(), StatusInfo, "not applicable"},
+		{"US, register silent", usChecker, winchA(t).drop("limiter_fitted").asset(), StatusInfo, "not applicable"},
+		{"US, none fitted", usChecker, winchA(t).text("limiter_fitted", "no").asset(), StatusInfo, "require none"},
+	}
+	for _, tc := range cases {
+		r := tc.c.Check(tc.a)
+		cr := mustCheck(t, r, "overload-limiter")
+		if cr.Status != tc.want || !strings.Contains(cr.Message, tc.message) {
+			t.Errorf("%s: %s %q, want %s with %q", tc.name, cr.Status, cr.Message, tc.want, tc.message)
+		}
+	}
+}

@@ -147,7 +147,9 @@ func winchA(t testing.TB) *assetBuilder {
 		text("usage_records", "meter and log").
 		date("last_inspection", time.Date(2026, 3, 1, 0, 0, 0, 0, time.UTC)).
 		num("test_load", 6.25*tonne).
-		text("test_type", "static")
+		text("test_type", "static").
+		text("limiter_fitted", "yes").
+		date("limiter_last_test", time.Date(2026, 3, 1, 0, 0, 0, 0, time.UTC))
 }
 
 // winchB is a two-layer, single-fall hoist with a deflection sheave, a drum-mounted pair

@@ -146,6 +146,21 @@ func (d *hoistData) rule(id string) (float64, int, error) {
 	return v, i, nil
 }
 
+// optionalRule looks up a rule that the rules in force may leave out: ok false (and no
+// error) when no row applies.
+func (d *hoistData) optionalRule(id string) (v float64, row int, ok bool, err error) {
+	t := d.c.opts.Rules
+	i := t.LookupIndex(id, d.scope)
+	if i < 0 {
+		return 0, -1, false, nil
+	}
+	if v, err = t.ValueAt(i); err != nil {
+		return 0, -1, false, err
+	}
+	d.rules = append(d.rules, i)
+	return v, i, true, nil
+}
+
 // ruleWord looks up a rule whose value is a word, lower-cased.
 func (d *hoistData) ruleWord(id string) (string, int, error) {
 	t := d.c.opts.Rules

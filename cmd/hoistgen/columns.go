@@ -138,6 +138,10 @@ var extractors = map[string]func(h *hoist) cell{
 	"test_type":            func(h *hoist) cell { return txt(h.TestType) },
 	"component_wll":        func(h *hoist) cell { return num(h.ComponentWLL) },
 	"special_service":      func(h *hoist) cell { return txt("none") },
+	// A limiter on every hoist, tested at its periodic inspection (no random draw, so
+	// the other columns of a seed stay as they were).
+	"limiter_fitted":    func(h *hoist) cell { return txt("yes") },
+	"limiter_last_test": func(h *hoist) cell { return date(h.LastInspected) },
 	"proposed_rated_load": func(h *hoist) cell {
 		if h.ProposedKg == 0 {
 			return cell{}

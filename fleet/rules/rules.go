@@ -121,6 +121,8 @@ var ruleUnits = map[string]unitInfo{
 	"months": {"months", 1},
 	"years":  {"years", 1},
 	"d/year": {"days_per_year", 1},
+	"kg":     {"mass", 1},
+	"t":      {"mass", 1000},
 	"m/s2":   {"acceleration", 1},
 	"ft/s2":  {"acceleration", 0.3048},
 }
@@ -139,6 +141,7 @@ func RuleUnits() []string {
 //
 //	"1" → as is; "%" → ÷ 100; "mm" → m (× 0.001); "m" → m; "in" → m (× 0.0254);
 //	"ft" → m (× 0.3048); "m/s2" → m/s²; "ft/s2" → m/s² (× 0.3048); "s" → s;
+//	"kg" → kg; "t" → kg (× 1000);
 //	"h" → hours (NOT seconds: design-life works in hours, FEM 9.755);
 //	"months", "years", "d/year" → as is (calendar units); "deg" → degrees (as is).
 //
@@ -155,7 +158,7 @@ func (r Rule) ValueSI() (float64, error) {
 	return v * u.factor, nil
 }
 
-// Dimension is the kind of quantity of the rule's unit: "ratio", "length", "angle",
+// Dimension is the kind of quantity of the rule's unit: "ratio", "length", "mass", "angle",
 // "time_s", "time_h", "months", "years", "days_per_year", "acceleration", or "" for a
 // word value. rope_wear.max_reduction is a "ratio" in the ISO profile (a fraction of
 // the reference diameter) and a "length" in the US profile (ASME B30.2 table).
@@ -209,6 +212,8 @@ var knownRules = map[string]ruleSpec{
 	"rope_wear.max_reduction":       {dims: []string{"ratio", "length"}, min: 0, minEx: true, max: math.Inf(1)},
 	"rope_wear.broken_wires_lay":    countSpec,
 	"rope_wear.broken_wires_strand": countSpec,
+	"limiter.required_from":         {dims: []string{"mass"}, min: 0, max: math.Inf(1)},
+	"limiter.test_interval_months":  {dims: []string{"months"}, min: 0, minEx: true, max: 120},
 }
 
 // KnownRuleIDs lists the rule ids the checks use, sorted.

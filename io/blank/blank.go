@@ -92,6 +92,8 @@ var example = map[string]any{
 	"test_load":                 6.25,
 	"test_type":                 "static",
 	"component_wll":             6.3,
+	"limiter_fitted":            "yes",
+	"limiter_last_test":         "2026-06-15",
 	"special_service":           "none",
 }
 

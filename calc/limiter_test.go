@@ -1,0 +1,84 @@
+package calc_test
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"hoistfleet/calc"
+)
+
+// TestOverloadLimiter checks the overload-limiter check against its definitions. The
+// requirement threshold is the Machinery Directive 2006/42/EC Annex I 4.2.2 figure,
+// "a maximum working load of at least 1 000 kg" (memory, medium-high): at exactly
+// 1 000 kg a limiter is required, 0.1 kg below it is not. The test interval is calendar
+// months, as InspectionDue: 2025-11-30 + 12 months = 2026-11-30, so as of 2026-12-01 the
+// test is 1 day overdue and 366 days have passed of a 365-day interval (2026 is not a leap
+// year; Gregorian calendar, counted by hand).
+func TestOverloadLimiter(t *testing.T) {
+	asOf := date(2026, 12, 1)
+	cases := []struct {
+		name       string
+		in         calc.LimiterInput
+		verdict    calc.Verdict
+		u          float64 // NaN: no utilisation
+		demand     float64
+		noteSubstr string
+	}{
+		{"missing at the threshold: required", calc.LimiterInput{RatedLoadKg: 1000, RequiredFromKg: 1000},
+			calc.Fail, math.NaN(), math.NaN(), "the rules require one from 1000 kg"},
+		{"missing just below the threshold", calc.LimiterInput{RatedLoadKg: 999.9, RequiredFromKg: 1000},
+			calc.Info, math.NaN(), math.NaN(), "only from 1000 kg"},
+		{"missing, no requirement in the rules", calc.LimiterInput{RatedLoadKg: 50000, RequiredFromKg: math.NaN()},
+			calc.Info, math.NaN(), math.NaN(), "require none"},
+		{"fitted, tested today", calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, RequiredFromKg: 1000, LastTest: asOf, IntervalMonths: 12},
+			calc.ByUtilisation, 0, 0, "next overload limiter test due 2027-12-01"},
+		{"fitted, one day overdue", calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, RequiredFromKg: 1000, LastTest: date(2025, 11, 30), IntervalMonths: 12},
+			calc.ByUtilisation, 366.0 / 365.0, 366, "overdue by 1 days (due 2026-11-30)"},
+		{"fitted below the threshold is still tested", calc.LimiterInput{Fitted: true, RatedLoadKg: 500, RequiredFromKg: 1000, LastTest: date(2026, 6, 1), IntervalMonths: 6},
+			calc.ByUtilisation, 183.0 / 183.0, 183, "due 2026-12-01"},
+	}
+	for _, c := range cases {
+		c.in.AsOf = asOf
+		for _, skip := range []bool{false, true} {
+			in := c.in
+			in.SkipRecord = skip
+			o, err := calc.OverloadLimiter(in)
+			if err != nil {
+				t.Fatalf("%s: %v", c.name, err)
+			}
+			if o.Verdict != c.verdict {
+				t.Errorf("%s: verdict %v, want %v", c.name, o.Verdict, c.verdict)
+			}
+			if !sameNaN(o.Utilisation, c.u) || !sameNaN(o.Demand, c.demand) {
+				t.Errorf("%s: u %g demand %g, want %g %g", c.name, o.Utilisation, o.Demand, c.u, c.demand)
+			}
+			if !strings.Contains(o.Note, c.noteSubstr) {
+				t.Errorf("%s: note %q lacks %q", c.name, o.Note, c.noteSubstr)
+			}
+			if got := o.Figure("required_from_kg"); !sameNaN(got, c.in.RequiredFromKg) {
+				t.Errorf("%s: required_from_kg %g", c.name, got)
+			}
+			if skip != (len(o.Steps) == 0) {
+				t.Errorf("%s: SkipRecord %v but %d steps", c.name, skip, len(o.Steps))
+			}
+		}
+	}
+	for _, bad := range []calc.LimiterInput{
+		{RatedLoadKg: 0, RequiredFromKg: 1000},
+		{Fitted: true, RatedLoadKg: 5000, AsOf: asOf, IntervalMonths: 12},                              // no test date
+		{Fitted: true, RatedLoadKg: 5000, AsOf: asOf, LastTest: date(2027, 1, 1), IntervalMonths: 12}, // test after the as-of date
+		{Fitted: true, RatedLoadKg: 5000, AsOf: asOf, LastTest: date(2026, 1, 1), IntervalMonths: 0},
+	} {
+		if _, err := calc.OverloadLimiter(bad); err == nil {
+			t.Errorf("%+v: no error", bad)
+		}
+	}
+}
+
+func sameNaN(a, b float64) bool {
+	if math.IsNaN(a) || math.IsNaN(b) {
+		return math.IsNaN(a) && math.IsNaN(b)
+	}
+	return math.Abs(a-b) <= 1e-12*math.Max(1, math.Abs(b))
+}
