@@ -1,7 +1,6 @@
 package jsonout
 
 import (
-	"bytes"
 	"io"
 	"testing"
 
@@ -11,53 +10,9 @@ import (
 
 // TestAbsorberSameBytes: in front of an outbuf.Absorber the Writer writes each hoist's
 // line as it comes, one write each, and the bytes are exactly those it writes in 64 KiB
-// blocks to any other writer. Through the pipeline the workers' Prepare runs
-// concurrently with Write, so a buffer recycled before the absorber took it would show as
-// wrong bytes here (and as a race under -race). Results written without Prepare, between
-// prepared ones, keep their place.
+// blocks to any other writer (sinktest.AbsorberSameBytes).
 func TestAbsorberSameBytes(t *testing.T) {
-	regs := sinktest.DemoRegisters(t)
-	if !testing.Short() {
-		regs = append(regs, sinktest.GeneratedRegister(t, 400, "si", 3))
-	}
-	for _, reg := range regs {
-		t.Run(reg.Name, func(t *testing.T) {
-			c := sinktest.NewChecker(t, "iso", 1.25)
-			var blocks, out bytes.Buffer
-			sinktest.RunSinks(t, reg, c, New(&blocks, Options{}))
-			direct, hoists := &sinktest.Absorber{W: &out}, &sinktest.CountSink{}
-			sinktest.RunSinks(t, reg, c, New(direct, Options{}), hoists)
-			sameBytes(t, out.Bytes(), blocks.Bytes())
-			if direct.Writes != hoists.N {
-				t.Errorf("%d writes for %d hoists, want one each", direct.Writes, hoists.N)
-			}
-		})
-	}
-	t.Run("some unprepared", func(t *testing.T) {
-		rs := sinktest.RandomResults(7, 300)
-		var blocks, out bytes.Buffer
-		direct := &sinktest.Absorber{W: &out}
-		for _, w := range []*Writer{New(&blocks, Options{}), New(direct, Options{})} {
-			if err := w.Begin(&fleet.Header{}, &fleet.RunInfo{}); err != nil {
-				t.Fatal(err)
-			}
-			for i, r := range rs {
-				if i%3 != 0 {
-					w.Prepare(r)
-				}
-				if err := w.Write(r); err != nil {
-					t.Fatal(err)
-				}
-			}
-			if err := w.End(nil, nil); err != nil {
-				t.Fatal(err)
-			}
-		}
-		sameBytes(t, out.Bytes(), blocks.Bytes())
-		if direct.Writes != len(rs) {
-			t.Errorf("%d writes for %d hoists, want one each", direct.Writes, len(rs))
-		}
-	})
+	sinktest.AbsorberSameBytes(t, 0, sinktest.Variant{New: newSink})
 }
 
 // TestAbsorberErrorsStick: in front of an absorber a failed write is reported by the

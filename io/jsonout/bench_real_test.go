@@ -13,9 +13,3 @@ func BenchmarkWriteReal(b *testing.B) {
 	h, rs := sinktest.BenchResults(b)
 	sinktest.BenchSink(b, h, rs, func(w io.Writer) fleet.Sink { return New(w, Options{}) })
 }
-
-// BenchmarkWriteRealReference is BenchmarkWriteReal with the reference writer (refWriter).
-func BenchmarkWriteRealReference(b *testing.B) {
-	h, rs := sinktest.BenchResults(b)
-	sinktest.BenchSink(b, h, rs, func(w io.Writer) fleet.Sink { return refNew(w, Options{}) })
-}

@@ -1,7 +1,10 @@
-// Package sinktest is test support for the result writers (io/csvout, io/jsonout): real
-// results from the demo registers and from cmd/hoistgen registers checked by fleet, a
-// sink that tees one run to several writers (and counts Prepare calls), random results
-// with awkward text and numbers, and a benchmark loop. It is imported only by tests.
+// Package sinktest is test support for the result writers (io/csvout, io/jsonout,
+// io/xlsxout): real results from the demo registers and from cmd/hoistgen registers
+// checked by fleet, a sink that tees one run to several writers (and counts Prepare
+// calls), random results with awkward text and numbers, the writers' golden outputs
+// (golden.go), the checks every buffering or absorbing writer must pass, written once
+// and called by each writer's tests with its own cases, and a benchmark loop. It is
+// imported only by tests.
 package sinktest
 
 import (
