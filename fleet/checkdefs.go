@@ -73,6 +73,9 @@ type Definition struct {
 	// prepare looks up the rules and returns the function to evaluate at any hoist state
 	// with the rule rows it used; an error makes the check unchecked.
 	prepare func(d *hoistData) (run func(h calc.Hoist) (calc.Outcome, error), rules []int, err error)
+	// advise says what to do about a fail or a marginal, in plain words with the number
+	// that makes it concrete ("derate to 10.4 t, or …"); nil: the check's id and message.
+	advise func(in adviceInput) advice
 	// afterCheck, when set, adds to the hoist's messages once the check has run at the
 	// rated load.
 	afterCheck func(d *hoistData, cr *CheckResult)
@@ -168,6 +171,13 @@ func closedForm(run func(h calc.Hoist) (calc.Outcome, error), limit func(h calc.
 func checkDefinitions() []Definition {
 	return []Definition{
 		{ID: "rope-design-factor", Kind: Mechanical, LoadDependent: true, Linear: true,
+			advise: func(in adviceInput) advice {
+				ft := in.fig("design_tension_n")
+				if in.cr.Status == StatusMarginal {
+					return say("keep to the rated load: rope design factor " + num3(in.cr.Capacity) + " against " + num3(in.cr.Demand) + " required")
+				}
+				return orDerate("fit a rope with a minimum breaking force of at least " + up3(in.cr.Demand*ft/1000) + " kN (has " + num3(in.cr.Capacity*ft/1000) + " kN)")
+			},
 			Needs: join(loadNeeds, []string{"rope_mbf"}), Uses: join(reevingUses, []string{"rope_grade", "rope_construction", "duty_group"}),
 			Rules:     []string{"rope.design_factor", "rope.basis"},
 			Reference: []string{"TestRopeDesignFactor", "TestRopeTensionWRUMLeadLine", "TestRopeDesignFactorStaticBasis29CFR"},
@@ -184,11 +194,23 @@ func checkDefinitions() []Definition {
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.RopeDesignFactor(h, z, static) }, d.usedRows(rz, rb), nil
 			}},
 		{ID: "drum-ratio", Kind: Mechanical, NullsRating: true,
+			advise: func(in adviceInput) advice {
+				if in.cr.Status == StatusMarginal {
+					return designFixed("the drum's D/d", in)
+				}
+				return say("drum too small for the rope: D/d " + num3(in.cr.Capacity) + " against " + num3(in.cr.Demand) + " required; no rating can be given until the manufacturer or a competent person approves the drum and rope")
+			},
 			Needs: []string{"drum_diameter", "rope_diameter"}, Uses: []string{"duty_group"},
 			Rules:     []string{"drum.h1"},
 			Reference: []string{"TestDrumAndSheaveRatio"},
 			prepare:   withRule("drum.h1", calc.DrumRatio)},
 		{ID: "sheave-ratio", Kind: Mechanical, NullsRating: true,
+			advise: func(in adviceInput) advice {
+				if in.cr.Status == StatusMarginal {
+					return designFixed("the sheaves' D/d", in)
+				}
+				return say("sheave too small for the rope: D/d " + num3(in.cr.Capacity) + " against " + num3(in.cr.Demand) + " required; no rating can be given until the manufacturer or a competent person approves the sheave and rope")
+			},
 			Needs: []string{"sheave_diameter", "rope_diameter"}, Uses: []string{"duty_group"},
 			Rules:     []string{"sheave.h2"},
 			Reference: []string{"TestDrumAndSheaveRatio"},
@@ -200,11 +222,23 @@ func checkDefinitions() []Definition {
 			},
 			prepare: withRule("sheave.h2", calc.SheaveRatio)},
 		{ID: "drum-capacity", Kind: Mechanical, NullsRating: true,
+			advise: func(in adviceInput) advice {
+				if in.cr.Status == StatusMarginal {
+					return designFixed("the drum's rope capacity", in)
+				}
+				return say("the rope does not fit the drum at full lift with the dead wraps (" + num3(in.cr.Demand) + " m of rope for " + num3(in.cr.Capacity) + " m of grooves and layers): shorten the lift or have the drum checked")
+			},
 			Needs: []string{"drum_diameter", "rope_diameter", "lift_height", "drum_grooves"}, Uses: []string{"parts_of_line", "rope_ends", "rope_layers"},
 			Rules:     []string{"drum.dead_wraps"},
 			Reference: []string{"TestDrumCapacity"},
 			prepare:   withRule("drum.dead_wraps", calc.DrumCapacity)},
 		{ID: "fleet-angle", Kind: Mechanical, NullsRating: true,
+			advise: func(in adviceInput) advice {
+				if in.cr.Status == StatusMarginal {
+					return say("no action for the fleet angle (" + num3(in.cr.Demand) + "°, fixed by the layout); note it at the next modification")
+				}
+				return say("fleet angle " + num3(in.cr.Demand) + "° over the " + num3(in.cr.Capacity) + "° limit: realign the drum and sheaves")
+			},
 			Needs: []string{"fleet_angle"}, Uses: []string{"drum_grooved"},
 			Rules:     []string{"fleet_angle.max_grooved", "fleet_angle.max_plain", "fleet_angle.min"},
 			Reference: []string{"TestFleetAngle"},
@@ -224,16 +258,21 @@ func checkDefinitions() []Definition {
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.FleetAngle(h, mx, mn) }, d.usedRows(r1, r2), nil
 			}},
 		{ID: "motor-torque", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
-			Needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), Uses: driveUses,
+			advise: overLimit("steady motor torque", "fit a motor rated at least", "N m", 1),
+			Needs:  join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed"}), Uses: driveUses,
 			Rule: "steady hoisting torque ≤ rated motor torque M_r = P / ω_m", Source: "motor rating from the register; statics of the drive train (textbook)",
 			Reference: []string{"TestMotorTorqueHand", "TestUSCustomaryHoist"},
 			prepare:   noRule(calc.MotorTorque)},
 		{ID: "motor-power", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
-			Needs: join(loadNeeds, []string{"hoist_speed", "motor_power"}), Uses: driveUses,
+			advise: overLimit("steady motor power", "fit a motor rated at least", "kW", 1000),
+			Needs:  join(loadNeeds, []string{"hoist_speed", "motor_power"}), Uses: driveUses,
 			Rule: "steady hoisting power ≤ rated motor power P", Source: "motor rating from the register; P = m g v / η (textbook identity)",
 			Reference: []string{"TestMotorPower"},
 			prepare:   noRule(calc.MotorPower)},
 		{ID: "hoist-speed", Kind: Records, NullsRating: true,
+			advise: func(in adviceInput) advice {
+				return say("fix the register: declared hoist speed " + num3(in.fig("declared_speed_m_s")*60) + " m/min, the drive gives " + num3(in.fig("calculated_speed_m_s")*60) + " m/min (motor speed, gear ratio, drum, reeving)")
+			},
 			Needs: []string{"motor_speed", "drum_diameter", "gear_ratio", "hoist_speed"}, Uses: []string{"parts_of_line", "rope_ends"},
 			Rules:     []string{"hoist_speed.tolerance"},
 			Reference: []string{"TestHoistSpeed"},
@@ -248,12 +287,14 @@ func checkDefinitions() []Definition {
 				}
 			}},
 		{ID: "motor-accel-torque", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
-			Needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), Uses: driveUses,
+			advise: overLimit("accelerating torque", "lower the design acceleration or fit a motor with a peak torque of at least", "N m", 1),
+			Needs:  join(loadNeeds, []string{"drum_diameter", "gear_ratio", "motor_power", "motor_speed", "drum_inertia", "motor_inertia"}), Uses: driveUses,
 			Rule: "accelerating torque ≤ peak motor torque p M_r", Source: "Newton's second law for load, drum and rotor; peak torque ratio from the register or the rule default",
 			Reference: []string{"TestMotorAccelTorqueByHand", "TestTorqueLimitsKg"},
 			prepare:   closedForm(calc.MotorAccelTorque, calc.MotorAccelTorqueLimitKg)},
 		{ID: "gearbox-torque", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
-			Needs: join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), Uses: brakeUses,
+			advise: overLimit("gearbox torque", "fit a gear unit rated at least", "N m", 1),
+			Needs:  join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), Uses: brakeUses,
 			Rule: "largest drum-shaft torque ≤ gearbox rated output torque", Source: "gear unit rating from the register; Newton's second law",
 			Reference: []string{"TestGearboxTorque", "TestTorqueLimitsKg"},
 			applicable: func(d *hoistData) (bool, string) {
@@ -264,7 +305,8 @@ func checkDefinitions() []Definition {
 			},
 			prepare: closedForm(calc.GearboxTorque, calc.GearboxTorqueLimitKg)},
 		{ID: "brake-holding", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
-			Needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), Uses: brakeUses,
+			advise: overLimit("holding brake demand", "fit holding brakes of at least", "N m", 1),
+			Needs:  join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), Uses: brakeUses,
 			Rules:     []string{"brake.factor", "brake.each"},
 			Reference: []string{"TestBrakeHolding"},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -280,6 +322,15 @@ func checkDefinitions() []Definition {
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, d.usedRows(r1, r2), nil
 			}},
 		{ID: "brake-stop", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
+			advise: func(in adviceInput) advice {
+				switch {
+				case math.IsNaN(in.cr.Utilisation):
+					return say("take out of service: the brakes cannot stop the lowering rated load")
+				case in.cr.Status == StatusMarginal:
+					return nearLimit("stopping distance", in)
+				}
+				return orDerate("brakes that stop within " + num3(in.cr.Capacity) + " m (" + num3(in.cr.Demand) + " m now)")
+			},
 			Needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), Uses: join(brakeUses, []string{"rope_mbf"}),
 			OptionalRules: []string{"brake_stop.max_distance"},
 			Rule:          "information: no stopping-distance limit in the rules in force; fails only when the brakes cannot stop the load",
@@ -312,11 +363,23 @@ func checkDefinitions() []Definition {
 			Reference: []string{"TestShaftLoad"},
 			prepare:   noRule(calc.ShaftLoad)},
 		{ID: "design-life", Kind: Mechanical, NullsRating: true, FlagList: true,
+			advise: func(in adviceInput) advice {
+				if in.cr.Status == StatusMarginal {
+					return say("plan the general overhaul: " + num3(in.cr.Demand) + " h of the class's " + num3(in.cr.Capacity) + " h used (FEM 9.755)")
+				}
+				return say("general overhaul due: " + num3(in.cr.Demand) + " h of the class's " + num3(in.cr.Capacity) + " h used (FEM 9.755)")
+			},
 			Needs: []string{"operating_hours"}, Uses: []string{"duty_group", "load_spectrum", "spectrum_factor", "usage_records", "commissioned"},
 			Rules:     []string{"life.duration_h", "life.record_factor"},
 			Reference: []string{"TestDesignLife", "TestFullLoadDurationAgainstISO4301"},
 			prepare:   prepareDesignLife},
 		{ID: "inspection-due", Kind: Records, OverdueList: true,
+			advise: func(in adviceInput) advice {
+				if in.cr.Status == StatusMarginal {
+					return say("book the periodic inspection: due " + in.figText("next_due"))
+				}
+				return say("examine now: periodic inspection " + num3(in.fig("days_overdue")) + " days overdue")
+			},
 			Needs: []string{"last_inspection"}, Uses: []string{"service"},
 			Rules:     []string{"inspection.interval_months"},
 			Reference: []string{"TestInspectionDueCalendar"},
@@ -338,6 +401,9 @@ func checkDefinitions() []Definition {
 				}, d.usedRows(r), nil
 			}},
 		{ID: "load-test", Kind: Records, NoBand: true, FlagList: true,
+			advise: func(in adviceInput) advice {
+				return say("load test before using " + tonnes(in.cr.Demand) + ": the last test covers " + tonnes(in.cr.Capacity))
+			},
 			Needs: join(loadNeeds, []string{"test_load"}), Uses: []string{"test_type", "proposed_rated_load"},
 			Rules:     []string{"load_test.factor"},
 			Reference: []string{"TestLoadTest"},
@@ -353,11 +419,30 @@ func checkDefinitions() []Definition {
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTestNumbers(h.RatedLoadKg, test, f, h.Figs) }, d.usedRows(r), nil
 			}},
 		{ID: "rope-wear", Kind: Mechanical, NullsRating: true, FlagList: true,
+			advise: func(in adviceInput) advice {
+				verb := "discard the rope"
+				if in.cr.Status == StatusMarginal {
+					verb = "examine the rope more often"
+				}
+				if in.fig("broken_wires_utilisation") > in.fig("diameter_utilisation") {
+					return say(verb + ": broken wires at " + percent(in.fig("broken_wires_utilisation")) + " of the discard count")
+				}
+				return say(verb + ": diameter down " + percent(in.fig("reduction_fraction")) + " (limit " + percent(in.cr.Capacity/in.fig("base_diameter_m")) + ")")
+			},
 			Needs: []string{"rope_diameter"}, Uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_reference_diameter", "rope_construction", "rope_fitted"},
 			Rules:     []string{"rope_wear.basis", "rope_wear.max_reduction", "rope_wear.broken_wires_lay"},
 			Reference: []string{"TestIso4309UniformDecrease", "TestAsmeB302DiameterBand", "TestRopeWear"},
 			prepare:   prepareRopeWear},
 		{ID: "overload-limiter", Kind: Records, FlagList: true,
+			advise: func(in adviceInput) advice {
+				switch {
+				case math.IsNaN(in.cr.Utilisation):
+					return say("fit an overload limiter (required from " + tonnes(in.fig("required_from_kg")) + ")")
+				case in.cr.Status == StatusMarginal:
+					return say("book the overload limiter test: due " + in.figText("next_due"))
+				}
+				return say("test the overload limiter: " + num3(in.fig("days_overdue")) + " days overdue")
+			},
 			Needs: loadNeeds, Uses: []string{"limiter_fitted", "limiter_last_test", "service"},
 			Rules: []string{"limiter.test_interval_months"}, OptionalRules: []string{"limiter.required_from"},
 			Rule:      "information: the rules in force require no overload limiter",

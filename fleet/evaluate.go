@@ -176,6 +176,7 @@ func (c *Checker) Check(a *Asset) *Result {
 		r.MinMargin = math.NaN()
 		r.MaxRatedLoadKg = math.NaN()
 		r.Rating.Note = "empty row"
+		r.Evaluation.Action = "Fill in or delete the empty row"
 		for _, p := range a.Problems {
 			r.Messages = append(r.Messages, p.Error())
 		}
@@ -200,6 +201,7 @@ func (c *Checker) Check(a *Asset) *Result {
 		}
 	}
 	r.Rating = c.rating(d, prepared, r.Checks)
+	r.Evaluation.Action = c.action(&r.Evaluation, r.MaxRatedLoadKg)
 
 	proposed := math.NaN()
 	if v, ok := d.num("proposed_rated_load"); ok {
@@ -212,6 +214,7 @@ func (c *Checker) Check(a *Asset) *Result {
 		for i := range e.Checks {
 			e.Checks[i].LimitRatedLoadKg = r.Checks[i].LimitRatedLoadKg
 		}
+		e.Action = c.action(&e, r.MaxRatedLoadKg)
 		r.spare = e
 		r.Proposed = &r.spare
 	}

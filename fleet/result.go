@@ -37,6 +37,9 @@ type Evaluation struct {
 	WorstCheck  string  // the check with the smallest margin
 	MinMargin   float64 // over pass / marginal / fail checks, NaN when none
 	Checks      []CheckResult
+	// Action is what to do, in plain words with the numbers ("Derate to 10.4 t, or fit
+	// holding brakes of at least 452 N m"); "" when the hoist passes.
+	Action string
 }
 
 // Result is everything hoistfleet says about one register row.

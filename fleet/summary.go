@@ -72,6 +72,7 @@ type Brief struct {
 	MinMargin      float64
 	GoverningCheck string
 	MaxRatedLoadKg float64
+	Action         string  // what to do (Result.Action)
 	Reason         string  // for Flags and Overdue: what is wrong, in words
 	Days           float64 // for Overdue: days overdue
 	NewStatus      Status  // for Changed: status at the proposed load
@@ -89,7 +90,7 @@ func NewSummary(topN int) *Summary {
 
 func brief(r *Result) Brief {
 	b := Brief{Row: r.Asset.Row, AssetID: r.Asset.ID, Status: r.Status, WorstCheck: r.WorstCheck,
-		MinMargin: r.MinMargin, GoverningCheck: r.GoverningCheck, MaxRatedLoadKg: r.MaxRatedLoadKg}
+		MinMargin: r.MinMargin, GoverningCheck: r.GoverningCheck, MaxRatedLoadKg: r.MaxRatedLoadKg, Action: r.Action}
 	if v := r.Asset.Get("site"); v.State == OK {
 		b.Site = v.Text
 	}

@@ -26,6 +26,14 @@ const hex = "0123456789abcdef"
 // appendString appends s as a JSON string: quotes and backslashes escaped, control
 // characters as \n, \r, \t, \b, \f or \u00XX, invalid UTF-8 as \ufffd, and U+2028 and
 // U+2029 as \u2028 and \u2029, as encoding/json does.
+// appendNullString is appendString, or null for "".
+func appendNullString(b []byte, s string) []byte {
+	if s == "" {
+		return append(b, "null"...)
+	}
+	return appendString(b, s)
+}
+
 func appendString(b []byte, s string) []byte {
 	b = append(b, '"')
 	start := 0

@@ -8,10 +8,12 @@
 //	             "unit": "1", "utilisation": 0.79, "limit_rated_load_kg": 7900.1,
 //	             "rule": "…", "source": "…", "figures": {"rope_tension_n": 9800}}]}
 //
-// and they are never renamed. Extensions, after the contract fields: "site",
+// and they are never renamed. "action" (design.md's contract additions) follows
+// "max_rated_load_kg": what to do, in plain words, null for a hoist that passes.
+// Extensions, after the contract fields: "site",
 // "rated_load_kg" (the load the checks were run at), "rating_note", "derived", and on
 // each check "margin" and "message"; "proposed" {rated_load_kg, status, worst_check,
-// min_margin, checks} when the hoist was re-checked at a proposed rated load (absent
+// min_margin, action, checks} when the hoist was re-checked at a proposed rated load (absent
 // otherwise).
 //
 // Numbers are SI (kg, N, m, s, N m, W) unless a check's unit says otherwise; NaN and
@@ -164,6 +166,8 @@ func (e *encoder) appendHoist(b []byte, r *fleet.Result) []byte {
 	b = e.nums.appendNumber(b, r.MinMargin)
 	b = append(b, `,"max_rated_load_kg":`...)
 	b = e.nums.appendNumber(b, r.MaxRatedLoadKg)
+	b = append(b, `,"action":`...)
+	b = appendNullString(b, r.Action)
 	b = append(b, `,"messages":`...)
 	b = appendStrings(b, r.Messages, &hm.messages)
 	b = append(b, `,"defaults_used":`...)
@@ -192,6 +196,8 @@ func (e *encoder) appendHoist(b []byte, r *fleet.Result) []byte {
 		b = e.appendNullText(&hm.pworst, b, p.WorstCheck)
 		b = append(b, `,"min_margin":`...)
 		b = e.nums.appendNumber(b, p.MinMargin)
+		b = append(b, `,"action":`...)
+		b = appendNullString(b, p.Action)
 		b = append(b, `,"checks":`...)
 		e.pchecks = growMemos(e.pchecks, len(p.Checks))
 		b = e.appendChecks(b, p.Checks, e.pchecks)

@@ -161,6 +161,11 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 	p.line("Register %s%s, row %d. Rules: %s%s. As of %s. %s %s.", info.Input, sheet, a.Row, info.Profile,
 		userRules(info), info.AsOf.Format("2006-01-02"), info.Tool, info.Version)
 	p.line("")
+	p.line("Status: %s. Action: %s", r.Status, actionText(r.Action))
+	if r.Proposed != nil {
+		p.line("At the proposed rated load: %s. Action: %s", r.Proposed.Status, actionText(r.Proposed.Action))
+	}
+	p.line("")
 	p.caution()
 
 	p.heading(2, "1. Inputs")
@@ -364,4 +369,12 @@ func orDash(s string) string {
 		return "—"
 	}
 	return s
+}
+
+// actionText is a hoist's action for the record, "none." when it has none.
+func actionText(a string) string {
+	if a == "" {
+		return "none."
+	}
+	return strings.TrimSuffix(a, ".") + "."
 }

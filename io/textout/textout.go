@@ -85,6 +85,13 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 			p("  %s\t%d\t%s\t%s\t%s\t%s\t%s\n", orDash(b.AssetID), b.Row, b.Status, marginText(b.MinMargin),
 				orDash(b.WorstCheck), kgText(b.MaxRatedLoadKg), orDash(b.GoverningCheck))
 		}
+		head := "\nWhat to do, worst hoists first\n"
+		for _, b := range s.Worst[:n] {
+			if b.Action != "" {
+				p("%s  %s\t%s\n", head, orDash(b.AssetID), b.Action)
+				head = ""
+			}
+		}
 	}
 
 	if s.ProblemCount > 0 {

@@ -28,6 +28,12 @@ func summary() *fleet.Summary {
 		res(5, "H-04", "", fleet.StatusUnchecked, math.NaN(), math.NaN(), ""),
 		res(6, "H-05", "South yard", fleet.StatusFail, -0.5, 800, "rope-design-factor"),
 	} {
+		switch r.Asset.ID {
+		case "H-02":
+			r.Action = "Examine now: periodic inspection 35 days overdue; discard the rope"
+		case "H-05":
+			r.Action = "Derate to 0.8 t, or fit a rope with a minimum breaking force of at least 50 kN (has 25 kN)"
+		}
 		s.Add(r)
 	}
 	return s
@@ -59,6 +65,10 @@ Worst hoists  row  status     smallest margin  worst check         max rated loa
   H-05        6    fail       -50.0 %          rope-design-factor  800.0 kg        rope-design-factor
   H-04        5    unchecked  -                -                   none            -
   H-03        4    marginal   5.0 %            motor-torque        1999.9 kg       motor-torque
+
+What to do, worst hoists first
+  H-02  Examine now: periodic inspection 35 days overdue; discard the rope
+  H-05  Derate to 0.8 t, or fit a rope with a minimum breaking force of at least 50 kN (has 25 kN)
 
 Overdue inspections  1
 Flagged rope-wear    1

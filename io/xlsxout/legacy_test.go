@@ -69,13 +69,13 @@ func (w *legacyWriter) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 }
 
 func (w *legacyWriter) registerResultHeaders() []string {
-	hs := []string{"Status", "Governing check", "Max rated load [" + w.unit + "]", "Min margin", "Worst check",
+	hs := []string{"Status", "Action", "Governing check", "Max rated load [" + w.unit + "]", "Min margin", "Worst check",
 		"Messages", "Defaults used", "Checks"}
 	for _, id := range fleet.CheckIDs {
 		hs = append(hs, id+" status", id+" utilisation")
 	}
 	if w.proposed {
-		hs = append(hs, "Proposed status", "Verdict changes")
+		hs = append(hs, "Proposed status", "Verdict changes", "Proposed action")
 	}
 	return hs
 }
@@ -265,6 +265,7 @@ func (w *legacyWriter) writeRegister(r *fleet.Result, firstCheck int) error {
 	}
 	w.row = append(w.row,
 		excelize.Cell{Value: r.Status.String(), StyleID: st.text[si]},
+		legacyText(r.Action),
 		legacyText(r.GoverningCheck),
 		excelize.Cell{Value: legacyNum(r.MaxRatedLoadKg * w.perKg), StyleID: st.load},
 		excelize.Cell{Value: legacyNum(r.MinMargin), StyleID: st.pctPlain},
@@ -288,9 +289,9 @@ func (w *legacyWriter) writeRegister(r *fleet.Result, firstCheck int) error {
 			if p.Status != r.Status {
 				changes = "yes"
 			}
-			w.row = append(w.row, excelize.Cell{Value: p.Status.String(), StyleID: st.text[statusIndex(p.Status)]}, changes)
+			w.row = append(w.row, excelize.Cell{Value: p.Status.String(), StyleID: st.text[statusIndex(p.Status)]}, changes, legacyText(p.Action))
 		} else {
-			w.row = append(w.row, nil, nil)
+			w.row = append(w.row, nil, nil, nil)
 		}
 	}
 	cell, _ := excelize.CoordinatesToCellName(1, row)

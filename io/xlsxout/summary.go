@@ -295,7 +295,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	load := "Max rated load [" + w.unit + "]"
 	sw.str(1, r, "Hoists needing attention first", st.heading)
 	r++
-	for i, h := range []string{"Asset ID", "Row", "Site", "Status", "Min margin", "Worst check", "Governing check", load} {
+	for i, h := range []string{"Asset ID", "Row", "Site", "Status", "Min margin", "Worst check", "Governing check", load, "Action"} {
 		sw.str(1+i, r, h, st.th)
 	}
 	r++
@@ -307,6 +307,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 		sw.str(6, r, b.WorstCheck, 0)
 		sw.str(7, r, b.GoverningCheck, 0)
 		sw.set(8, r, b.MaxRatedLoadKg*w.perKg, st.load)
+		sw.str(9, r, b.Action, 0)
 		r++
 	}
 	if len(worst) == 0 {

@@ -6,10 +6,10 @@
 //     the worst hoists (linked to their Register row), overdue inspections, flags,
 //     re-rating changes and the status legend.
 //   - Register: every column and row of the register exactly as given, then the results:
-//     Status, Governing check, Max rated load [the register's rated-load unit], Min margin,
+//     Status, Action, Governing check, Max rated load [the register's rated-load unit], Min margin,
 //     Worst check, Messages, Defaults used, a link to the hoist's first row in Checks, and
 //     per check (fleet.CheckIDs) its status and utilisation; with a proposed rated load
-//     also Proposed status and Verdict changes. Status cells are filled with Palette,
+//     also Proposed status, Verdict changes and Proposed action. Status cells are filled with Palette,
 //     the header is frozen and the sheet has an auto-filter.
 //   - Checks: long form, one row per hoist, load case and check, for pivot tables.
 //   - Audit: the cautions first, then the run (tool, version, command, input and its
@@ -188,13 +188,13 @@ func ratedUnit(h *fleet.Header) (string, float64) {
 
 // registerResultHeaders are the Register's result columns, after the register's own.
 func (w *Writer) registerResultHeaders() []string {
-	hs := []string{"Status", "Governing check", "Max rated load [" + w.unit + "]", "Min margin", "Worst check",
+	hs := []string{"Status", "Action", "Governing check", "Max rated load [" + w.unit + "]", "Min margin", "Worst check",
 		"Messages", "Defaults used", "Checks"}
 	for _, id := range fleet.CheckIDs {
 		hs = append(hs, id+" status", id+" utilisation")
 	}
 	if w.proposed {
-		hs = append(hs, "Proposed status", "Verdict changes")
+		hs = append(hs, "Proposed status", "Verdict changes", "Proposed action")
 	}
 	return hs
 }
@@ -203,7 +203,7 @@ func (w *Writer) registerResultHeaders() []string {
 // their header.
 var keyWidths = map[string]float64{"asset_id": 14, "site": 18, "location": 18, "description": 30}
 
-var resultWidths = []float64{11, 20, 14, 10, 20, 40, 30, 10}
+var resultWidths = []float64{11, 50, 20, 14, 10, 20, 40, 30, 10}
 
 func (w *Writer) beginRegister() error {
 	w.nIn = len(w.h.Columns)
@@ -415,16 +415,17 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 	col := w.nIn
 	si := statusIndex(r.Status)
 	sw.str(col+1, r.Status.String(), st.text[si])
-	sw.text(col+2, r.GoverningCheck, 0)
-	sw.num(col+3, r.MaxRatedLoadKg*w.perKg, st.load)
-	sw.num(col+4, r.MinMargin, st.pctPlain)
-	sw.text(col+5, r.WorstCheck, 0)
-	sw.text(col+6, strings.Join(r.Messages, "; "), 0)
-	sw.text(col+7, strings.Join(r.DefaultsUsed, "; "), 0)
+	sw.text(col+2, r.Action, 0)
+	sw.text(col+3, r.GoverningCheck, 0)
+	sw.num(col+4, r.MaxRatedLoadKg*w.perKg, st.load)
+	sw.num(col+5, r.MinMargin, st.pctPlain)
+	sw.text(col+6, r.WorstCheck, 0)
+	sw.text(col+7, strings.Join(r.Messages, "; "), 0)
+	sw.text(col+8, strings.Join(r.DefaultsUsed, "; "), 0)
 	if firstCheck > 0 {
-		sw.formula(col+8, `HYPERLINK("#'`+w.chkSheet+`'!A`+strconv.Itoa(firstCheck)+`","details")`, "details", st.link)
+		sw.formula(col+9, `HYPERLINK("#'`+w.chkSheet+`'!A`+strconv.Itoa(firstCheck)+`","details")`, "details", st.link)
 	}
-	col += 8
+	col += 9
 	for _, id := range fleet.CheckIDs {
 		if c := r.Check(id); c != nil {
 			ci := statusIndex(c.Status)
@@ -441,6 +442,7 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 			}
 			sw.str(col+1, p.Status.String(), st.text[statusIndex(p.Status)])
 			sw.str(col+2, changes, 0)
+			sw.text(col+3, p.Action, 0)
 		}
 	}
 	if err := sw.endRow(); err != nil {
