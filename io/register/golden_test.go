@@ -15,6 +15,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
@@ -32,8 +33,24 @@ import (
 // number bit or cell flag fails.
 var updateGolden = flag.Bool("update-golden", false, "rewrite testdata/golden from the current reader")
 
+var (
+	goldenOnce sync.Once
+	goldenIn   map[string]goldenInput
+)
+
 // goldenInputs returns the registers the dumps are made of: name → (file bytes, is XLSX).
+// They are made once (the workbooks take a while under -race) and shared: the tests only
+// read them.
 func goldenInputs(t testing.TB) map[string]goldenInput {
+	t.Helper()
+	goldenOnce.Do(func() { goldenIn = makeGoldenInputs(t) })
+	if goldenIn == nil {
+		t.Fatal("the golden inputs could not be made: see the first test that asked for them")
+	}
+	return goldenIn
+}
+
+func makeGoldenInputs(t testing.TB) map[string]goldenInput {
 	t.Helper()
 	in := map[string]goldenInput{}
 	names, demo, err := templates.DemoRegisters()

@@ -3,7 +3,9 @@ package register
 // The reader's row path of commit dafac1f, without the per-hoist CSV speed-ups:
 // NewCSV over encoding/csv, its csvSource, Next and asset, kept verbatim under ref* names
 // (asset converting each cell with refParse, the reference conversion) as the oracle of
-// reader_diff_test.go. It is not used by the reader.
+// reader_diff_test.go. It stays because the fuzz target FuzzReaderMatchesReference
+// compares with it (a fuzz target's inputs have no golden output). It is not used by
+// the reader.
 
 import (
 	"context"

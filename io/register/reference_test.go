@@ -2,14 +2,12 @@ package register
 
 // The reader's per-cell conversion of commit f7400a6, without the per-row speed-ups,
 // kept verbatim under ref* names as the oracle of the differential tests in
-// diff_test.go. It is not used by the reader.
+// diff_test.go and, through refNext, reader_diff_test.go. It stays because the fuzz
+// targets FuzzCellMatchesReference and FuzzReaderMatchesReference compare with it, and
+// a fuzz target's inputs have no golden output. It is not used by the reader.
 
 import (
-	"archive/zip"
-	"bufio"
-	"bytes"
 	"fmt"
-	"io"
 	"math"
 	"regexp"
 	"strconv"
@@ -290,98 +288,4 @@ func (s *colSpec) refMatchEnum(text string) (string, bool) {
 		}
 	}
 	return "", false
-}
-
-// The first pass over the sheet XML of commit f7400a6.
-
-// scan counts the formula elements (<f> or <f …>) that start in win at or after from,
-// and notes the reference of the cell each belongs to when the window holds it.
-func (fc *formulaCells) refScan(win []byte, from int) {
-	for _, pat := range [][]byte{[]byte("<f>"), []byte("<f ")} {
-		for i := 0; ; {
-			j := bytes.Index(win[i:], pat)
-			if j < 0 {
-				break
-			}
-			at := i + j
-			i = at + len(pat)
-			if at < from {
-				continue
-			}
-			fc.n++
-			if len(fc.first) < maxFormulaRefs {
-				if k := bytes.LastIndex(win[:at], []byte(`<c r="`)); k >= 0 {
-					ref := win[k+len(`<c r="`):]
-					if e := bytes.IndexByte(ref, '"'); e > 0 && e < 12 {
-						fc.first = append(fc.first, string(ref[:e]))
-					}
-				}
-			}
-		}
-	}
-}
-
-// scanSheet returns the sheet's merged cells and counts its formula cells. Merged cells
-// are listed after the sheet's data, so the sheet's XML is scanned once as bytes (an
-// inflate pass, without XML parsing) up to its <mergeCells> element, which is then read;
-// formula elements are counted on the way.
-func refScanSheet(zr *zip.Reader, sheet string) ([]mergeRange, formulaCells, error) {
-	var fc formulaCells
-	part, err := sheetPart(zr, sheet)
-	if err != nil || part == "" {
-		return nil, fc, err
-	}
-	var zf *zip.File
-	for _, f := range zr.File {
-		if strings.EqualFold(f.Name, part) {
-			zf = f
-			break
-		}
-	}
-	if zf == nil {
-		return nil, fc, nil
-	}
-	rc, err := zf.Open()
-	if err != nil {
-		return nil, fc, fmt.Errorf("worksheet %s: %w", part, err)
-	}
-	defer rc.Close()
-	const chunk = 256 << 10
-	br := bufio.NewReaderSize(rc, chunk)
-	var tail []byte // the last bytes of the previous chunk, for a tag split across chunks
-	key := []byte("mergeCell")
-	for {
-		buf, rerr := br.Peek(chunk)
-		n := len(buf)
-		if n == 0 {
-			if rerr == io.EOF || rerr == nil {
-				return nil, fc, nil
-			}
-			return nil, fc, fmt.Errorf("worksheet %s: %w", part, rerr)
-		}
-		win := append(tail[:len(tail):len(tail)], buf...)
-		// Matches starting in the carried-over tail were counted with the previous chunk
-		// unless they ran past its end.
-		from := 0
-		if len(tail) > 0 {
-			from = len(tail) - len("<f ") + 1
-		}
-		fc.refScan(win, from)
-		if i := bytes.Index(win, key); i >= 0 {
-			// The merged cells are at the end of the sheet: read the rest (bounded).
-			_, _ = br.Discard(n)
-			rest, err := io.ReadAll(io.LimitReader(br, 64<<20))
-			if err != nil {
-				return nil, fc, fmt.Errorf("worksheet %s: %w", part, err)
-			}
-			return parseMerges(append(win[max(i-16, 0):], rest...)), fc, nil
-		}
-		tail = append(tail[:0], buf[max(n-16, 0):]...)
-		if _, err := br.Discard(n); err != nil {
-			return nil, fc, err
-		}
-		if rerr == io.EOF {
-			return nil, fc, nil
-		}
-	}
 }
