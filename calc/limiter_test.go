@@ -66,7 +66,7 @@ func TestOverloadLimiter(t *testing.T) {
 	}
 	for _, bad := range []calc.LimiterInput{
 		{RatedLoadKg: 0, RequiredFromKg: 1000},
-		{Fitted: true, RatedLoadKg: 5000, AsOf: asOf, IntervalMonths: 12},                              // no test date
+		{Fitted: true, RatedLoadKg: 5000, AsOf: asOf, IntervalMonths: 12},                             // no test date
 		{Fitted: true, RatedLoadKg: 5000, AsOf: asOf, LastTest: date(2027, 1, 1), IntervalMonths: 12}, // test after the as-of date
 		{Fitted: true, RatedLoadKg: 5000, AsOf: asOf, LastTest: date(2026, 1, 1), IntervalMonths: 0},
 	} {

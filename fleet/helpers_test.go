@@ -66,6 +66,12 @@ func (b *assetBuilder) num(key string, si float64) *assetBuilder {
 	return b
 }
 
+// raw sets a number with the text it was written as in the register.
+func (b *assetBuilder) raw(key string, si float64, raw string) *assetBuilder {
+	b.a.Fields[key] = Value{State: OK, Num: si, Raw: raw, Cell: b.cell(key)}
+	return b
+}
+
 func (b *assetBuilder) text(key, s string) *assetBuilder {
 	b.a.Fields[key] = Value{State: OK, Text: s, Raw: s, Cell: b.cell(key)}
 	return b

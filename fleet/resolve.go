@@ -276,6 +276,7 @@ func (c *Checker) resolve(a *Asset, d *hoistData) {
 		}
 	}
 	d.h = h.WithEfficiencies()
+	d.plausibility()
 }
 
 // hasCondition reports whether any rule row in force has the condition cond.

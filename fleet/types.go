@@ -79,9 +79,10 @@ const (
 	Duplicate          // a duplicated asset id
 	Shape              // a row of a different shape, an empty row
 	HeaderProblem      // a cell unusable because its column's header is (an unknown unit, say)
+	Implausible        // a value implausible beside the hoist's others: a unit slip, most likely
 )
 
-var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape", "header problem"}
+var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape", "header problem", "implausible value"}
 
 func (k Kind) String() string {
 	if int(k) < len(kindNames) {
