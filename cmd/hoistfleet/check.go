@@ -10,6 +10,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"sync/atomic"
 	"time"
@@ -197,19 +198,43 @@ func openRegister(name, sheet string, st Streams) (*input, error) {
 }
 
 // output is a file written atomically: a temporary file in the same directory, renamed
-// over the target only when complete.
+// over the target only when complete. A target that exists and is not a regular file (a
+// device such as /dev/null, a named pipe) is written directly instead: renaming over it
+// would replace the device with a file.
 type output struct {
-	path  string
-	tmp   *os.File
-	flush *flusher // syncs tmp in the background as it grows
-	w     io.Writer
+	path   string
+	tmp    *os.File
+	direct *os.File // the target itself, when it is not a regular file
+	flush  *flusher // syncs tmp in the background as it grows
+	w      io.Writer
 }
+
+// staleTemp matches the temporary files createOutput makes (".NAME.RANDOM.tmp"), and
+// staleAge is the age after which one left by a killed run is removed by the next run
+// into its folder.
+var staleTemp = regexp.MustCompile(`^\..+\.[0-9]+\.tmp$`)
+
+const staleAge = 24 * time.Hour
 
 func createOutput(path string, st Streams) (*output, error) {
 	if path == "-" {
 		return &output{path: "-", w: st.Out}, nil
 	}
+	if fi, err := os.Stat(path); err == nil && !fi.Mode().IsRegular() {
+		if fi.IsDir() {
+			return nil, usagef("-o %s is a folder: name a file in it", path)
+		}
+		f, err := os.OpenFile(path, os.O_WRONLY, 0)
+		if err != nil {
+			return nil, fmt.Errorf("writing the results: %w", err)
+		}
+		return &output{path: path, direct: f, w: f}, nil
+	}
 	dir := filepath.Dir(path)
+	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
+		return nil, fmt.Errorf("writing the results: the folder %s does not exist: create it or name another with -o", dir)
+	}
+	removeStaleTemps(dir, time.Now())
 	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
 	if err != nil {
 		return nil, fmt.Errorf("writing the results: %w", err)
@@ -223,7 +248,31 @@ func createOutput(path string, st Streams) (*output, error) {
 	return &output{path: path, tmp: tmp, flush: fl, w: fl}, nil
 }
 
+// removeStaleTemps removes the temporary files of earlier runs into dir that were killed
+// before they could remove their own (only names of createOutput's pattern, older than
+// staleAge). It is best effort.
+func removeStaleTemps(dir string, now time.Time) {
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return
+	}
+	for _, e := range entries {
+		if !e.Type().IsRegular() || !staleTemp.MatchString(e.Name()) {
+			continue
+		}
+		if fi, err := e.Info(); err == nil && now.Sub(fi.ModTime()) > staleAge {
+			os.Remove(filepath.Join(dir, e.Name()))
+		}
+	}
+}
+
 func (o *output) commit() error {
+	if o.direct != nil {
+		if err := o.direct.Close(); err != nil {
+			return fmt.Errorf("writing %s: %w", o.path, err)
+		}
+		return nil
+	}
 	if o.tmp == nil {
 		return nil
 	}
@@ -260,6 +309,9 @@ func syncDir(dir string) {
 // abort abandons the output: what the flusher still holds is dropped, not written, and
 // the temporary file removed.
 func (o *output) abort() {
+	if o.direct != nil {
+		o.direct.Close()
+	}
 	if o.tmp != nil {
 		o.flush.Abort()
 		o.tmp.Close()
