@@ -59,7 +59,7 @@ func Golden(t testing.TB, name string, got []byte) {
 	t.Helper()
 	key := t.Name()
 	if name != "" {
-		key += "/" + name
+		key += "/" + strings.ReplaceAll(name, " ", "_") // as t.Run does: SHA256SUMS splits at spaces
 	}
 	whole := filepath.Join(goldenDir, goldenFile(key))
 	if *updateGolden {
