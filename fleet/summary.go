@@ -72,6 +72,7 @@ type Brief struct {
 	MinMargin      float64
 	GoverningCheck string
 	MaxRatedLoadKg float64
+	RatedLoadKg    float64 // the load the hoist was checked at (its register rating)
 	Action         string  // what to do (Result.Action)
 	Reason         string  // for Flags and Overdue: what is wrong, in words
 	Days           float64 // for Overdue: days overdue
@@ -90,7 +91,7 @@ func NewSummary(topN int) *Summary {
 
 func brief(r *Result) Brief {
 	b := Brief{Row: r.Asset.Row, AssetID: r.Asset.ID, Status: r.Status, WorstCheck: r.WorstCheck,
-		MinMargin: r.MinMargin, GoverningCheck: r.GoverningCheck, MaxRatedLoadKg: r.MaxRatedLoadKg, Action: r.Action}
+		MinMargin: r.MinMargin, GoverningCheck: r.GoverningCheck, MaxRatedLoadKg: r.MaxRatedLoadKg, RatedLoadKg: r.RatedLoadKg, Action: r.Action}
 	if v := r.Asset.Get("site"); v.State == OK {
 		b.Site = v.Text
 	}

@@ -11,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"sync/atomic"
 	"time"
@@ -30,6 +31,7 @@ import (
 // checkConfig is what the flags shared by check, explain and demo set.
 type checkConfig struct {
 	rules           []string
+	rulesSheet      string
 	asOf            string
 	sheet           string
 	marginal        float64
@@ -39,15 +41,16 @@ type checkConfig struct {
 
 func (c *checkConfig) register(fs *pflag.FlagSet) {
 	fs.StringArrayVar(&c.rules, "rules", nil, "rule profile (iso, us) or a rule file (CSV, or XLSX with --rules-sheet) overriding it; repeat to layer: --rules us --rules ours.csv (default iso)")
+	fs.StringVar(&c.rulesSheet, "rules-sheet", "", "the sheet of an XLSX rule file to read (default its first sheet)")
 	fs.StringVar(&c.asOf, "as-of", "", "the run's date for inspections and ages, YYYY-MM-DD (default today)")
 	fs.StringVar(&c.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
 	fs.Float64Var(&c.marginal, "marginal", 0.10, "marginal band: utilisation above 1 − band and up to 1 is marginal")
-	fs.IntVar(&c.workers, "workers", 0, "checking workers (default GOMAXPROCS)")
-	fs.Float64Var(&c.ratedLoadFactor, "rated-load-factor", 0, "re-rate every hoist to F × its rated load and check it there too")
+	fs.IntVar(&c.workers, "workers", 0, "checking workers, at least 1 (default the number of cores)")
+	fs.Float64Var(&c.ratedLoadFactor, "rated-load-factor", 0, "re-rate every hoist to F × its rated load and check it there too; F from 0.5 to 3 (1.25 for +25 %)")
 }
 
-// loadRules builds the rule table in force from --rules values.
-func loadRules(values []string) (*rules.Table, string, error) {
+// loadRules builds the rule table in force from --rules values (sheet: --rules-sheet).
+func loadRules(values []string, sheet string) (*rules.Table, string, error) {
 	profile := "iso"
 	var files []string
 	for _, v := range values {
@@ -66,7 +69,7 @@ func loadRules(values []string) (*rules.Table, string, error) {
 		if err != nil {
 			return nil, "", usagef("--rules: %v (want %s or a rule file)", err, strings.Join(rules.Profiles(), ", "))
 		}
-		user, err := rulesfile.Read(name, f, "")
+		user, err := rulesfile.Read(name, f, sheet)
 		f.Close()
 		if err != nil {
 			return nil, "", usagef("--rules: %v", err)
@@ -103,7 +106,7 @@ func (c *checkConfig) checker() (*fleet.Checker, *rules.Table, string, time.Time
 
 // checkerRecord builds the checker; record keeps the calculation record (explain).
 func (c *checkConfig) checkerRecord(record bool) (*fleet.Checker, *rules.Table, string, time.Time, error) {
-	rules, userFiles, err := loadRules(c.rules)
+	rules, userFiles, err := loadRules(c.rules, c.rulesSheet)
 	if err != nil {
 		return nil, nil, "", time.Time{}, err
 	}
@@ -114,8 +117,15 @@ func (c *checkConfig) checkerRecord(record bool) (*fleet.Checker, *rules.Table, 
 	if !(c.marginal >= 0 && c.marginal < 1) {
 		return nil, nil, "", time.Time{}, usagef("--marginal %g: want a band in [0, 1)", c.marginal)
 	}
-	if c.ratedLoadFactor < 0 {
-		return nil, nil, "", time.Time{}, usagef("--rated-load-factor %g: want a positive factor", c.ratedLoadFactor)
+	if f := c.ratedLoadFactor; f != 0 && !(f >= minLoadFactor && f <= maxLoadFactor) {
+		hint := ""
+		if f > 10 && f/100 >= minLoadFactor && f/100 <= maxLoadFactor {
+			hint = " (did you mean " + strconv.FormatFloat(f/100, 'g', -1, 64) + "? the factor multiplies the rated load: 1.25 is +25 %)"
+		}
+		return nil, nil, "", time.Time{}, usagef("--rated-load-factor %g: want a factor from %g to %g%s", f, minLoadFactor, maxLoadFactor, hint)
+	}
+	if c.workers < 0 {
+		return nil, nil, "", time.Time{}, usagef("--workers %d: want at least 1 (or leave it out for one per core)", c.workers)
 	}
 	chk, err := fleet.NewChecker(fleet.Options{Rules: rules, MarginalBand: c.marginal, AsOf: asOf,
 		RatedLoadFactor: c.ratedLoadFactor, Workers: c.workers, Record: record})
@@ -124,6 +134,10 @@ func (c *checkConfig) checkerRecord(record bool) (*fleet.Checker, *rules.Table, 
 	}
 	return chk, rules, userFiles, asOf, nil
 }
+
+// The range of --rated-load-factor: a re-rating outside it is far more likely a slip (125
+// meant as 125 %) than an intended one.
+const minLoadFactor, maxLoadFactor = 0.5, 3.0
 
 // input is an opened register: its source, and the hash of the bytes read so far.
 type input struct {
@@ -359,7 +373,7 @@ func runCheck(ctx context.Context, args []string, st Streams) error {
 	var c checkRun
 	fs := newFlagSet("check", st)
 	fs.StringVarP(&c.out, "output", "o", "", "results file; - for standard output (default REGISTER-results.FORMAT beside the register)")
-	fs.StringVar(&c.format, "format", "", "xlsx, csv or jsonl (default from the output name, else xlsx)")
+	fs.StringVar(&c.format, "format", "", "xlsx, csv or jsonl (default from the output name's extension; csv for standard output; else xlsx)")
 	c.cfg.register(fs)
 	fs.StringVar(&c.failOn, "fail-on", "fail", "exit 1 when a hoist is at or above this status: fail, marginal or never (error counts as fail)")
 	fs.BoolVarP(&c.quiet, "quiet", "q", false, "no summary or progress on the terminal")
@@ -380,18 +394,38 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 	default:
 		return nil, usagef("--fail-on %q: want fail, marginal or never", c.failOn)
 	}
-	if c.format == "" {
-		switch ext := strings.ToLower(filepath.Ext(c.out)); ext {
-		case ".csv", ".jsonl":
-			c.format = ext[1:]
-		default:
-			c.format = "xlsx"
-		}
-	}
 	switch c.format {
-	case "xlsx", "csv", "jsonl":
+	case "", "xlsx", "csv", "jsonl":
 	default:
 		return nil, usagef("--format %q: want xlsx, csv or jsonl", c.format)
+	}
+	if c.out == "" && c.register == "-" {
+		c.out = "-" // a register on standard input: results on standard output
+	}
+	if c.register != "-" && c.out != "" && c.out != "-" && (sameFile(c.register, c.out) || filepath.Clean(c.register) == filepath.Clean(c.out)) {
+		return nil, usagef("the output %s is the register itself: hoistfleet never overwrites its input", c.out)
+	}
+	ext := strings.TrimPrefix(strings.ToLower(filepath.Ext(c.out)), ".")
+	if fi, err := os.Stat(c.out); err == nil && !fi.Mode().IsRegular() {
+		ext = c.format // a device or a pipe: its name says nothing of the format
+		if ext == "" {
+			ext = "xlsx"
+		}
+	}
+	switch {
+	case c.format == "" && c.out == "-":
+		c.format = "csv" // never a zip onto a terminal or a pipe by default
+	case c.format == "" && (ext == "csv" || ext == "jsonl" || ext == "xlsx"):
+		c.format = ext
+	case c.format == "" && c.out != "":
+		return nil, usagef("-o %s: say the format: name the file .xlsx, .csv or .jsonl, or give --format", c.out)
+	case c.format == "":
+		c.format = "xlsx"
+	case c.out != "" && c.out != "-" && ext != c.format:
+		return nil, usagef("-o %s with --format %s: the name says %q; name the file .%s, or leave --format out", c.out, c.format, ext, c.format)
+	}
+	if c.out == "-" && c.format == "xlsx" && st.OutIsTTY {
+		return nil, usagef("--format xlsx -o -: a workbook is binary and would be written onto the terminal; redirect it (> results.xlsx), or use --format csv or jsonl")
 	}
 	if c.out == "" {
 		c.out = defaultOutput(c.register, c.format)

@@ -61,14 +61,15 @@ func runTemplate(args []string, st Streams) error {
 
 func runRules(args []string, st Streams) error {
 	var values []string
-	var format string
+	var format, sheet string
 	fs := newFlagSet("rules", st)
 	fs.StringArrayVar(&values, "rules", nil, "rule profile (iso, us) or a rule file overriding it; repeatable (default iso)")
+	fs.StringVar(&sheet, "rules-sheet", "", "the sheet of an XLSX rule file to read (default its first sheet)")
 	fs.StringVar(&format, "format", "text", "text, md or csv")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
-	t, files, err := loadRules(values)
+	t, files, err := loadRules(values, sheet)
 	if err != nil {
 		return err
 	}

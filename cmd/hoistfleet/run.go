@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"sort"
 	"strings"
 
 	"github.com/spf13/pflag"
@@ -43,7 +44,8 @@ func run(ctx context.Context, args []string, st Streams) exitCode {
 		return exitUsage
 	}
 	var err error
-	switch cmd, rest := args[0], args[1:]; cmd {
+	cmd, rest := args[0], args[1:]
+	switch cmd {
 	case "check":
 		err = runCheck(ctx, rest, st)
 	case "explain":
@@ -62,15 +64,24 @@ func run(ctx context.Context, args []string, st Streams) exitCode {
 				fmt.Fprint(st.Out, h)
 				return exitOK
 			}
+			topics := make([]string, 0, len(commandHelp))
+			for k := range commandHelp {
+				topics = append(topics, k)
+			}
+			sort.Strings(topics)
+			fmt.Fprintf(st.Err, "hoistfleet: no help on %q: topics are %s\n", rest[0], strings.Join(topics, ", "))
+			return exitUsage
 		}
 		fmt.Fprint(st.Out, usageText)
 	default:
 		err = usagef("unknown command %q: want check, explain, template, rules or demo (hoistfleet help)", cmd)
 	}
-	return report(err, st)
+	return report(err, st, cmd)
 }
 
-func report(err error, st Streams) exitCode {
+// report prints err and returns the exit code for it; a usage error points at the
+// command's help.
+func report(err error, st Streams, cmd string) exitCode {
 	var ue *usageError
 	var fe *findingsError
 	switch {
@@ -82,7 +93,11 @@ func report(err error, st Streams) exitCode {
 		return exitFindings
 	case errors.As(err, &ue):
 		fmt.Fprintln(st.Err, "hoistfleet:", err)
-		fmt.Fprintln(st.Err, "run 'hoistfleet help' for usage")
+		if _, ok := commandHelp[cmd]; ok {
+			fmt.Fprintf(st.Err, "run 'hoistfleet help %s' for its flags and examples\n", cmd)
+		} else {
+			fmt.Fprintln(st.Err, "run 'hoistfleet help' for usage")
+		}
 		return exitUsage
 	case errors.Is(err, context.Canceled):
 		fmt.Fprintln(st.Err, "hoistfleet: cancelled; no output was written")

@@ -10,12 +10,16 @@ type Streams struct {
 	In       io.Reader
 	Out, Err io.Writer
 	ErrIsTTY bool
+	OutIsTTY bool // standard output is a terminal: no binary output onto it
 }
 
 func systemStreams() Streams {
-	tty := false
-	if fi, err := os.Stderr.Stat(); err == nil {
-		tty = fi.Mode()&os.ModeCharDevice != 0
-	}
-	return Streams{In: os.Stdin, Out: os.Stdout, Err: os.Stderr, ErrIsTTY: tty}
+	return Streams{In: os.Stdin, Out: os.Stdout, Err: os.Stderr, ErrIsTTY: isCharDevice(os.Stderr), OutIsTTY: isCharDevice(os.Stdout)}
+}
+
+// isCharDevice reports whether f is a character device: a terminal (or /dev/null,
+// which is harmless to refuse binary output to only when asked for it on standard output).
+func isCharDevice(f *os.File) bool {
+	fi, err := f.Stat()
+	return err == nil && fi.Mode()&os.ModeCharDevice != 0
 }

@@ -80,10 +80,11 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 
 	if len(s.Worst) > 0 {
 		n := min(len(s.Worst), MaxWorst)
-		p("\nWorst hoists\trow\tstatus\tsmallest margin\tworst check\tmax rated load\tgoverned by\n")
+		p("\nWorst hoists (worst status first, the mechanism before records, then the smallest margin)\n")
+		p("  asset\trow\tstatus\tsmallest margin\tworst check\trated load\tmax rated load\tgoverned by\n")
 		for _, b := range s.Worst[:n] {
-			p("  %s\t%d\t%s\t%s\t%s\t%s\t%s\n", orDash(b.AssetID), b.Row, b.Status, marginText(b.MinMargin),
-				orDash(b.WorstCheck), kgText(b.MaxRatedLoadKg), orDash(b.GoverningCheck))
+			p("  %s\t%d\t%s\t%s\t%s\t%s\t%s\t%s\n", orDash(b.AssetID), b.Row, b.Status, marginText(b.MinMargin),
+				orDash(b.WorstCheck), tonnesText(b.RatedLoadKg), tonnesText(b.MaxRatedLoadKg), orDash(b.GoverningCheck))
 		}
 		head := "\nWhat to do, worst hoists first\n"
 		for _, b := range s.Worst[:n] {
@@ -145,11 +146,13 @@ func marginText(m float64) string {
 	return strconv.FormatFloat(100*m, 'f', 1, 64) + " %"
 }
 
-func kgText(kg float64) string {
+// tonnesText is a load in tonnes to 0.01 t, rounded down (a rating is never shown
+// higher than it is).
+func tonnesText(kg float64) string {
 	if math.IsNaN(kg) || math.IsInf(kg, 0) {
 		return "none"
 	}
-	return strconv.FormatFloat(kg, 'f', 1, 64) + " kg"
+	return strconv.FormatFloat(math.Floor(kg/10+1e-9)/100, 'f', 2, 64) + " t"
 }
 
 func orDash(s string) string {

@@ -13,7 +13,7 @@ import (
 
 func res(row int, id, site string, st fleet.Status, margin, kg float64, gov string, checks ...fleet.CheckResult) *fleet.Result {
 	return &fleet.Result{Asset: &fleet.Asset{Row: row, ID: id, Fields: map[string]fleet.Value{"site": {State: fleet.OK, Text: site}}},
-		Evaluation: fleet.Evaluation{Status: st, MinMargin: margin, WorstCheck: gov, Checks: checks},
+		Evaluation: fleet.Evaluation{RatedLoadKg: 1000, Status: st, MinMargin: margin, WorstCheck: gov, Checks: checks},
 		Rating:     fleet.Rating{MaxRatedLoadKg: kg, GoverningCheck: gov}}
 }
 
@@ -60,11 +60,12 @@ By site       fail  error  unchecked  marginal  pass  total
   South yard  1     0      0          1         0     2
   (no site)   0     0      1          0         0     1
 
-Worst hoists  row  status     smallest margin  worst check         max rated load  governed by
-  H-02        3    fail       -25.0 %          -                   none            -
-  H-05        6    fail       -50.0 %          rope-design-factor  800.0 kg        rope-design-factor
-  H-04        5    unchecked  -                -                   none            -
-  H-03        4    marginal   5.0 %            motor-torque        1999.9 kg       motor-torque
+Worst hoists (worst status first, the mechanism before records, then the smallest margin)
+  asset  row  status     smallest margin  worst check         rated load  max rated load  governed by
+  H-02   3    fail       -25.0 %          -                   1.00 t      none            -
+  H-05   6    fail       -50.0 %          rope-design-factor  1.00 t      0.80 t          rope-design-factor
+  H-04   5    unchecked  -                -                   1.00 t      none            -
+  H-03   4    marginal   5.0 %            motor-torque        1.00 t      1.99 t          motor-torque
 
 What to do, worst hoists first
   H-02  Examine now: periodic inspection 35 days overdue; discard the rope
