@@ -41,14 +41,10 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		}
 	}
 	useCounts := make([]int, len(opts.Rules.Rules)) // uses of each rule row, by index
-	// A Sink that forgets results lets Run reuse their memory once written: the Result's
-	// (Checker.recycle) and, when the Source can take it back, the Asset's.
-	var recycler Recycler
-	forgets := false
-	if f, ok := sink.(Forgetter); ok && f.ForgetsResults() {
-		forgets = true
-		recycler, _ = src.(Recycler)
-	}
+	// A Sink keeps nothing of a result once written (the Sink contract), so Run reuses
+	// its memory: the Result's (Checker.recycle) and, when the Source can take it back,
+	// the Asset's.
+	recycler, _ := src.(Recycler)
 
 	g, ctx := errgroup.WithContext(ctx)
 	slots := make(chan struct{}, buffer) // a slot is held from read until written
@@ -80,14 +76,11 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 	})
 	workersDone := make(chan struct{})
 	var wg errgroup.Group
-	prep, _ := sink.(Preparer)
 	for range workers {
 		wg.Go(func() error {
 			for a := range jobs {
 				r := c.Check(a)
-				if prep != nil {
-					prep.Prepare(r)
-				}
+				sink.Prepare(r)
 				select {
 				case done <- r:
 				case <-ctx.Done():
@@ -128,11 +121,7 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 				if recycler != nil {
 					recycler.Recycle(p.Asset)
 				}
-				if forgets {
-					c.recycle(p)
-				} else {
-					p.rules = nil // counted: the audit sheet's counts are Run's
-				}
+				c.recycle(p)
 				<-slots
 			}
 		}

@@ -127,6 +127,8 @@ func (k *recordingSink) Begin(h *Header, info *RunInfo) error {
 	return nil
 }
 
+func (k *recordingSink) Prepare(*Result) {}
+
 func (k *recordingSink) Write(r *Result) error {
 	if k.before != nil {
 		k.before(k.writes.Load())

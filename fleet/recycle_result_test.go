@@ -9,24 +9,19 @@ import (
 )
 
 // renderingSink renders each Result to text when it is written, the moment a real Sink
-// reads it, and (when it keeps results) holds on to the Result itself.
+// reads it.
 type renderingSink struct {
-	forgets bool
-	texts   []string
-	kept    []*Result
+	texts []string
 }
 
 func (k *renderingSink) Begin(*Header, *RunInfo) error { return nil }
+func (k *renderingSink) Prepare(*Result)                {}
 func (k *renderingSink) Write(r *Result) error {
 	k.texts = append(k.texts, renderResult(r))
-	if !k.forgets {
-		k.kept = append(k.kept, r)
-	}
 	return nil
 }
 func (k *renderingSink) End(*Summary, *RunInfo) error { return nil }
 func (k *renderingSink) Abort()                       {}
-func (k *renderingSink) ForgetsResults() bool         { return k.forgets }
 
 // renderResult is everything a Sink reads of r, as text: NaNs print as NaN, so equal
 // results render equal.
@@ -46,11 +41,10 @@ func renderResult(r *Result) string {
 	return b.String()
 }
 
-// TestRecycledResultsAreWrittenIntact: with a Sink that forgets results, Run recycles
-// each Result (its checks, figures, proposed evaluation and rule rows) for a later hoist.
-// Every result must still reach the Sink exactly as a run without recycling gives it, for
-// a register mixing hoists with different checks, figures and a proposed load; and the
-// results a keeping Sink holds must not change after the run.
+// TestRecycledResultsAreWrittenIntact: Run recycles each Result (its checks, figures,
+// proposed evaluation and rule rows) for a later hoist. Every result must still reach the
+// Sink exactly as a Check of its own gives it (a fresh Checker, nothing recycled), for a
+// register mixing hoists with different checks, figures and a proposed load.
 func TestRecycledResultsAreWrittenIntact(t *testing.T) {
 	const n = 400
 	protos := []*Asset{
@@ -65,24 +59,20 @@ func TestRecycledResultsAreWrittenIntact(t *testing.T) {
 		a.Row = i + 2
 		return &a
 	}
-	run := func(forgets bool) *renderingSink {
-		sink := &renderingSink{forgets: forgets}
-		src := &fakeSource{h: testHeader(), n: n, gen: gen, t: t}
-		if _, err := runWithin(t, 60*time.Second, context.Background(), src, sink, checkerWith(t, 4, 16), &RunInfo{}, nil); err != nil {
-			t.Fatal(err)
-		}
-		if len(sink.texts) != n {
-			t.Fatalf("%d results written, want %d", len(sink.texts), n)
-		}
-		return sink
+	sink := &renderingSink{}
+	src := &fakeSource{h: testHeader(), n: n, gen: gen, t: t}
+	if _, err := runWithin(t, 60*time.Second, context.Background(), src, sink, checkerWith(t, 4, 16), &RunInfo{}, nil); err != nil {
+		t.Fatal(err)
 	}
-	kept, recycled := run(false), run(true)
+	if len(sink.texts) != n {
+		t.Fatalf("%d results written, want %d", len(sink.texts), n)
+	}
+	fresh := checkerWith(t, 1, 1)
 	for i := range n {
-		if recycled.texts[i] != kept.texts[i] {
-			t.Fatalf("row %d written differently with recycling:\n%s\nwithout:\n%s", i, recycled.texts[i], kept.texts[i])
-		}
-		if now := renderResult(kept.kept[i]); now != kept.texts[i] {
-			t.Fatalf("kept result %d changed after it was written:\n%s\nwas:\n%s", i, now, kept.texts[i])
+		a := gen(i)
+		a.Index = i
+		if want := renderResult(fresh.Check(a)); sink.texts[i] != want {
+			t.Fatalf("row %d written differently through Run:\n%s\nits own Check:\n%s", i, sink.texts[i], want)
 		}
 	}
 }

@@ -29,58 +29,33 @@ func (s *recyclingSource) Recycle(a *Asset) {
 	}
 }
 
-// forgettingSink is a recordingSink that says it keeps nothing of a result.
-type forgettingSink struct {
-	*recordingSink
-	forgets bool
-}
-
-func (k *forgettingSink) ForgetsResults() bool { return k.forgets }
-
-// TestRunRecyclesOnlyWhatASinkForgets: with a Sink that forgets results, every Asset goes
-// back to a Recycler Source exactly once, after its result was written; with a Sink that
-// keeps them (or does not say), none does.
-func TestRunRecyclesOnlyWhatASinkForgets(t *testing.T) {
+// TestRunRecyclesEveryAsset: every Asset goes back to a Recycler Source exactly once,
+// after its result was written (a Sink keeps nothing of a result: the Sink contract).
+func TestRunRecyclesEveryAsset(t *testing.T) {
 	const n = 300
 	proto := rowAsset(t, 0)
-	for _, tc := range []struct {
-		name     string
-		sink     func(*recordingSink) Sink
-		recycles bool
-	}{
-		{"forgets", func(k *recordingSink) Sink { return &forgettingSink{k, true} }, true},
-		{"keeps", func(k *recordingSink) Sink { return &forgettingSink{k, false} }, false},
-		{"silent", func(k *recordingSink) Sink { return k }, false},
-	} {
-		t.Run(tc.name, func(t *testing.T) {
-			rec := &recordingSink{}
-			fs := &fakeSource{h: testHeader(), n: n, sink: rec, t: t, gen: func(i int) *Asset {
-				a := *proto
-				a.ID = proto.ID + "-" + string(rune('a'+i%26))
-				return &a
-			}}
-			src := &recyclingSource{fakeSource: fs, back: map[*Asset]int{}}
-			if _, err := runWithin(t, 30*time.Second, context.Background(), src, tc.sink(rec), checkerWith(t, 4, 16), &RunInfo{}, nil); err != nil {
-				t.Fatal(err)
-			}
-			if rec.writes.Load() != n {
-				t.Fatalf("%d results written, want %d", rec.writes.Load(), n)
-			}
-			want := 0
-			if tc.recycles {
-				want = n
-			}
-			if src.recycled != want || len(src.back) != want {
-				t.Errorf("%d Assets recycled (%d distinct), want %d", src.recycled, len(src.back), want)
-			}
-			for a, times := range src.back {
-				if times != 1 {
-					t.Errorf("asset %q came back %d times", a.ID, times)
-				}
-			}
-			if src.early > 0 {
-				t.Errorf("%d Assets came back before their result was written", src.early)
-			}
-		})
+	rec := &recordingSink{}
+	fs := &fakeSource{h: testHeader(), n: n, sink: rec, t: t, gen: func(i int) *Asset {
+		a := *proto
+		a.ID = proto.ID + "-" + string(rune('a'+i%26))
+		return &a
+	}}
+	src := &recyclingSource{fakeSource: fs, back: map[*Asset]int{}}
+	if _, err := runWithin(t, 30*time.Second, context.Background(), src, rec, checkerWith(t, 4, 16), &RunInfo{}, nil); err != nil {
+		t.Fatal(err)
+	}
+	if rec.writes.Load() != n {
+		t.Fatalf("%d results written, want %d", rec.writes.Load(), n)
+	}
+	if src.recycled != n || len(src.back) != n {
+		t.Errorf("%d Assets recycled (%d distinct), want %d", src.recycled, len(src.back), n)
+	}
+	for a, times := range src.back {
+		if times != 1 {
+			t.Errorf("asset %q came back %d times", a.ID, times)
+		}
+	}
+	if src.early > 0 {
+		t.Errorf("%d Assets came back before their result was written", src.early)
 	}
 }

@@ -53,7 +53,7 @@ type Result struct {
 	// Proposed is the evaluation at the proposed rated load (a Proposed rated load cell,
 	// or --rated-load-factor), nil when there is none.
 	Proposed *Evaluation
-	// Prepared is whatever the Sink's Prepare made of this result (see Preparer), for its
+	// Prepared is whatever the Sink's Prepare made of this result (see Sink), for its
 	// Write; nil when the Sink prepares nothing.
 	Prepared any
 

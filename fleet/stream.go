@@ -14,43 +14,39 @@ type Source interface {
 	Close() error
 }
 
-// Sink receives the run: Begin once, Write every result in register order, End once
-// with the summary. Sinks write to an io.Writer given at construction; the caller (cmd)
-// makes the file atomic (temporary file, renamed after End). Abort releases what a sink
-// holds (temporary files of its own) after a failed run.
+// Sink receives the run: Begin once, Prepare each result in the worker that checked it,
+// Write every result in register order, End once with the summary. Sinks write to an
+// io.Writer given at construction; the caller (cmd) makes the file atomic (temporary
+// file, renamed after End). Abort releases what a sink holds (temporary files of its own)
+// after a failed run.
+//
+// Prepare may do part of the work for a result before it reaches Write — typically
+// encoding it, so that encoding runs on every core while Write, called in register order
+// by one goroutine, only copies bytes out. It is called concurrently from several
+// workers, after Begin; it must not touch state that Write uses, and may leave its work
+// in Result.Prepared. A sink with nothing to prepare does nothing in it.
+//
+// Write must not keep the Result, nor anything it points to, once it returns: not the
+// Result, its checks, figures or proposed evaluation, its Asset, or the Asset's Values,
+// Cells or Problems. Strings and numbers copied out of them are fine. Run reuses that
+// memory for later hoists (the Result's through the Checker, the Asset's through a Source
+// that is a Recycler).
 type Sink interface {
 	Begin(h *Header, info *RunInfo) error
+	Prepare(r *Result)
 	Write(r *Result) error
 	End(s *Summary, info *RunInfo) error
 	Abort()
 }
 
-// Preparer is implemented by a Sink that can do part of its work for a result in the
-// worker that checked it, before the result reaches Write: typically encoding it, so that
-// the encoding runs on every core while Write, called in register order by one goroutine,
-// only copies bytes out. Prepare is called concurrently from several workers, after Begin;
-// it must not touch state that Write uses, and may leave its work in Result.Prepared.
-type Preparer interface {
-	Prepare(r *Result)
-}
-
 // Recycler is implemented by a Source that can reuse the memory of an Asset it returned
 // (the Asset, its Values and Cells) for a later row, so that a long run does not
-// allocate and clear that memory afresh for every hoist. Run hands an Asset back only
-// when the Sink is a Forgetter that forgets results, after writing its Result and adding
-// it to the summary; strings are never reused, so any string taken from an Asset stays
-// valid. Recycle is called from another goroutine than Next.
+// allocate and clear that memory afresh for every hoist. Run hands each Asset back after
+// writing its Result and adding it to the summary; strings are never reused, so any
+// string taken from an Asset stays valid. Recycle is called from another goroutine than
+// Next.
 type Recycler interface {
 	Recycle(a *Asset)
-}
-
-// Forgetter is implemented by a Sink that may say it keeps nothing of a Result once Write
-// has returned: no pointer to the Result, its checks, figures or proposed evaluation, its
-// Asset, or the Asset's Values, Cells or Problems (strings and numbers copied out of them
-// are fine). Only then does Run recycle them: the Result's memory goes back to the
-// Checker for a later hoist, and the Asset to a Source that is a Recycler.
-type Forgetter interface {
-	ForgetsResults() bool
 }
 
 // RuleUse is one rule row in force, as the audit sheet lists it.

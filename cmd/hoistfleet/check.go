@@ -485,19 +485,6 @@ type hashingSink struct {
 	info *fleet.RunInfo
 }
 
-// Prepare passes the workers' share of the writing on to the wrapped sink.
-func (s *hashingSink) Prepare(r *fleet.Result) {
-	if p, ok := s.Sink.(fleet.Preparer); ok {
-		p.Prepare(r)
-	}
-}
-
-// ForgetsResults passes on whether the wrapped sink keeps results (fleet.Forgetter).
-func (s *hashingSink) ForgetsResults() bool {
-	f, ok := s.Sink.(fleet.Forgetter)
-	return ok && f.ForgetsResults()
-}
-
 func (s *hashingSink) End(sum *fleet.Summary, info *fleet.RunInfo) error {
 	if s.in.file != nil {
 		// Read whatever the reader left unread (XLSX readers read all; CSV stops at EOF).

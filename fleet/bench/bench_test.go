@@ -365,6 +365,7 @@ func (s *sliceSource) Next(ctx context.Context) (*fleet.Asset, error) {
 type discardSink struct{}
 
 func (discardSink) Begin(*fleet.Header, *fleet.RunInfo) error { return nil }
+func (discardSink) Prepare(*fleet.Result)                     {}
 func (discardSink) Write(*fleet.Result) error                 { return nil }
 func (discardSink) End(*fleet.Summary, *fleet.RunInfo) error  { return nil }
 func (discardSink) Abort()                                    {}

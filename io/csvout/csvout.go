@@ -70,7 +70,7 @@ const flushAt = 64 << 10
 // numbers are formatted by outbuf.AppendShortest, and one that comes again in the same
 // hoist is copied from where it was written (outbuf.NumMemo).
 //
-// Writer is also a fleet.Preparer: the pipeline's workers encode each hoist's records
+// Writer prepares in the workers (fleet.Sink.Prepare): the pipeline's workers encode each hoist's records
 // (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
 // copies them out, so the encoding runs on every core.
 type Writer struct {
@@ -129,7 +129,6 @@ func New(w io.Writer, opts Options) *Writer {
 
 var (
 	_ fleet.Sink     = (*Writer)(nil)
-	_ fleet.Preparer = (*Writer)(nil)
 )
 
 // Begin writes the header. The proposed_* columns are included when opts.Proposed is set,
@@ -213,7 +212,7 @@ func (w *Writer) Write(r *fleet.Result) error {
 	return w.err
 }
 
-// Prepare encodes r's records (fleet.Preparer): it runs in the pipeline's workers,
+// Prepare encodes r's records (fleet.Sink): it runs in the pipeline's workers,
 // concurrently, with an encoder of its own, and leaves the bytes in r.Prepared for Write.
 // Before Begin, or on a result without an asset, it does nothing (Write reports those).
 func (w *Writer) Prepare(r *fleet.Result) {

@@ -51,7 +51,7 @@ const flushAt = 64 << 10
 // once more. The JSON form of texts and numbers that repeat from check to
 // check and hoist to hoist is made once and copied after that.
 //
-// Writer is also a fleet.Preparer: the pipeline's workers encode each hoist's line
+// Writer prepares in the workers (fleet.Sink.Prepare): the pipeline's workers encode each hoist's line
 // (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
 // copies it out, so the encoding runs on every core.
 type Writer struct {
@@ -104,7 +104,6 @@ func New(w io.Writer, opts Options) *Writer {
 
 var (
 	_ fleet.Sink     = (*Writer)(nil)
-	_ fleet.Preparer = (*Writer)(nil)
 )
 
 // Begin writes nothing: JSON lines have no header.
@@ -137,7 +136,7 @@ func (w *Writer) Write(r *fleet.Result) error {
 	return w.err
 }
 
-// Prepare encodes r's line (fleet.Preparer): it runs in the pipeline's workers,
+// Prepare encodes r's line (fleet.Sink): it runs in the pipeline's workers,
 // concurrently, with an encoder of its own, and leaves the bytes in r.Prepared for Write.
 // A result without an asset is left to Write, which reports it.
 func (w *Writer) Prepare(r *fleet.Result) {

@@ -14,7 +14,7 @@ import (
 )
 
 // Prepared makes and recycles the encodings one writer's Prepare leaves in
-// fleet.Result.Prepared (see fleet.Preparer). Its methods are safe for concurrent use.
+// fleet.Result.Prepared (see fleet.Sink). Its methods are safe for concurrent use.
 type Prepared struct {
 	spare sync.Pool // *[]byte
 }

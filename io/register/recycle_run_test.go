@@ -29,13 +29,8 @@ func (c *countingReader) Next(ctx context.Context) (*fleet.Asset, error) {
 	return a, err
 }
 
-// keepingSink hides the writer's Forgetter (and forwards Prepare), so Run recycles nothing.
-type keepingSink struct {
-	fleet.Sink
-	w *csvout.Writer
-}
-
-func (k keepingSink) Prepare(r *fleet.Result) { k.w.Prepare(r) }
+// plainSource hides the reader's Recycle, so Run hands no Asset back to it.
+type plainSource struct{ fleet.Source }
 
 // TestRunWithRecycledAssets: the real reader, Checker, pipeline and CSV writer, with far
 // more rows than the reorder buffer holds, so Assets are reused while workers and the
@@ -58,22 +53,21 @@ func TestRunWithRecycledAssets(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		src := &countingReader{Reader: r, seen: map[*fleet.Asset]int{}}
-		var out bytes.Buffer
-		w := csvout.New(&out, csvout.Options{})
-		var sink fleet.Sink = w
+		counting := &countingReader{Reader: r, seen: map[*fleet.Asset]int{}}
+		var src fleet.Source = counting
 		if !recycle {
-			sink = keepingSink{Sink: w, w: w}
+			src = plainSource{counting}
 		}
-		if _, err := fleet.Run(context.Background(), src, sink, chk, &fleet.RunInfo{}, nil); err != nil {
+		var out bytes.Buffer
+		if _, err := fleet.Run(context.Background(), src, csvout.New(&out, csvout.Options{}), chk, &fleet.RunInfo{}, nil); err != nil {
 			t.Fatal(err)
 		}
-		return out.String(), src.reused
+		return out.String(), counting.reused
 	}
 	fresh, none := run(false)
 	recycled, reused := run(true)
 	if none != 0 {
-		t.Errorf("%d Assets reused although the sink keeps results", none)
+		t.Errorf("%d Assets reused although the source does not recycle", none)
 	}
 	if reused < len(rows)/2 {
 		t.Errorf("only %d of %d rows reused an Asset", reused, len(rows))

@@ -43,6 +43,7 @@ func (f *FailAfter) Write(p []byte) (int, error) {
 type CountSink struct{ N int }
 
 func (c *CountSink) Begin(*fleet.Header, *fleet.RunInfo) error { return nil }
+func (c *CountSink) Prepare(*fleet.Result)                     {}
 func (c *CountSink) Write(*fleet.Result) error                 { c.N++; return nil }
 func (c *CountSink) End(*fleet.Summary, *fleet.RunInfo) error  { return nil }
 func (c *CountSink) Abort()                                    {}
@@ -60,11 +61,10 @@ func AbsorbedErrorsStick(t *testing.T, newSink func(io.Writer) fleet.Sink, rs []
 	diskFull := errors.New("no space left on device")
 	direct := &Absorber{W: &FailAfter{OK: ok, Err: diskFull}}
 	w := newSink(direct)
-	prep, _ := w.(fleet.Preparer)
 	first := w.Begin(&fleet.Header{}, &fleet.RunInfo{})
 	for _, r := range rs {
-		if prepared && prep != nil {
-			prep.Prepare(r)
+		if prepared {
+			w.Prepare(r)
 		}
 		if err := w.Write(r); first == nil {
 			first = err
@@ -90,15 +90,12 @@ func AbsorberAbortWritesNothing(t *testing.T, newSink func(io.Writer) fleet.Sink
 	var out bytes.Buffer
 	direct := &Absorber{W: &out}
 	w := newSink(direct)
-	prep, _ := w.(fleet.Preparer)
 	_ = w.Begin(&fleet.Header{}, &fleet.RunInfo{})
 	_ = w.Write(rs[0])
 	took := direct.Writes
 	w.Abort()
 	for _, r := range rs[1:] {
-		if prep != nil {
-			prep.Prepare(r)
-		}
+		w.Prepare(r)
 		_ = w.Write(r)
 	}
 	_ = w.End(nil, nil)
@@ -144,16 +141,12 @@ func AbsorberSameBytes(t *testing.T, headerWrites int, variants ...Variant) {
 		var blocks, out bytes.Buffer
 		direct := &Absorber{W: &out}
 		for _, w := range []fleet.Sink{variants[0].New(&blocks), variants[0].New(direct)} {
-			prep, ok := w.(fleet.Preparer)
-			if !ok {
-				t.Fatalf("%T is not a fleet.Preparer", w)
-			}
 			if err := w.Begin(&fleet.Header{}, &fleet.RunInfo{}); err != nil {
 				t.Fatal(err)
 			}
 			for i, r := range rs {
 				if i%3 != 0 {
-					prep.Prepare(r)
+					w.Prepare(r)
 				}
 				if err := w.Write(r); err != nil {
 					t.Fatal(err)

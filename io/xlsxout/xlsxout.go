@@ -107,6 +107,11 @@ func New(w io.Writer, opts Options) *Writer { return &Writer{out: w, opts: opts}
 
 var _ fleet.Sink = (*Writer)(nil)
 
+// Prepare does nothing: the workbook's rows are written in register order by Write.
+// Write keeps nothing of a result once it returns (the fleet.Sink contract): the
+// summary's lists copy what they show.
+func (w *Writer) Prepare(*fleet.Result) {}
+
 func (w *Writer) fail(format string, a ...any) error {
 	if w.err == nil {
 		w.err = fmt.Errorf("xlsxout: "+format, a...)
