@@ -15,7 +15,7 @@ type renderingSink struct {
 }
 
 func (k *renderingSink) Begin(*Header, *RunInfo) error { return nil }
-func (k *renderingSink) Prepare(*Result)                {}
+func (k *renderingSink) Prepare(*Result)               {}
 func (k *renderingSink) Write(r *Result) error {
 	k.texts = append(k.texts, renderResult(r))
 	return nil

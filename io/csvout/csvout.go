@@ -128,7 +128,7 @@ func New(w io.Writer, opts Options) *Writer {
 }
 
 var (
-	_ fleet.Sink     = (*Writer)(nil)
+	_ fleet.Sink = (*Writer)(nil)
 )
 
 // Begin writes the header. The proposed_* columns are included when opts.Proposed is set,

@@ -103,7 +103,7 @@ func New(w io.Writer, opts Options) *Writer {
 }
 
 var (
-	_ fleet.Sink     = (*Writer)(nil)
+	_ fleet.Sink = (*Writer)(nil)
 )
 
 // Begin writes nothing: JSON lines have no header.
