@@ -35,6 +35,7 @@ var edgeFloats = []float64{0, math.Copysign(0, -1), 1, -1, 0.5, 0.1, 0.2, 0.3, 0
 // every power of ten and of two in range with their neighbours, short decimals, and
 // random numbers of every kind.
 func TestAppendShortestMatchesStrconv(t *testing.T) {
+	t.Parallel() // with the other long comparisons below: they share nothing
 	for _, f := range edgeFloats {
 		checkShortest(t, f)
 		checkShortest(t, -f)
@@ -65,6 +66,7 @@ func TestAppendShortestMatchesStrconv(t *testing.T) {
 // one below 200 000, those around each power of ten, and random ones of every length,
 // with both signs.
 func TestAppendShortestWhole(t *testing.T) {
+	t.Parallel()
 	for i := range 200_000 {
 		checkShortest(t, float64(i))
 		checkShortest(t, -float64(i))
@@ -109,6 +111,7 @@ func randShortestInput(rng *rand.Rand) float64 {
 // TestAppendShortestExhaustive compares every float64 in stretches of consecutive bit
 // patterns, across magnitudes and at the ends of the fast path's range.
 func TestAppendShortestExhaustive(t *testing.T) {
+	t.Parallel()
 	n := 100_000
 	if testing.Short() {
 		n = 10_000
