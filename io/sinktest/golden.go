@@ -31,7 +31,7 @@ import (
 // on purpose (a new check changes the results of the demo registers, say), rewrite the
 // goldens with
 //
-//	go test ./io/csvout ./io/jsonout ./io/xlsxout -run Golden -update-golden
+//	go test ./io/csvout ./io/jsonout ./io/xlsxout -update-golden
 //
 // and read the diff of testdata/golden before committing it.
 
