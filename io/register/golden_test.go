@@ -160,10 +160,19 @@ func readGz(t testing.TB, file string) string {
 	return string(out)
 }
 
-// dumpRegister reads a register and writes every field of its header and assets.
+// freshDumps holds dumpRegister's dumps of the golden inputs (by name), which
+// TestGoldenDumps and TestRecycledAssetsMatchGolden both compare: each is made once.
+var freshDumps sync.Map
+
+// dumpRegister reads a golden input and writes every field of its header and assets.
 func dumpRegister(t testing.TB, name string, in goldenInput) string {
 	t.Helper()
-	return dumpRegisterWith(t, name, in, false)
+	if d, ok := freshDumps.Load(name); ok {
+		return d.(string)
+	}
+	d := dumpRegisterWith(t, name, in, false)
+	freshDumps.Store(name, d)
+	return d
 }
 
 // dumpRegisterWith dumps a register; with recycle, each Asset is handed back to the
