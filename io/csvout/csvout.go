@@ -12,9 +12,14 @@
 // empty or unreadable row) still gets one record, with its messages in the message field,
 // so no register row is dropped.
 //
-// Numbers are SI (kg, N, m, s, N m, W) unless the unit field says otherwise, written in
-// Go's shortest round-trip form ("6480.5", "1.5e-09"); NaN and infinities are empty
-// fields. figures is "name=value; name=value" with the check's figures in their order.
+// Numbers are SI (kg, N, m, s, N m, W) unless the unit field says otherwise, written to
+// six significant digits (Digits: "6480.5", "0.637687", "1.5e-09"; the JSON lines carry
+// the exact values); NaN and infinities are empty fields. figures is
+// "name=value; name=value" with the check's figures in their order. rule gives each rule
+// row the check used as "id = value unit (groups; condition)"; source is the short form of
+// their citations (cite.Short: "ISO 4308-1 [memory, medium]"), whose full text is in the
+// workbook's Audit sheet and in `hoistfleet rules`. A check that reads no rule row names
+// its method in source, whole.
 //
 // Formula injection: a spreadsheet opening the file would run a text field that starts
 // with =, +, -, @, tab or carriage return as a formula. Every text field that starts with
@@ -67,8 +72,7 @@ const flushAt = 64 << 10
 // it as they come, straight from the buffer they were encoded in, which saves copying
 // all the output once more. The text of check ids, units, rules, sources, sites and
 // figure names that repeat from record to record is encoded once and copied after that;
-// numbers are formatted by outbuf.AppendShortest, and one that comes again in the same
-// hoist is copied from where it was written (outbuf.NumMemo).
+// numbers are formatted to Digits significant digits by strconv.
 //
 // Writer prepares in the workers (fleet.Sink.Prepare): the pipeline's workers encode each hoist's records
 // (Prepare, concurrently, each with an encoder of its own from a pool) and Write only
@@ -99,7 +103,6 @@ type encoder struct {
 	status       [6]string // encoded status words, by fleet.Status
 	siteField    outbuf.TextField
 	texts        textCache
-	nums         outbuf.NumMemo // the numbers of the current hoist, where they were written
 	site, gov    memo           // the last site and governing check written
 	memos        [][4]memo      // by check index: the last id, unit, rule and source
 	messages     []freeMemo     // by check index: the last message
@@ -226,7 +229,6 @@ func (w *Writer) Prepare(r *fleet.Result) {
 
 // encode appends the records of r (one per check, one when it has none).
 func (e *encoder) encode(b []byte, r *fleet.Result) []byte {
-	e.nums.Reset()
 	e.pre = e.hoist(e.pre[:0], r)
 	if len(r.Checks) == 0 {
 		b = e.noChecks(b, r)
@@ -306,7 +308,7 @@ func (e *encoder) check(b []byte, r *fleet.Result, i int) []byte {
 	b = e.sep(b)
 	b = e.texts.appendText(&e.fc, &m[2], b, c.Rule)
 	b = e.sep(b)
-	b = e.texts.appendText(&e.fc, &m[3], b, c.Source)
+	b = e.texts.appendSource(&e.fc, &m[3], b, c.Source)
 	b = e.sep(b)
 	b = e.messages[i].appendText(&e.fc, b, c.Message)
 	b = e.sep(b)
@@ -358,14 +360,13 @@ func (e *encoder) appendFigures(b []byte, c *fleet.CheckResult, ci int) []byte {
 		case math.IsNaN(f.Value) || math.IsInf(f.Value, 0):
 			b = append(b, "n/a"...)
 		default:
-			b = e.nums.AppendShortest(b, f.Value, 'g')
+			b = appendG(b, f.Value)
 		}
 	}
 	if c0 := b[start]; !special && c0 != ' ' && !isGuardByte(c0) {
 		return b
 	}
 	e.tmp = append(e.tmp[:0], b[start:]...)
-	e.nums.Reset() // the numbers in the field move
 	return appendText(&e.fc, b[:start], e.tmp)
 }
 

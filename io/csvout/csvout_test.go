@@ -131,14 +131,14 @@ func TestNumbersRoundTrip(t *testing.T) {
 		col  string
 		want float64
 	}{
-		{1, "demand", 9.80665},           // NIST SP 811 appendix B: g_n exactly
-		{2, "utilisation", 100.0 / 365},  // 100 days of a 365-day interval
+		{1, "demand", 9.80665},           // NIST SP 811 appendix B: g_n exactly (six digits)
+		{2, "utilisation", 0.273973},     // 100 days of a 365-day interval, 0.2739726… to six digits
 		{1, "max_rated_load_kg", 6480.5}, // design.md jsonl example value
 		{4, "margin", -0.12},             // negative numbers stay numbers
 		{5, "limit_rated_load_kg", 4000}, //
 		{5, "capacity", 100},             //
 		{1, "limit_rated_load_kg", 6250}, //
-		{2, "margin", 1 - 100.0/365},     //
+		{2, "margin", 0.726027},          // 1 − 100/365 = 0.7260273… to six digits
 		{4, "utilisation", 1.12},         //
 		{5, "utilisation", 0.5},          //
 	} {

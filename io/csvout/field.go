@@ -3,6 +3,8 @@ package csvout
 import (
 	"strings"
 	"unicode/utf8"
+
+	"hoistfleet/io/cite"
 )
 
 // NeedsGuard reports whether a text field would be read as a formula by a spreadsheet:
@@ -146,15 +148,31 @@ func (tc *textCache) appendText(fc *fieldCoder, m *memo, b []byte, s string) []b
 	return append(b, m[0].enc...)
 }
 
+// appendSource appends the source field for the check source s: its short form
+// (cite.Short), encoded by fc, remembering it in m under s.
+func (tc *textCache) appendSource(fc *fieldCoder, m *memo, b []byte, s string) []byte {
+	if s != m[0].s {
+		tc.rememberAs(fc, m, s, cite.Short)
+	}
+	return append(b, m[0].enc...)
+}
+
 // remember moves s to the front of m, encoded.
-func (tc *textCache) remember(fc *fieldCoder, m *memo, s string) {
+func (tc *textCache) remember(fc *fieldCoder, m *memo, s string) { tc.rememberAs(fc, m, s, nil) }
+
+// rememberAs moves s to the front of m with the encoding of as(s) (of s when as is nil).
+func (tc *textCache) rememberAs(fc *fieldCoder, m *memo, s string, as func(string) string) {
 	j := 1
 	for j < len(m)-1 && m[j].s != s {
 		j++
 	}
 	e := m[j]
 	if e.s != s {
-		e.s, e.enc = s, tc.encode(fc, s)
+		t := s
+		if as != nil {
+			t = as(s)
+		}
+		e.s, e.enc = s, tc.encode(fc, t)
 	}
 	copy(m[1:j+1], m[:j])
 	m[0] = e
