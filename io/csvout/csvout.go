@@ -103,12 +103,12 @@ type encoder struct {
 	status       [6]string // encoded status words, by fleet.Status
 	siteField    outbuf.TextField
 	texts        textCache
-	site, gov    memo           // the last site and governing check written
-	memos        [][4]memo      // by check index: the last id, unit, rule and source
-	messages     []freeMemo     // by check index: the last message
-	figNames     [][]figName    // by check and figure index: the last figure name
-	pre          []byte         // the hoist-level fields of the current hoist, reused
-	tmp          []byte         // scratch, reused
+	site, gov    memo        // the last site and governing check written
+	memos        [][4]memo   // by check index: the last id, unit, rule and source
+	messages     []freeMemo  // by check index: the last message
+	figNames     [][]figName // by check and figure index: the last figure name
+	pre          []byte      // the hoist-level fields of the current hoist, reused
+	tmp          []byte      // scratch, reused
 }
 
 // clone returns an encoder with e's configuration and empty caches.
