@@ -349,14 +349,14 @@ func defaultOutput(register, format string) string {
 	return base + "-results." + format
 }
 
-func newSink(format string, w io.Writer) fleet.Sink {
+func newSink(format string, w io.Writer, paper string) fleet.Sink {
 	switch format {
 	case "csv":
 		return csvout.New(w, csvout.Options{})
 	case "jsonl":
 		return jsonout.New(w, jsonout.Options{})
 	}
-	return xlsxout.New(w, xlsxout.Options{})
+	return xlsxout.New(w, xlsxout.Options{Paper: paper})
 }
 
 type checkRun struct {
@@ -365,6 +365,7 @@ type checkRun struct {
 	format   string
 	failOn   string
 	quiet    bool
+	paper    string
 	topN     int
 	register string
 }
@@ -377,6 +378,7 @@ func runCheck(ctx context.Context, args []string, st Streams) error {
 	c.cfg.register(fs)
 	fs.StringVar(&c.failOn, "fail-on", "fail", "exit 1 when a hoist is at or above this status: fail, marginal or never (error counts as fail)")
 	fs.BoolVarP(&c.quiet, "quiet", "q", false, "no summary or progress on the terminal")
+	fs.StringVar(&c.paper, "paper", "", "paper the workbook prints on: a4 or letter (default from the locale: letter for US and Canadian ones, else a4)")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
@@ -427,6 +429,10 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 	if c.out == "-" && c.format == "xlsx" && st.OutIsTTY {
 		return nil, usagef("--format xlsx -o -: a workbook is binary and would be written onto the terminal; redirect it (> results.xlsx), or use --format csv or jsonl")
 	}
+	paper, err := resolvePaper(c.paper, os.Getenv)
+	if err != nil {
+		return nil, err
+	}
 	if c.out == "" {
 		c.out = defaultOutput(c.register, c.format)
 	}
@@ -450,7 +456,7 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 		Input: c.register, Sheet: in.src.Header().Sheet, Profile: rules.Profile, RulesFile: userFiles,
 		AsOf: asOf, Started: time.Now(), MarginalBand: c.cfg.marginal, RatedLoadFactor: c.cfg.ratedLoadFactor,
 		Cautions: []string{fleet.Caution}}
-	sink := &hashingSink{Sink: newSink(c.format, out.w), in: in, info: info}
+	sink := &hashingSink{Sink: newSink(c.format, out.w, paper), in: in, info: info}
 	var progress atomic.Int64
 	stopProgress := startProgress(st, c.quiet || c.out == "-", &progress)
 	summary, err := fleet.Run(ctx, in.src, sink, chk, info, &progress)

@@ -14,12 +14,15 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 	st := w.st
 	sw.width(1, 1, 26)
 	sw.width(2, 2, 16)
-	sw.width(3, 5, 12)
-	sw.width(6, 6, 40)
-	sw.width(7, 8, 16)
-	sw.width(9, 9, 8)
+	sw.width(3, 4, 10)
+	sw.width(5, 5, 16)
+	sw.width(6, 6, 50)
+	sw.width(7, 7, 14)
+	sw.width(8, 8, 12)
+	sw.width(9, 9, 6)
 	sw.width(10, 10, 40)
-	sw.printWide()
+	sw.noGrid()
+	sw.setPrint(&pageSetup{paper: w.paper, landscape: true, fitWidth: 1, header: w.header, footer: w.footer}, 0)
 
 	r := 1
 	sw.str(1, r, "Cautions", st.heading)
@@ -69,6 +72,7 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 	}
 	for _, p := range kv {
 		sw.str(1, r, p[0], st.bold)
+		sw.merge(2, r, 10, r)
 		switch p[0] {
 		case "Rated load factor":
 			if info.RatedLoadFactor > 0 {
@@ -105,10 +109,10 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 	r++
 	for _, u := range info.Rules {
 		for i, v := range []string{u.ID, u.Value, u.Unit, u.Groups, u.When, u.Source, u.Provenance, u.Origin} {
-			sw.str(1+i, r, v, 0)
+			sw.str(1+i, r, v, st.wrap)
 		}
-		sw.set(9, r, u.Uses, 0)
-		sw.str(10, r, u.Note, 0)
+		sw.set(9, r, u.Uses, st.wrap)
+		sw.str(10, r, u.Note, st.wrap)
 		r++
 	}
 	if len(info.Rules) == 0 {

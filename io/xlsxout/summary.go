@@ -96,19 +96,12 @@ func (s *sheetWriter) chart(cell string, c *excelize.Chart) {
 	}
 }
 
-// printWide sets the sheet to print landscape, one page wide, without gridlines on screen.
-func (s *sheetWriter) printWide() {
-	if s.err != nil {
-		return
+// noGrid hides the gridlines on screen.
+func (s *sheetWriter) noGrid() {
+	if s.err == nil {
+		no := false
+		s.err = s.f.SetSheetView(s.sheet, 0, &excelize.ViewOptions{ShowGridLines: &no})
 	}
-	land, one, any0, yes, no := "landscape", 1, 0, true, false
-	if s.err = s.f.SetPageLayout(s.sheet, &excelize.PageLayoutOptions{Orientation: &land, FitToWidth: &one, FitToHeight: &any0}); s.err != nil {
-		return
-	}
-	if s.err = s.f.SetSheetProps(s.sheet, &excelize.SheetPropsOptions{FitToPage: &yes}); s.err != nil {
-		return
-	}
-	s.err = s.f.SetSheetView(s.sheet, 0, &excelize.ViewOptions{ShowGridLines: &no})
 }
 
 // quoted returns the sheet name quoted for a reference: 'Summary'.
@@ -121,23 +114,50 @@ func absRange(sheet string, c1, r1, c2, r2 int) string {
 }
 
 func title(t string) excelize.ChartTitle {
-	return excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: t, Font: &excelize.Font{Bold: true, Size: 12}}}}
+	return excelize.ChartTitle{Paragraph: []excelize.RichTextRun{{Text: t, Font: &excelize.Font{Bold: true, Size: 12, Color: inkColour}}}}
 }
+
+// inkColour is the charts' text: near black, so that axis labels and titles print
+// legibly (the default axis text is a pale grey).
+const inkColour = "1B2A3A"
+
+// axis is a chart axis with legible labels.
+func axis(a excelize.ChartAxis) excelize.ChartAxis {
+	a.Font = excelize.Font{Color: inkColour, Size: 10}
+	return a
+}
+
+func legend(pos string) excelize.ChartLegend {
+	return excelize.ChartLegend{Position: pos, Font: &excelize.Font{Color: inkColour, Size: 10}}
+}
+
+// summaryListMax caps the Summary's hoist lists so that the sheet prints on one page;
+// the Register (filtered by Status) has every hoist.
+const summaryListMax = 10
 
 func solid(c string) excelize.Fill {
 	return excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{c}}
 }
 
-// Layout of the Summary sheet: tables in columns A–H, charts stacked from column J.
+// Layout of the Summary sheet: tables in columns A–I, the three charts side by side in
+// a band under the status tiles.
 const (
-	tableCols   = 8
-	chartCol    = "J"
+	tableCols   = 9
 	rowHeightPx = 20
+	chartWidth  = 440
+	chartHeight = 260
 )
 
+// chartCols are the columns the Summary's charts are anchored at.
+var chartCols = [...]string{"A", "D", "H"}
+
 func (w *Writer) top(list []fleet.Brief) []fleet.Brief {
-	if w.opts.TopN > 0 && len(list) > w.opts.TopN {
-		return list[:w.opts.TopN]
+	n := summaryListMax
+	if w.opts.TopN > 0 && w.opts.TopN < n {
+		n = w.opts.TopN
+	}
+	if len(list) > n {
+		return list[:n]
 	}
 	return list
 }
@@ -151,8 +171,10 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	sw.width(3, 3, 30) // site names in the hoist lists
 	sw.width(4, 5, 13)
 	sw.width(6, 8, 19)
-	sw.width(9, 9, 3)
-	sw.printWide()
+	sw.width(9, 9, 48) // the worst list's Action, wrapped
+	sw.width(10, 10, 2)
+	sw.noGrid()
+	sw.setPrint(&pageSetup{paper: w.paper, landscape: false, fitWidth: 1, header: w.header, footer: w.footer}, 1)
 
 	// Title, run line, caution.
 	sw.str(1, 1, "Hoist fleet check", st.title)
@@ -193,11 +215,16 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	sw.height(r+1, 34)
 	r += 4
 
-	chartRow := 5 // next free row for a chart in column J
+	// The charts stand side by side in a band under the tiles, so that the sheet is no
+	// wider than its tables and prints on one page at a readable scale.
+	// Each chart is anchored at a column that starts past the one before (A at 0 px,
+	// D at 512 px, H at 980 px with the widths above; 440 px a chart).
+	chartRow, chartN := r, 0
+	r += chartHeight/rowHeightPx + 2
 	addChart := func(c *excelize.Chart) {
-		c.Format.OffsetX = 0
-		sw.chart(chartCol+strconv.Itoa(chartRow), c)
-		chartRow += int(c.Dimension.Height)/rowHeightPx + 2
+		c.Dimension.Width, c.Dimension.Height = chartWidth, chartHeight
+		sw.chart(chartCols[chartN%len(chartCols)]+strconv.Itoa(chartRow), c)
+		chartN++
 	}
 
 	// By site.
@@ -237,9 +264,9 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 		}
 		gap := uint(60)
 		addChart(&excelize.Chart{Type: excelize.BarStacked, Series: series, Title: title("Hoists by site and status"),
-			Legend:    excelize.ChartLegend{Position: "bottom"},
-			Dimension: excelize.ChartDimension{Width: 560, Height: uint(min(140+26*len(s.Sites), 900))},
-			XAxis:     excelize.ChartAxis{ReverseOrder: true}, YAxis: excelize.ChartAxis{MajorGridLines: true},
+			Legend:    legend("bottom"),
+			Dimension: excelize.ChartDimension{Width: 520, Height: uint(min(140+26*len(s.Sites), 600))},
+			XAxis:     axis(excelize.ChartAxis{ReverseOrder: true}), YAxis: axis(excelize.ChartAxis{MajorGridLines: true}),
 			GapWidth: &gap})
 	}
 	r++
@@ -261,39 +288,51 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 			Categories: absRange(SheetSummary, 1, first, 1, r-1), Values: absRange(SheetSummary, 2, first, 2, r-1),
 			Fill: solid(Palette[fleet.StatusInfo].Chart)}},
 		Legend:    excelize.ChartLegend{Position: "none"},
-		Dimension: excelize.ChartDimension{Width: 560, Height: 260}, YAxis: excelize.ChartAxis{MajorGridLines: true}})
+		Dimension: excelize.ChartDimension{Width: 520, Height: 240}, XAxis: axis(excelize.ChartAxis{}),
+		YAxis: axis(excelize.ChartAxis{MajorGridLines: true})})
 	r++
 
-	// Governing checks.
+	// Governing checks: what limits the rated load (a load-dependent check, a cap),
+	// apart from what blocks any rating (a load-independent check that fails: no rating
+	// whatever the load).
 	gov := s.GoverningSorted()
 	sw.str(1, r, "What limits the rated load", st.heading)
 	r++
 	sw.str(1, r, "Governing check", st.th)
-	sw.str(2, r, "Hoists", st.th)
+	sw.str(2, r, "Limits the load", st.th)
+	sw.str(3, r, "Blocks any rating", st.th)
+	sw.height(r, 30)
 	r++
 	first = r
 	for _, nc := range gov {
 		sw.str(1, r, nc.Name, 0)
-		sw.set(2, r, nc.Count, 0)
+		if d, ok := fleet.DefinitionOf(nc.Name); ok && d.NullsRating {
+			sw.set(3, r, nc.Count, 0)
+		} else {
+			sw.set(2, r, nc.Count, 0)
+		}
 		r++
 	}
 	if len(gov) == 0 {
 		sw.str(1, r, "no hoist has a rating", st.subtitle)
 		r++
 	} else {
-		addChart(&excelize.Chart{Type: excelize.Bar, Title: title("Hoists by governing check"),
-			Series: []excelize.ChartSeries{{Name: absRange(SheetSummary, 2, first-1, 2, first-1),
-				Categories: absRange(SheetSummary, 1, first, 1, r-1), Values: absRange(SheetSummary, 2, first, 2, r-1),
-				Fill: solid(Palette[fleet.StatusInfo].Chart)}},
-			Legend: excelize.ChartLegend{Position: "none"},
-			XAxis:  excelize.ChartAxis{ReverseOrder: true}, YAxis: excelize.ChartAxis{MajorGridLines: true},
-			Dimension: excelize.ChartDimension{Width: 560, Height: uint(min(100+24*len(gov), 700))}})
+		var series []excelize.ChartSeries
+		for i, c := range []string{Palette[fleet.StatusInfo].Chart, Palette[fleet.StatusFail].Chart} {
+			series = append(series, excelize.ChartSeries{Name: absRange(SheetSummary, 2+i, first-1, 2+i, first-1),
+				Categories: absRange(SheetSummary, 1, first, 1, r-1), Values: absRange(SheetSummary, 2+i, first, 2+i, r-1),
+				Fill: solid(c)})
+		}
+		addChart(&excelize.Chart{Type: excelize.BarStacked, Title: title("Hoists by governing check"), Series: series,
+			Legend: legend("bottom"),
+			XAxis:  axis(excelize.ChartAxis{ReverseOrder: true}), YAxis: axis(excelize.ChartAxis{MajorGridLines: true}),
+			Dimension: excelize.ChartDimension{Width: 520, Height: uint(min(130+24*len(gov), 560))}})
 	}
 	r++
 
 	// Worst hoists.
 	load := "Max rated load [" + w.unit + "]"
-	sw.str(1, r, "Hoists needing attention first", st.heading)
+	sw.str(1, r, "Hoists needing attention first"+more(len(w.top(s.Worst)), s.ByStatus[fleet.StatusFail]+s.ByStatus[fleet.StatusError]+s.ByStatus[fleet.StatusUnchecked]+s.ByStatus[fleet.StatusMarginal]), st.heading)
 	r++
 	for i, h := range []string{"Asset ID", "Row", "Site", "Status", "Min margin", "Worst check", "Governing check", load, "Action"} {
 		sw.str(1+i, r, h, st.th)
@@ -306,8 +345,13 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 		sw.set(5, r, b.MinMargin, st.pctPlain)
 		sw.str(6, r, b.WorstCheck, 0)
 		sw.str(7, r, b.GoverningCheck, 0)
-		sw.set(8, r, b.MaxRatedLoadKg*w.perKg, st.load)
-		sw.str(9, r, b.Action, 0)
+		sw.set(8, r, roundSig(b.MaxRatedLoadKg*w.perKg), st.load)
+		sw.str(9, r, b.Action, st.wrap)
+		// the Action wraps in its column: room for its lines (about 52 characters of
+		// Calibri 11 to a line in the 48-wide column)
+		if lines := (len([]rune(b.Action)) + 51) / 52; lines > 1 {
+			sw.height(r, float64(15*lines))
+		}
 		r++
 	}
 	if len(worst) == 0 {
@@ -317,7 +361,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	r++
 
 	// Overdue inspections.
-	sw.str(1, r, fmt.Sprintf("Overdue inspections: %d", s.OverdueCount), st.heading)
+	sw.str(1, r, fmt.Sprintf("Overdue inspections: %d%s", s.OverdueCount, more(len(w.top(s.Overdue)), s.OverdueCount)), st.heading)
 	r++
 	if len(s.Overdue) > 0 {
 		for i, h := range []string{"Asset ID", "Row", "Site", "Days overdue", "Note"} {
@@ -369,6 +413,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 			for i, h := range []string{"Asset ID", "Row", "Site", "Status now", "At proposed load"} {
 				sw.str(1+i, r, h, st.th)
 			}
+			sw.height(r, 30)
 			r++
 			for _, b := range w.top(s.Changed) {
 				w.briefRow(sw, r, b)
@@ -409,6 +454,15 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 		r++
 	}
 	return sw.err
+}
+
+// more says how many of n the list of shown leaves out: " (10 shown; all in the
+// Register)", or "" when it shows them all.
+func more(shown, n int) string {
+	if n <= shown {
+		return ""
+	}
+	return fmt.Sprintf(" (the first %d shown; the Register has all %d)", shown, n)
 }
 
 // briefRow writes Asset ID (linked to its Register row), Row and Site.

@@ -47,6 +47,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
+	"hoistfleet/io/cite"
 )
 
 // Sheet names.
@@ -65,6 +66,9 @@ type Options struct {
 	// TmpDir is where the streamed sheets are compressed to temporary files until End;
 	// "" is the system default.
 	TmpDir string
+	// Paper is the paper every sheet is set up to print on: PaperA4 or PaperLetter
+	// ("" is A4).
+	Paper string
 }
 
 // ChecksColumns are the Checks sheet's headers.
@@ -88,16 +92,21 @@ type Writer struct {
 	h        *fleet.Header
 	info     *fleet.RunInfo
 
-	unit     string  // the register's rated-load unit
-	perKg    float64 // register unit per kg
-	proposed bool    // Proposed columns are present
-	nIn      int     // register columns written as given
-	nCols    int     // all Register columns
-	regRow   int     // last Register row written
-	chkRow   int     // last Checks row written
-	chkSheet string  // the Checks sheet being written: "Checks", then "Checks 2", … when full
-	chkN     int     // how many Checks sheets so far
-	maxRows  int     // rows a sheet may hold; 0: the spreadsheet limit (tests set less)
+	paper    int    // the paperSize code
+	header   string // every page's header and footer (print.go)
+	footer   string
+	assetCol int               // the Register's Asset ID column (1 = A), 0 when it has none
+	unit     string            // the register's rated-load unit
+	perKg    float64           // register unit per kg
+	proposed bool              // Proposed columns are present
+	nIn      int               // register columns written as given
+	nCols    int               // all Register columns
+	regRow   int               // last Register row written
+	chkRow   int               // last Checks row written
+	chkSheet string            // the Checks sheet being written: "Checks", then "Checks 2", … when full
+	chkN     int               // how many Checks sheets so far
+	sources  map[string]string // check source → its short form (cite.Short)
+	maxRows  int               // rows a sheet may hold; 0: the spreadsheet limit (tests set less)
 	done     bool
 	err      error
 }
@@ -137,6 +146,21 @@ func (w *Writer) Begin(h *fleet.Header, info *fleet.RunInfo) error {
 
 func (w *Writer) begin(h *fleet.Header, info *fleet.RunInfo) error {
 	w.h, w.info = h, info
+	var err error
+	if w.paper, err = paperCode(w.opts.Paper); err != nil {
+		return w.fail("%w", err)
+	}
+	asOf, input := "", ""
+	if info != nil {
+		input = info.Input
+		if !info.AsOf.IsZero() {
+			asOf = info.AsOf.Format("2006-01-02")
+		}
+	}
+	if input == "" {
+		input = h.File
+	}
+	w.header, w.footer = headerFooter(input, asOf)
 	w.f = excelize.NewFile(excelize.Options{TmpDir: w.opts.TmpDir})
 	f := w.f
 	if err := f.SetSheetName("Sheet1", SheetSummary); err != nil {
@@ -151,7 +175,6 @@ func (w *Writer) begin(h *fleet.Header, info *fleet.RunInfo) error {
 	}
 	f.SetActiveSheet(0)
 	w.streamed = map[string]*spool{}
-	var err error
 	if w.st, err = newStyles(f); err != nil {
 		w.err = err
 		return err
@@ -222,7 +245,10 @@ func (w *Writer) beginRegister() error {
 		pane = frozenPane{xSplit: 1, ySplit: 1, topLeft: "B2", active: "bottomRight"}
 	}
 	widths := make([]float64, 0, w.nCols)
-	for _, c := range w.h.Columns {
+	for i, c := range w.h.Columns {
+		if c.Key == "asset_id" && w.assetCol == 0 {
+			w.assetCol = i + 1
+		}
 		width, ok := keyWidths[c.Key]
 		if !ok {
 			width = clamp(float64(len([]rune(c.Title)))*1.1+2, 10, 30)
@@ -238,7 +264,13 @@ func (w *Writer) beginRegister() error {
 		}
 		widths = append(widths, width)
 	}
-	sw, err := w.newStream(pane, widths)
+	rep := 0.0
+	if w.assetCol > 0 {
+		rep = widths[w.assetCol-1]
+	}
+	page := &pageSetup{paper: w.paper, landscape: true, fitWidth: pagesAcross(widths, rep, w.paper),
+		overThenDown: true, gridLines: true, header: w.header, footer: w.footer}
+	sw, err := w.newStream(pane, widths, page)
 	if err != nil {
 		return w.fail("register: %w", err)
 	}
@@ -258,8 +290,8 @@ func (w *Writer) beginRegister() error {
 }
 
 // newStream starts a streamed sheet in a spool of its own.
-func (w *Writer) newStream(pane frozenPane, widths []float64) (*sheetStream, error) {
-	sw, err := newSheetStream(w.opts.TmpDir, pane, widths)
+func (w *Writer) newStream(pane frozenPane, widths []float64, page *pageSetup) (*sheetStream, error) {
+	sw, err := newSheetStream(w.opts.TmpDir, pane, widths, page)
 	if err != nil {
 		return nil, err
 	}
@@ -269,7 +301,8 @@ func (w *Writer) newStream(pane frozenPane, widths []float64) (*sheetStream, err
 
 func (w *Writer) beginChecks(sheet string) error {
 	w.chkSheet = sheet
-	sw, err := w.newStream(frozenPane{ySplit: 1, topLeft: "A2", active: "bottomLeft"}, checksWidths)
+	page := &pageSetup{paper: w.paper, landscape: true, fitWidth: 1, gridLines: true, header: w.header, footer: w.footer}
+	sw, err := w.newStream(frozenPane{ySplit: 1, topLeft: "A2", active: "bottomLeft"}, checksWidths, page)
 	if err != nil {
 		return w.fail("checks: %w", err)
 	}
@@ -386,14 +419,14 @@ func (w *Writer) writeChecks(r *fleet.Result, site, lc string, cs []fleet.CheckR
 		sw.str(4, lc, 0)
 		sw.str(5, c.ID, 0)
 		sw.str(6, c.Status.String(), st.text[si])
-		sw.num(7, c.Demand, 0)
-		sw.num(8, c.Capacity, 0)
+		sw.result(7, c.Demand, 0)
+		sw.result(8, c.Capacity, 0)
 		sw.text(9, c.Unit, 0)
-		sw.num(10, c.Utilisation, st.pct[si])
-		sw.num(11, c.Margin, st.pctPlain)
-		sw.num(12, c.LimitRatedLoadKg, st.kg)
+		sw.result(10, c.Utilisation, st.pct[si])
+		sw.result(11, c.Margin, st.pctPlain)
+		sw.result(12, c.LimitRatedLoadKg, st.kg)
 		sw.text(13, c.Rule, 0)
-		sw.text(14, c.Source, 0)
+		sw.text(14, w.shortSource(c.Source), 0)
 		sw.text(15, c.Message, 0)
 		sw.text(16, KeyFigures(c), 0)
 		if err := sw.endRow(); err != nil {
@@ -422,8 +455,8 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 	sw.str(col+1, r.Status.String(), st.text[si])
 	sw.text(col+2, r.Action, 0)
 	sw.text(col+3, r.GoverningCheck, 0)
-	sw.num(col+4, r.MaxRatedLoadKg*w.perKg, st.load)
-	sw.num(col+5, r.MinMargin, st.pctPlain)
+	sw.result(col+4, r.MaxRatedLoadKg*w.perKg, st.load)
+	sw.result(col+5, r.MinMargin, st.pctPlain)
 	sw.text(col+6, r.WorstCheck, 0)
 	sw.text(col+7, strings.Join(r.Messages, "; "), 0)
 	sw.text(col+8, strings.Join(r.DefaultsUsed, "; "), 0)
@@ -435,7 +468,7 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 		if c := r.Check(id); c != nil {
 			ci := statusIndex(c.Status)
 			sw.str(col+1, c.Status.String(), st.text[ci])
-			sw.num(col+2, c.Utilisation, st.pct[ci])
+			sw.result(col+2, c.Utilisation, st.pct[ci])
 		}
 		col += 2
 	}
@@ -471,6 +504,38 @@ func (w *Writer) inputCell(col int, c fleet.Cell) {
 		}
 	}
 	w.reg.text(col, c.Text, 0)
+}
+
+// shortSource returns the short form of a check's source (cite.Short): the full texts
+// are in the Audit sheet. The forms are kept: a check's source takes a few values.
+func (w *Writer) shortSource(s string) string {
+	if v, ok := w.sources[s]; ok {
+		return v
+	}
+	if w.sources == nil || len(w.sources) >= 4096 {
+		w.sources = map[string]string{}
+	}
+	v := cite.Short(s)
+	w.sources[s] = v
+	return v
+}
+
+// Digits is how many significant digits the workbook gives the numbers hoistfleet
+// computes (the register's own numbers are written as given); JSON lines keep the exact
+// values.
+const Digits = 6
+
+// roundSig returns v rounded to Digits significant digits (NaN and ±Inf as they are).
+func roundSig(v float64) float64 {
+	if !finite(v) || v == 0 {
+		return v
+	}
+	var buf [32]byte
+	r, err := strconv.ParseFloat(string(strconv.AppendFloat(buf[:0], v, 'e', Digits-1, 64)), 64)
+	if err != nil { // cannot happen: strconv reads what it writes
+		return v
+	}
+	return r
 }
 
 func clamp(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
@@ -559,6 +624,9 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if _, err := f.NewSheet(SheetAudit); err != nil { // after every Checks sheet
 		return w.fail("sheet %s: %w", SheetAudit, err)
 	}
+	if err := w.setPrintTitles(); err != nil {
+		return w.fail("print titles: %w", err)
+	}
 	if err := w.writeSummary(s, info); err != nil {
 		return w.fail("summary: %w", err)
 	}
@@ -585,6 +653,32 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	}
 	if err := f.Close(); err != nil {
 		return w.fail("close: %w", err)
+	}
+	return nil
+}
+
+// setPrintTitles repeats the header row of Register and of every Checks sheet on each
+// printed page, and the Register's Asset ID column on each page across.
+func (w *Writer) setPrintTitles() error {
+	refs := []string{"$1:$1"}
+	if w.assetCol > 0 {
+		c, err := excelize.ColumnNumberToName(w.assetCol)
+		if err != nil {
+			return err
+		}
+		refs = append([]string{"$" + c + ":$" + c}, refs...)
+	}
+	if err := printTitles(w.f, SheetRegister, refs...); err != nil {
+		return err
+	}
+	for i := 1; i <= w.chkN; i++ {
+		name := SheetChecks
+		if i > 1 {
+			name += " " + strconv.Itoa(i)
+		}
+		if err := printTitles(w.f, name, "$1:$1"); err != nil {
+			return err
+		}
 	}
 	return nil
 }

@@ -218,7 +218,8 @@ func TestRegisterResults(t *testing.T) {
 			c := headerCol(t, f, SheetRegister, "Max rated load ["+tc.unit+"]")
 			raw, _ := f.GetCellValue(SheetRegister, cellName(c, 2))
 			v, err := strconv.ParseFloat(raw, 64)
-			if err != nil || !approx.Equal(v, tc.want, 0, 1e-12) { // %s
+			// six significant digits (Digits): within half a unit of the sixth, 5e-6 relative
+			if err != nil || !approx.Equal(v, tc.want, 0, 5e-6) {
 				t.Errorf("max rated load %q, want %v (%s)", raw, tc.want, tc.src)
 			}
 			if raw, _ := f.GetCellValue(SheetRegister, cellName(c, 3)); raw != "" {
