@@ -19,7 +19,7 @@ func TestResolvePaper(t *testing.T) {
 		{"", map[string]string{"LANG": "en_GB.UTF-8"}, "a4"},
 		{"", map[string]string{"LANG": "de_DE@euro"}, "a4"},
 		{"", map[string]string{"LANG": "C.UTF-8"}, "a4"},
-		{"", map[string]string{"LANG": "en_US.UTF-8", "LC_PAPER": "de_DE.UTF-8"}, "a4"}, // LC_PAPER before LANG
+		{"", map[string]string{"LANG": "en_US.UTF-8", "LC_PAPER": "de_DE.UTF-8"}, "a4"},       // LC_PAPER before LANG
 		{"", map[string]string{"LC_PAPER": "de_DE.UTF-8", "LC_ALL": "en_CA.UTF-8"}, "letter"}, // LC_ALL first
 	} {
 		got, err := resolvePaper(tc.flag, func(k string) string { return tc.env[k] })
