@@ -8,6 +8,7 @@ package main
 
 import (
 	"context"
+	"fmt"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -127,7 +128,7 @@ func TestLibreOfficeReadsRegister(t *testing.T) {
 			want := strings.TrimSpace(demoRows[r][c])
 			got := strings.TrimSpace(row[c])
 			if x, err := strconv.ParseFloat(want, 64); err == nil {
-				if y, ok := loNumber(got); !ok || !approx.Equal(y, x, 0, 1e-12) {
+				if y, ok := loNumber(got); !ok || !approx.Equal(y, x, 0, 1e-12) { // the register's own numbers, as given
 					t.Errorf("%s %s: LibreOffice reads %q, the register holds %q", id, demoHeader[c], got, want)
 				}
 			} else if got != want {
@@ -142,7 +143,8 @@ func TestLibreOfficeReadsRegister(t *testing.T) {
 		}
 		got, gok := loNumber(row[maxLoad])
 		want, wok := num(h["max_rated_load_kg"])
-		if gok != wok || (wok && !approx.Equal(got*1000, want, 1e-9, 1e-12)) {
+		// the workbook carries six significant digits (xlsxout.Digits): 5e-6 relative
+		if gok != wok || (wok && !approx.Equal(got*1000, want, 1e-9, 5e-6)) {
 			t.Errorf("%s: LibreOffice reads max rated load %q t, jsonl %v kg", id, row[maxLoad], h["max_rated_load_kg"])
 		}
 		for _, c := range h.checks() {
@@ -157,7 +159,7 @@ func TestLibreOfficeReadsRegister(t *testing.T) {
 			}
 			got, gok := loNumber(row[ui])
 			want, wok := num(c["utilisation"])
-			if gok != wok || (wok && !approx.Equal(got, want, 1e-12, 1e-12)) {
+			if gok != wok || (wok && !approx.Equal(got, want, 1e-12, 5e-6)) {
 				t.Errorf("%s %s: LibreOffice reads utilisation %q, jsonl %v", id, cid, row[ui], c["utilisation"])
 			}
 		}
@@ -218,5 +220,105 @@ func TestLibreOfficeRendersSummary(t *testing.T) {
 				t.Error(err)
 			}
 		}
+	}
+}
+
+// TestLibreOfficePrintsWorkbook prints the demo results workbook through LibreOffice on
+// each paper: every page is that paper, landscape or portrait (pdfinfo: A4 is
+// 595.3 × 841.9 pt, ISO 216; Letter 612 × 792 pt, 8.5 × 11 in), the Summary is the
+// first page and the only one, and every Register page shows Asset IDs (pdftotext per
+// page): the Asset ID column is repeated on each page across. HOISTFLEET_RENDER_DIR
+// keeps the PDFs.
+func TestLibreOfficePrintsWorkbook(t *testing.T) {
+	bin := needSoffice(t)
+	for _, tool := range []string{"pdfinfo", "pdftotext"} {
+		if _, err := exec.LookPath(tool); err != nil {
+			if os.Getenv("HOISTFLEET_REQUIRE_SOFFICE") == "1" {
+				t.Fatalf("%s is not on PATH: install poppler-utils", tool)
+			}
+			t.Skipf("%s is not on PATH", tool)
+		}
+	}
+	d := sharedDemo(t)
+	ids := map[string]bool{}
+	for _, h := range d.si {
+		ids[h.str("asset_id")] = true
+	}
+	for _, tc := range []struct {
+		paper       string
+		short, long float64 // points
+	}{{"a4", 595.3, 841.9}, {"letter", 612, 792}} {
+		t.Run(tc.paper, func(t *testing.T) {
+			dir := t.TempDir()
+			book := filepath.Join(dir, "demo-si-results.xlsx")
+			res := runCmd(t, "", "check", filepath.Join(d.dir, "demo-si.csv"), "-o", book, "--paper", tc.paper,
+				"--as-of", "2026-12-01", "-q")
+			res.mustExit(t, exitFindings, "check --paper "+tc.paper)
+			out := soffice(t, bin, "pdf", book)
+			pdf := filepath.Join(out, "demo-si-results.pdf")
+			info, err := exec.Command("pdfinfo", "-f", "1", "-l", "10000", pdf).CombinedOutput()
+			if err != nil {
+				t.Fatalf("pdfinfo: %v\n%s", err, info)
+			}
+			var pages int
+			sizes := map[int][2]float64{}
+			for _, line := range strings.Split(string(info), "\n") {
+				var p int
+				var w, h float64
+				if _, err := fmt.Sscanf(line, "Page %d size: %g x %g pts", &p, &w, &h); err == nil {
+					sizes[p] = [2]float64{w, h}
+				}
+				if strings.HasPrefix(line, "Pages:") {
+					pages, _ = strconv.Atoi(strings.TrimSpace(strings.TrimPrefix(line, "Pages:")))
+				}
+			}
+			if pages == 0 || len(sizes) != pages {
+				t.Fatalf("pdfinfo reads %d pages and %d page sizes:\n%s", pages, len(sizes), info)
+			}
+			t.Logf("%s: %d pages", tc.paper, pages)
+			register := 0
+			for p := 1; p <= pages; p++ {
+				w, h := sizes[p][0], sizes[p][1]
+				if !(approx.Equal(min(w, h), tc.short, 1, 0) && approx.Equal(max(w, h), tc.long, 1, 0)) {
+					t.Errorf("page %d is %g × %g pt, not %s", p, w, h, tc.paper)
+				}
+				txt, err := exec.Command("pdftotext", "-f", strconv.Itoa(p), "-l", strconv.Itoa(p), "-layout", pdf, "-").Output()
+				if err != nil {
+					t.Fatalf("pdftotext page %d: %v", p, err)
+				}
+				page := string(txt)
+				sheet := strings.TrimSpace(strings.SplitN(strings.TrimSpace(page), " ", 2)[0])
+				switch {
+				case p == 1 && sheet != xlsxout.SheetSummary:
+					t.Errorf("page 1 is %q, want the Summary", sheet)
+				case p == 2 && sheet == xlsxout.SheetSummary:
+					t.Errorf("the Summary runs onto page 2")
+				case p == 1 && !strings.Contains(page, "page 1 of "+strconv.Itoa(pages)):
+					t.Errorf("page 1 has no \"page 1 of %d\" footer:\n%s", pages, clip(page))
+				}
+				if sheet != xlsxout.SheetRegister {
+					continue
+				}
+				register++
+				n := 0
+				for _, f := range strings.Fields(page) {
+					if ids[f] {
+						n++
+					}
+				}
+				if n == 0 {
+					t.Errorf("Register page %d shows no Asset ID:\n%s", p, clip(page))
+				}
+			}
+			if register == 0 {
+				t.Errorf("no Register page among %d", pages)
+			}
+			if keep := os.Getenv("HOISTFLEET_RENDER_DIR"); keep != "" {
+				b, _ := os.ReadFile(pdf)
+				if err := os.WriteFile(filepath.Join(keep, "demo-si-results-"+tc.paper+".pdf"), b, 0o644); err != nil {
+					t.Error(err)
+				}
+			}
+		})
 	}
 }

@@ -7,6 +7,10 @@ import (
 	"hoistfleet/fleet"
 )
 
+// auditFit is how many characters of Calibri 11 fit a line of each rules-table column
+// (its width less a little).
+var auditFit = [...]int{24, 14, 9, 9, 14, 50, 13, 11, 6, 40}
+
 // writeAudit builds the Audit sheet: cautions first, then the run, header problems and
 // the rules in force.
 func (w *Writer) writeAudit(info *fleet.RunInfo) error {
@@ -72,7 +76,6 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 	}
 	for _, p := range kv {
 		sw.str(1, r, p[0], st.bold)
-		sw.merge(2, r, 10, r)
 		switch p[0] {
 		case "Rated load factor":
 			if info.RatedLoadFactor > 0 {
@@ -86,6 +89,7 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 			sw.set(2, r, info.Rows, 0)
 		default:
 			sw.str(2, r, p[1], 0)
+			sw.merge(2, r, 10, r)
 		}
 		r++
 	}
@@ -113,6 +117,15 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 		}
 		sw.set(9, r, u.Uses, st.wrap)
 		sw.str(10, r, u.Note, st.wrap)
+		// wrapped cells get the height of their longest text (not every reader sizes
+		// rows itself): lines of about 1.1 characters a unit of column width
+		lines := 1
+		for i, v := range []string{u.ID, u.Value, u.Unit, u.Groups, u.When, u.Source, u.Provenance, u.Origin, "", u.Note} {
+			lines = max(lines, (len([]rune(v))+auditFit[i]-1)/auditFit[i])
+		}
+		if lines > 1 {
+			sw.height(r, float64(15*lines))
+		}
 		r++
 	}
 	if len(info.Rules) == 0 {
