@@ -171,7 +171,7 @@ func between(s, from, to string) string {
 // (both workbooks take their styles from newStyles). Issue 17 rewrote them: cells
 // without references, computed numbers to six digits, short sources; before the rewrite
 // the cells were compared, as excelize reads them back, with legacyWriter's given the
-// same rounding and short sources (branch print, commit 5b6ec40), and were the same.
+// same rounding and short sources (the first printing commit of branch print, TestSameCellsAsStreamWriter there), and were the same.
 func goldenStreamed(t *testing.T, b []byte) {
 	t.Helper()
 	f := open(t, b)

@@ -104,3 +104,19 @@ func TestPagesAcross(t *testing.T) {
 		}
 	}
 }
+
+// sheetXML returns a worksheet part of a workbook by sheet name, through the workbook's
+// relationships.
+func sheetXML(t *testing.T, b []byte, sheet string) string {
+	t.Helper()
+	parts := zipParts(t, b)
+	m, err := sheetParts(func(name string) ([]byte, bool) { s, ok := parts[name]; return []byte(s), ok })
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, ok := parts[m[sheet]]
+	if !ok {
+		t.Fatalf("no part for sheet %s", sheet)
+	}
+	return s
+}
