@@ -1,7 +1,9 @@
 // Package record writes one hoist's calculation record: its inputs with the register's
 // units and in SI, every check's rule and source, the formulas with the numbers
 // substituted step by step, the results, the rating and the cautions — what an engineer
-// reads, checks by hand and signs. It writes plain text or Markdown.
+// reads, checks by hand and signs. It writes plain text or Markdown, wrapped at Width
+// columns. The content (content.go) is shared with io/pdfrecord, which lays the same
+// record out as a PDF.
 package record
 
 import (
@@ -9,12 +11,10 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"path/filepath"
 	"strconv"
 	"strings"
 
 	"hoistfleet/fleet"
-	"hoistfleet/fleet/schema"
 )
 
 // Format is the record's layout.
@@ -25,6 +25,10 @@ const (
 	Text Format = iota
 	Markdown
 )
+
+// Width is the longest line of a text or Markdown record, in characters (runes). A word
+// longer than that (a long file name) is broken where it reaches the width.
+const Width = 100
 
 // siUnit is the SI unit a quantity's Value.Num is in (fleet.Value).
 var siUnit = map[string]string{
@@ -46,7 +50,15 @@ type printer struct {
 	md bool
 }
 
-func (p *printer) line(format string, a ...any) { fmt.Fprintf(p.w, format+"\n", a...) }
+// line prints a formatted text, each of its lines wrapped at Width (Wrap).
+func (p *printer) line(format string, a ...any) {
+	for _, l := range strings.Split(fmt.Sprintf(format, a...), "\n") {
+		for _, w := range Wrap(l, Width) {
+			p.w.WriteString(w)
+			p.w.WriteByte('\n')
+		}
+	}
+}
 
 func (p *printer) heading(level int, s string) {
 	if p.md {
@@ -58,51 +70,180 @@ func (p *printer) heading(level int, s string) {
 	if level > 1 {
 		ch = "-"
 	}
-	p.line("%s\n", strings.Repeat(ch, len([]rune(s))))
+	p.line("%s\n", strings.Repeat(ch, min(Width, len([]rune(s)))))
 }
 
+// table prints a table. In text its columns are padded and, when the table would be wider
+// than Width, its widest cells wrapped within their column. In Markdown it is a pipe
+// table, or, when a row would be wider than Width, the text layout in a code block.
 func (p *printer) table(header []string, rows [][]string) {
 	if p.md {
-		p.line("| %s |", strings.Join(header, " | "))
+		lines := []string{"| " + strings.Join(header, " | ") + " |"}
 		seps := make([]string, len(header))
 		for i := range seps {
 			seps[i] = "---"
 		}
-		p.line("|%s|", strings.Join(seps, "|"))
+		lines = append(lines, "|"+strings.Join(seps, "|")+"|")
+		fits := true
 		for _, r := range rows {
 			esc := make([]string, len(r))
 			for i, c := range r {
 				esc[i] = strings.ReplaceAll(c, "|", "\\|")
 			}
-			p.line("| %s |", strings.Join(esc, " | "))
+			l := "| " + strings.Join(esc, " | ") + " |"
+			fits = fits && len([]rune(l)) <= Width
+			lines = append(lines, l)
 		}
-		p.line("")
+		if fits {
+			for _, l := range lines {
+				p.line("%s", l)
+			}
+			p.line("")
+			return
+		}
+		p.line("```")
+		for _, l := range TextTable(header, rows, Width) {
+			p.line("%s", l)
+		}
+		p.line("```\n")
 		return
 	}
+	for _, l := range TextTable(header, rows, Width) {
+		p.line("%s", l)
+	}
+	p.line("")
+}
+
+// TextTable lays a table out in columns two spaces apart, indented two, no line wider
+// than width: when the columns do not fit, the widest column is narrowed (to no less
+// than 12 characters) until they do, and its cells wrap within it.
+func TextTable(header []string, rows [][]string, width int) []string {
+	all := append([][]string{header}, rows...)
 	widths := make([]int, len(header))
-	for _, r := range append([][]string{header}, rows...) {
+	for _, r := range all {
 		for i, c := range r {
 			if n := len([]rune(c)); i < len(widths) && n > widths[i] {
 				widths[i] = n
 			}
 		}
 	}
-	pr := func(r []string) {
-		var b strings.Builder
-		for i, c := range r {
-			b.WriteString("  ")
-			b.WriteString(c)
-			if i < len(r)-1 {
-				b.WriteString(strings.Repeat(" ", widths[i]-len([]rune(c))))
+	total := func() int {
+		t := 0
+		for _, w := range widths {
+			t += w + 2
+		}
+		return t
+	}
+	for total() > width {
+		wi := 0
+		for i, w := range widths {
+			if w >= widths[wi] {
+				wi = i
 			}
 		}
-		p.line("%s", strings.TrimRight(b.String(), " "))
+		if widths[wi] <= 12 {
+			break
+		}
+		widths[wi] -= total() - width
+		widths[wi] = max(widths[wi], 12)
 	}
-	pr(header)
-	for _, r := range rows {
-		pr(r)
+	var out []string
+	for _, r := range all {
+		cells := make([][]string, len(r))
+		n := 1
+		for i, c := range r {
+			if i < len(widths) {
+				cells[i] = Wrap(c, widths[i])
+			} else {
+				cells[i] = []string{c}
+			}
+			n = max(n, len(cells[i]))
+		}
+		for k := 0; k < n; k++ {
+			var b strings.Builder
+			for i := range r {
+				c := ""
+				if k < len(cells[i]) {
+					c = cells[i][k]
+				}
+				b.WriteString("  ")
+				b.WriteString(c)
+				if i < len(r)-1 && i < len(widths) {
+					b.WriteString(strings.Repeat(" ", max(0, widths[i]-len([]rune(c)))))
+				}
+			}
+			out = append(out, strings.TrimRight(b.String(), " "))
+		}
 	}
-	p.line("")
+	return out
+}
+
+// Wrap breaks a line into lines of at most width runes, at spaces. A continuation line
+// keeps the line's indentation and the list or quote marker it starts with ("- ", "= ",
+// "> ": the text lines up after the marker, a quote's continuation is quoted again); an
+// indented line without a marker continues four further in. A word longer than the room
+// left is broken at the width. A line that fits is returned as it is.
+func Wrap(line string, width int) []string {
+	rs := []rune(line)
+	if len(rs) <= width {
+		return []string{line}
+	}
+	lead := len(rs) - len([]rune(strings.TrimLeft(line, " ")))
+	cont := strings.Repeat(" ", lead)
+	rest := string(rs[lead:])
+	switch {
+	case strings.HasPrefix(rest, "> "):
+		cont += "> "
+	case strings.HasPrefix(rest, "- "), strings.HasPrefix(rest, "= "):
+		cont += "  "
+	case lead > 0:
+		cont += "    "
+	}
+	if len([]rune(cont)) > width/2 {
+		cont = ""
+	}
+	var out []string
+	var cur []rune
+	start := 0 // length of the current line's indentation and marker
+	first := true
+	prefix := []rune(strings.Repeat(" ", lead))
+	for _, word := range strings.Fields(rest) {
+		w := []rune(word)
+		for {
+			if cur == nil {
+				cur = append([]rune(nil), prefix...)
+				if !first {
+					cur = []rune(cont)
+				}
+				start = len(cur)
+			}
+			room := width - len(cur)
+			if len(cur) > start {
+				room-- // the space before the word
+			}
+			if len(w) <= room {
+				if len(cur) > start {
+					cur = append(cur, ' ')
+				}
+				cur = append(cur, w...)
+				break
+			}
+			if len(cur) > start {
+				out = append(out, string(cur))
+				cur, first = nil, false
+				continue
+			}
+			// A word longer than the line: break it.
+			cur = append(cur, w[:room]...)
+			w = w[room:]
+			out = append(out, string(cur))
+			cur, first = nil, false
+		}
+	}
+	if len(cur) > start {
+		out = append(out, string(cur))
+	}
+	return out
 }
 
 func (p *printer) bullets(items []string) {
@@ -140,72 +281,22 @@ func Num(v float64) string {
 	return strconv.FormatFloat(v, 'g', 4, 64)
 }
 
-func kg(v float64) string {
-	if math.IsNaN(v) {
-		return "—"
-	}
-	return strconv.FormatFloat(v, 'f', 1, 64) + " kg"
-}
-
 func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) {
-	a := r.Asset
-	id := a.ID
+	id := r.Asset.ID
 	if id == "" {
 		id = "(no asset id)"
 	}
 	p.heading(1, fmt.Sprintf("Calculation record: hoist %s", id))
-	sheet := ""
-	if h.Sheet != "" && h.Sheet != filepath.Base(info.Input) { // a CSV register has no sheet
-		sheet = ", sheet " + h.Sheet
-	}
-	p.line("Register %s%s, row %d. Rules: %s%s. As of %s. %s %s.", info.Input, sheet, a.Row, info.Profile,
-		userRules(info), info.AsOf.Format("2006-01-02"), info.Tool, info.Version)
+	p.line("%s", Provenance(r, h, info))
 	p.line("")
-	p.line("Status: %s. Action: %s", r.Status, actionText(r.Action))
-	if r.Proposed != nil {
-		p.line("At the proposed rated load: %s. Action: %s", r.Proposed.Status, actionText(r.Proposed.Action))
+	for _, l := range Action(r) {
+		p.line("%s", l)
 	}
 	p.line("")
 	p.caution()
 
 	p.heading(2, "1. Inputs")
-	var rows [][]string
-	for i, col := range h.Columns {
-		given := ""
-		if i < len(a.Cells) {
-			given = a.Cells[i].Text
-			if a.Cells[i].IsDate && !a.Cells[i].Date.IsZero() {
-				given = a.Cells[i].Date.Format("2006-01-02")
-			}
-		}
-		si := ""
-		if col.Key != "" {
-			v := a.Get(col.Key)
-			c, _ := schema.ColumnByKey(col.Key)
-			switch {
-			case v.State == fleet.Bad:
-				si = "unreadable (see messages)"
-			case v.State != fleet.OK:
-			case c.Quantity == "time" && c.Unit == "h":
-				// Hours columns are shown in hours: the checks that use them work in h.
-				si = Num(v.Num/3600) + " h"
-			case c.Kind == schema.Number || c.Kind == schema.Integer:
-				si = Num(v.Num)
-				if u := siUnit[c.Quantity]; u != "" && u != "1" {
-					si += " " + u
-				}
-			case c.Kind == schema.Date:
-				si = v.Date.Format("2006-01-02")
-			default:
-				si = v.Text
-			}
-		}
-		if given == "" && si == "" {
-			continue
-		}
-		rows = append(rows, []string{col.Title, given, si})
-	}
-	p.table([]string{"Register column", "Given", "Read as (SI)"}, rows)
+	p.table(InputHeader, InputRows(r, h))
 	if len(r.DefaultsUsed) > 0 {
 		p.line("Defaults applied (assumptions, not register data):")
 		p.bullets(r.DefaultsUsed)
@@ -219,33 +310,21 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 		p.bullets(r.Messages)
 	}
 
-	p.heading(2, fmt.Sprintf("2. Checks at the rated load %s%s", kg(r.RatedLoadKg), inRegisterUnit(r.RatedLoadKg, h)))
+	p.heading(2, fmt.Sprintf("2. Checks at the rated load %s%s", Kg(r.RatedLoadKg), RegisterUnit(r.RatedLoadKg, h)))
 	for i := range r.Checks {
 		p.check(i+1, &r.Checks[i])
 	}
 
 	p.heading(2, "3. Verdict and rating")
-	p.line("Overall status: %s. Smallest margin: %s (%s).", r.Status, pct(r.MinMargin), orDash(r.WorstCheck))
-	if !math.IsNaN(r.MaxRatedLoadKg) {
-		p.line("Maximum permissible rated load on the data given: %s%s, governed by %s.", kg(r.MaxRatedLoadKg), inRegisterUnit(r.MaxRatedLoadKg, h), r.GoverningCheck)
-	} else {
-		p.line("Maximum permissible rated load: not given.")
+	for _, l := range Verdict(r, h) {
+		p.line("%s", l)
 	}
-	if r.Rating.Note != "" {
-		p.line("%s.", strings.TrimSuffix(r.Rating.Note, "."))
-	}
-	var lim [][]string
-	for _, c := range r.Checks {
-		if c.LoadDependent {
-			lim = append(lim, []string{c.ID, c.Status.String(), kg(c.LimitRatedLoadKg)})
-		}
-	}
-	if len(lim) > 0 {
+	if lim := LimitRows(r); len(lim) > 0 {
 		p.line("")
 		p.table([]string{"Load-dependent check", "Status", "Rated load at its limit"}, lim)
 	}
 	if r.Proposed != nil {
-		p.heading(2, fmt.Sprintf("4. Re-rating to %s", kg(r.Proposed.RatedLoadKg)))
+		p.heading(2, fmt.Sprintf("4. Re-rating to %s", Kg(r.Proposed.RatedLoadKg)))
 		var rr [][]string
 		for i, c := range r.Proposed.Checks {
 			old := r.Checks[i]
@@ -262,21 +341,13 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 }
 
 func (p *printer) check(n int, c *fleet.CheckResult) {
-	title := fmt.Sprintf("2.%d %s: %s", n, c.ID, c.Status)
-	if !math.IsNaN(c.Utilisation) {
-		title += fmt.Sprintf(" (utilisation %s, margin %s)", Num(c.Utilisation), pct(c.Margin))
-	}
-	p.heading(3, title)
+	p.heading(3, fmt.Sprintf("2.%d %s", n, CheckTitle(c)))
 	item := "" // Markdown joins consecutive lines into one paragraph: make them items
 	if p.md {
 		item = "- "
 	}
-	if c.Rule != "" {
-		p.line("%sRule: %s", item, c.Rule)
-		p.line("%sSource: %s", item, c.Source)
-	}
-	if c.Message != "" {
-		p.line("%sNote: %s", item, c.Message)
+	for _, l := range CheckBasis(c) {
+		p.line("%s%s", item, l)
 	}
 	if len(c.Steps) > 0 {
 		p.line("")
@@ -284,49 +355,24 @@ func (p *printer) check(n int, c *fleet.CheckResult) {
 			p.line("```")
 		}
 		for _, s := range c.Steps {
-			unit := ""
-			if s.Unit != "" && s.Unit != "1" {
-				unit = " " + s.Unit
+			for k, l := range StepLines(s) {
+				if k == 0 {
+					p.line("  %s", l)
+				} else {
+					p.line("      %s", l)
+				}
 			}
-			lhs := s.Symbol + " = " + s.Formula
-			if math.IsNaN(s.Value) && s.Numbers != "" {
-				// A step whose result is not a number (a date) carries it in Numbers.
-				p.line("  %s\n      = %s", lhs, s.Numbers)
-				continue
-			}
-			if s.Numbers != "" && s.Numbers != s.Formula {
-				lhs += "\n      = " + s.Numbers
-			}
-			p.line("  %s\n      = %s%s", lhs, Num(s.Value), unit)
 		}
 		if p.md {
 			p.line("```")
 		}
 	}
-	if !math.IsNaN(c.Demand) || !math.IsNaN(c.Capacity) {
+	res := CheckResults(c)
+	if len(res) > 0 && strings.HasPrefix(res[0], "Result: ") {
 		p.line("")
-		p.line("Result: demand %s, capacity %s [%s].", Num(c.Demand), Num(c.Capacity), c.Unit)
 	}
-	if c.LoadDependent && !math.IsNaN(c.LimitRatedLoadKg) {
-		if def, _ := fleet.DefinitionOf(c.ID); c.Status == fleet.StatusInfo && def.InfoLimit != "" {
-			p.line("%s: %s.", def.InfoLimit, kg(c.LimitRatedLoadKg))
-		} else {
-			p.line("Rated load at which this check reaches its limit: %s.", kg(c.LimitRatedLoadKg))
-		}
-	}
-	var figs []string
-	for _, f := range c.Figures {
-		v := f.Text
-		if v == "" {
-			v = Num(f.Value)
-			if f.Unit != "" && f.Unit != "1" {
-				v += " " + f.Unit
-			}
-		}
-		figs = append(figs, f.Name+" = "+v)
-	}
-	if len(figs) > 0 {
-		p.line("Figures: %s.", strings.Join(figs, "; "))
+	for _, l := range res {
+		p.line("%s", l)
 	}
 	p.line("")
 }
@@ -337,44 +383,4 @@ func (p *printer) caution() {
 		return
 	}
 	p.line("CAUTION: %s\n", fleet.Caution)
-}
-
-// inRegisterUnit is " (2.5 t)": a mass in the unit of the register's rated-load column,
-// or "" when that unit is kg or unknown.
-func inRegisterUnit(kgValue float64, h *fleet.Header) string {
-	for _, c := range h.Columns {
-		if c.Key == "rated_load" && c.Unit != "" && c.Unit != "kg" && c.Factor > 0 {
-			return " (" + Num(kgValue/c.Factor) + " " + c.Unit + ")"
-		}
-	}
-	return ""
-}
-
-func userRules(info *fleet.RunInfo) string {
-	if info.RulesFile == "" {
-		return " (built-in)"
-	}
-	return " overridden by " + info.RulesFile
-}
-
-func pct(m float64) string {
-	if math.IsNaN(m) {
-		return "—"
-	}
-	return strconv.FormatFloat(m*100, 'f', 1, 64) + " %"
-}
-
-func orDash(s string) string {
-	if s == "" {
-		return "—"
-	}
-	return s
-}
-
-// actionText is a hoist's action for the record, "none." when it has none.
-func actionText(a string) string {
-	if a == "" {
-		return "none."
-	}
-	return strings.TrimSuffix(a, ".") + "."
 }
