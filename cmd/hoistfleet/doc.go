@@ -71,12 +71,19 @@ Examples:
 
 Writes one hoist's calculation record: inputs as given and in SI, defaults applied, each
 check's rule and source, the formulas with numbers substituted, results, the rating and
-the cautions, ready to be checked and signed.
+the cautions, ready to be checked and signed. --format text (default) and md wrap at
+100 columns. --format pdf writes a record to sign: a title block with the register's
+SHA-256 and blank prepared / checked / approved fields, a table of the checks with
+utilisation bars, a rating diagram (each load-dependent check's utilisation against the
+rated load), the emergency stop and the runaway plotted, the working, at a proposed load
+the working again with what would have to change, and what the record does not check.
 
 Examples:
   hoistfleet explain hoists.xlsx --asset H-014
   hoistfleet explain hoists.xlsx --asset H-014 --format md -o H-014.md
+  hoistfleet explain hoists.xlsx --asset H-014 --format pdf -o H-014.pdf
   hoistfleet explain hoists.xlsx --all -o records/
+  hoistfleet explain hoists.xlsx --all --format pdf -o records/
 `,
 	"template": `hoistfleet template [-o FILE] [--units si|us]
 

@@ -244,7 +244,8 @@ func TestExplain(t *testing.T) {
 		if strings.TrimSpace(r.err) != "" {
 			t.Errorf("explain --format %s wrote on stderr: %q", format, r.err)
 		}
-		if !strings.Contains(normSpace(r.out), normSpace(fleet.Caution)) {
+		// Wrapped at 100 columns; a Markdown quote continues on lines starting "> ".
+		if !strings.Contains(normSpace(strings.ReplaceAll(r.out, "\n> ", "\n")), normSpace(fleet.Caution)) {
 			t.Errorf("explain --format %s: no caution", format)
 		}
 		for _, w := range wants {

@@ -2,6 +2,8 @@ package main
 
 import (
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -12,6 +14,7 @@ import (
 	"time"
 
 	"hoistfleet/fleet"
+	"hoistfleet/io/pdfrecord"
 	"hoistfleet/io/record"
 )
 
@@ -27,7 +30,7 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	fs.StringVar(&asset, "asset", "", "asset id of the hoist to explain")
 	fs.BoolVar(&all, "all", false, "write the record of every hoist, one file each, into the folder given by -o")
 	fs.StringVarP(&out, "output", "o", "", "with --all: the folder for the records; otherwise a file (default standard output)")
-	fs.StringVar(&format, "format", "text", "text or md (Markdown)")
+	fs.StringVar(&format, "format", "text", "text, md (Markdown) or pdf (a record to sign, with plots; needs -o FILE.pdf or -o DIR with --all)")
 	cfg.register(fs)
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -36,19 +39,24 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 		return usagef("explain needs one register file, got %d arguments", fs.NArg())
 	}
 	var f record.Format
-	ext := ".txt"
+	ext, pdf := ".txt", false
 	switch format {
 	case "text", "txt":
 	case "md", "markdown":
 		f, ext = record.Markdown, ".md"
+	case "pdf":
+		ext, pdf = ".pdf", true
 	default:
-		return usagef("--format %q: want text or md", format)
+		return usagef("--format %q: want text, md or pdf", format)
 	}
 	if all == (asset != "") {
 		return usagef("explain needs --asset ID or --all (one of them)")
 	}
 	if all && out == "" {
 		return usagef("explain --all needs -o DIR, the folder for the records")
+	}
+	if pdf && out == "" {
+		return usagef("explain --format pdf writes a PDF: give -o FILE.pdf (-o - for standard output)")
 	}
 	chk, rules, userFiles, asOf, err := cfg.checkerRecord(true)
 	if err != nil {
@@ -63,6 +71,18 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	info := &fleet.RunInfo{Tool: "hoistfleet", Version: version, Input: fs.Arg(0), Sheet: h.Sheet,
 		Profile: rules.Profile, RulesFile: userFiles, AsOf: asOf, Started: time.Now(), MarginalBand: cfg.marginal,
 		Cautions: []string{fleet.Caution}}
+	// The record names the register by its SHA-256: a file is hashed first; standard
+	// input is hashed as it is read, so its records are written once it has been read.
+	var pending []*fleet.Result
+	deferWrites := fs.Arg(0) == "-"
+	if !deferWrites {
+		sum, err := fileSHA256(fs.Arg(0))
+		if err != nil {
+			return err
+		}
+		info.InputSHA256 = sum
+	}
+	w := recordWriter{st: st, h: h, info: info, format: f, pdf: pdf, chk: chk}
 	if all {
 		if err := os.MkdirAll(out, 0o755); err != nil {
 			return fmt.Errorf("explain: %w", err)
@@ -85,15 +105,20 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 		}
 		found++
 		r := chk.Check(a)
-		if !all {
-			if err := writeRecord(out, st, r, h, info, f); err != nil {
-				return err
-			}
+		if deferWrites {
+			pending = append(pending, r)
 			continue
 		}
-		name := filepath.Join(out, recordFileName(a)+ext)
-		if err := writeRecord(name, st, r, h, info, f); err != nil {
+		if err := w.write(r, out, all, ext); err != nil {
 			return err
+		}
+	}
+	if deferWrites {
+		info.InputSHA256 = in.sha256()
+		for _, r := range pending {
+			if err := w.write(r, out, all, ext); err != nil {
+				return err
+			}
 		}
 	}
 	switch {
@@ -118,17 +143,53 @@ func recordFileName(a *fleet.Asset) string {
 	return fmt.Sprintf("row-%04d_%s", a.Row, id)
 }
 
-func writeRecord(path string, st Streams, r *fleet.Result, h *fleet.Header, info *fleet.RunInfo, f record.Format) error {
-	if path == "" || path == "-" {
-		return record.Write(st.Out, r, h, info, f)
+// recordWriter writes calculation records in one format.
+type recordWriter struct {
+	st     Streams
+	h      *fleet.Header
+	info   *fleet.RunInfo
+	format record.Format
+	pdf    bool
+	chk    *fleet.Checker
+}
+
+// write writes r's record: to out (a file, or standard output for "" and "-"), or with
+// all into the folder out, named after its row and asset id.
+func (w recordWriter) write(r *fleet.Result, out string, all bool, ext string) error {
+	path := out
+	if all {
+		path = filepath.Join(out, recordFileName(r.Asset)+ext)
 	}
-	o, err := createOutput(path, st)
+	emit := func(dst io.Writer) error {
+		if w.pdf {
+			return pdfrecord.Write(dst, r, w.h, w.info, w.chk)
+		}
+		return record.Write(dst, r, w.h, w.info, w.format)
+	}
+	if path == "" || path == "-" {
+		return emit(w.st.Out)
+	}
+	o, err := createOutput(path, w.st)
 	if err != nil {
 		return err
 	}
-	if err := record.Write(o.w, r, h, info, f); err != nil {
+	if err := emit(o.w); err != nil {
 		o.abort()
 		return err
 	}
 	return o.commit()
+}
+
+// fileSHA256 is the hex SHA-256 of a file's bytes.
+func fileSHA256(name string) (string, error) {
+	f, err := os.Open(name)
+	if err != nil {
+		return "", fmt.Errorf("reading the register: %w", err)
+	}
+	defer f.Close()
+	hs := sha256.New()
+	if _, err := io.Copy(hs, f); err != nil {
+		return "", fmt.Errorf("reading the register %s: %w", name, err)
+	}
+	return hex.EncodeToString(hs.Sum(nil)), nil
 }
