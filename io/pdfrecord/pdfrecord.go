@@ -25,20 +25,6 @@ import (
 	"hoistfleet/io/record"
 )
 
-// NotChecked lists what a calculation record does not check: the parts of a lifting
-// installation and the conditions that no check of hoistfleet looks at.
-var NotChecked = []string{
-	"the hook, its latch and the hook block (bottom block), other than its mass and the Component WLL where given",
-	"slings, spreaders and lifting accessories below the hook",
-	"rope terminations and anchorages, equaliser sheaves and their pins",
-	"the trolley, its wheels and travel drives; the crane's bridge, girders, jib or other structure, and its fatigue",
-	"the runway, rails, end stops, supports and foundations",
-	"electrical controls, wiring, protective devices, emergency stop circuits and limit switches, except where a check above says otherwise",
-	"bearings, shafts, couplings and the gearbox beyond the torques given above (the shaft load is given for their own check)",
-	"the condition of any part other than the rope's measured diameter and broken wires: corrosion, wear, deformation, cracks",
-	"wind, weather, temperature, hazardous areas and other conditions of use",
-}
-
 // Write writes the PDF record of r to w. h is the register's header, info the run's
 // settings (InputSHA256 as known), ev evaluates the hoist at other loads for the rating
 // diagram (a fleet.Checker; nil leaves the diagram out). It fails, writing nothing, when
@@ -334,8 +320,8 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo, 
 	}
 
 	p.heading(2, fmt.Sprintf("%d. What this record does not check", next))
-	p.para(p.sans, bodyPt, "The checks above are of the hoist mechanism on the data given. This record does not check:")
-	for _, s := range NotChecked {
+	p.para(p.sans, bodyPt, record.NotCheckedIntro)
+	for _, s := range record.NotChecked {
 		p.indented(p.sans, bodyPt, 4, "• "+s)
 	}
 	p.gap(3)

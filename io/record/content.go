@@ -234,3 +234,20 @@ func orDash(s string) string {
 	}
 	return s
 }
+
+// NotChecked lists what a calculation record does not check: the parts of a lifting
+// installation and the conditions that no check of hoistfleet looks at.
+var NotChecked = []string{
+	"the hook, its latch and the hook block (bottom block), other than its mass and the Component WLL where given",
+	"slings, spreaders and lifting accessories below the hook",
+	"rope terminations and anchorages, equaliser sheaves and their pins",
+	"the trolley, its wheels and travel drives; the crane's bridge, girders, jib or other structure, and its fatigue",
+	"the runway, rails, end stops, supports and foundations",
+	"electrical controls, wiring, protective devices, emergency stop circuits and limit switches, except where a check above says otherwise",
+	"bearings, shafts, couplings and the gearbox beyond the torques given above (the shaft load is given for their own check)",
+	"the condition of any part other than the rope's measured diameter and broken wires: corrosion, wear, deformation, cracks",
+	"wind, weather, temperature, hazardous areas and other conditions of use",
+}
+
+// NotCheckedIntro introduces NotChecked.
+const NotCheckedIntro = "The checks above are of the hoist mechanism on the data given. This record does not check:"

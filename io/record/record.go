@@ -334,8 +334,19 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) 
 		p.line("Overall at the proposed load: %s (now %s).", r.Proposed.Status, r.Status)
 		p.line("")
 	}
+	p.heading(2, "What this record does not check")
+	p.line("%s", NotCheckedIntro)
+	p.bullets(NotChecked)
 	p.heading(2, "Sign-off")
-	p.line("Checked by: ______________________   Date: ____________   Signature: ______________")
+	p.line("Revision: ______")
+	p.line("")
+	item := ""
+	if p.md { // consecutive Markdown lines join into one paragraph: make them items
+		item = "- "
+	}
+	for _, role := range []string{"Prepared", "Checked", "Approved"} {
+		p.line("%s%-12s ______________________   Signature: ______________________   Date: ____________", item, role+" by:")
+	}
 	p.line("")
 	p.caution()
 }

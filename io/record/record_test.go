@@ -66,7 +66,8 @@ func TestWriteRecord(t *testing.T) {
 			t.Errorf("format %d: record lacks the caution", f)
 		}
 		for _, want := range []string{"ISO 4308-1 [seen]", "5000 × 9.80665", "49033", "6350.2 kg", "rope-design-factor",
-			"hook block mass 0 kg", "Rated load [t]", "5000 kg", "Checked by"} {
+			"hook block mass 0 kg", "Rated load [t]", "5000 kg", "Prepared by:", "Checked by:", "Approved by:",
+			"does not check", "the runway, rails"} {
 			if !strings.Contains(out, want) && !strings.Contains(joined, want) {
 				t.Errorf("format %d: record lacks %q", f, want)
 			}
