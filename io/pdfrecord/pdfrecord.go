@@ -20,6 +20,7 @@ import (
 	"codeberg.org/go-pdf/fpdf"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
 
 	"hoistfleet/fleet"
 	"hoistfleet/io/record"
@@ -70,10 +71,11 @@ type printer struct {
 	err              error
 	images           int
 	noPlots          bool
+	plotFonts        map[string]bool // the plots' font families registered with pdf
 }
 
 func newPrinter(info *fleet.RunInfo) (*printer, error) {
-	p := &printer{}
+	p := &printer{plotFonts: map[string]bool{}}
 	var err error
 	if p.sans, err = newFace("dejavu", "", sansTTF); err != nil {
 		return nil, err
@@ -584,7 +586,7 @@ func (p *printer) plots(r *fleet.Result, h *fleet.Header, ev Evaluator) {
 			marks = append(marks, mark{at: sp.T[1], label: "brake set", col: colInfo})
 		}
 		title := "Emergency stop while lowering"
-		if pl, err := speedPlot(title, sp, marks); err == nil {
+		if pl, err := speedPlot(title, sp, marks, false); err == nil {
 			p.imageAt(pl, margin, y, half, 68)
 		} else {
 			p.setErr(err)
@@ -599,7 +601,7 @@ func (p *printer) plots(r *fleet.Result, h *fleet.Header, ev Evaluator) {
 		if rp.Note == "" {
 			rp.Note = "brake released, motor off"
 		}
-		if pl, err := speedPlot("Runaway from rest", rp, marks); err == nil {
+		if pl, err := speedPlot("Runaway from rest", rp, marks, true); err == nil {
 			p.imageAt(pl, margin+half+4, y, half, 68)
 		} else {
 			p.setErr(err)
@@ -625,21 +627,15 @@ func (p *printer) image(pl *plot.Plot, w, h float64) {
 	p.pdf.SetXY(margin, y+h+1)
 }
 
-// imageAt draws a plot as a PNG of w × h mm at (x, y).
+// imageAt draws a plot of w × h mm at (x, y), as vector graphics (canvas).
 func (p *printer) imageAt(pl *plot.Plot, x, y, w, h float64) {
 	if p.noPlots {
 		return
 	}
-	b, err := pngOf(pl, vg.Length(w)*vg.Millimeter, vg.Length(h)*vg.Millimeter)
-	if err != nil {
-		p.setErr(err)
-		return
-	}
-	p.images++
-	name := fmt.Sprintf("plot%d", p.images)
-	opt := fpdf.ImageOptions{ImageType: "PNG", ReadDpi: false}
-	p.pdf.RegisterImageOptionsReader(name, opt, bytes.NewReader(b))
-	p.pdf.ImageOptions(name, x, y, w, h, false, opt, 0, "")
+	c := newCanvas(p.pdf, x, y, vg.Length(w)*vg.Millimeter, vg.Length(h)*vg.Millimeter, p.plotFonts, &p.images)
+	pl.Draw(draw.New(c))
+	p.setErr(c.End())
+	p.font(p.sans, bodyPt)
 }
 
 func orDash(s string) string {

@@ -1,10 +1,8 @@
 package pdfrecord
 
 import (
-	"bytes"
 	"fmt"
 	"image/color"
-	"image/png"
 	"math"
 	"slices"
 
@@ -12,8 +10,6 @@ import (
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
 
 	"hoistfleet/calc"
 	"hoistfleet/fleet"
@@ -246,24 +242,6 @@ var (
 	}
 )
 
-// plotDPI is the resolution the plots are drawn at: sharp in print at their size (a
-// 1 pt line is 2 pixels wide).
-const plotDPI = 150
-
-// pngOf draws p at w × h into a PNG. The image is opaque (white background), so it is
-// written as RGB and goes into the PDF without an alpha mask; the fastest compression
-// is used (drawing and compressing are most of a record's time).
-func pngOf(p *plot.Plot, w, h vg.Length) ([]byte, error) {
-	c := vgimg.NewWith(vgimg.UseWH(w, h), vgimg.UseDPI(plotDPI))
-	p.Draw(draw.New(c))
-	var b bytes.Buffer
-	enc := png.Encoder{CompressionLevel: png.BestSpeed}
-	if err := enc.Encode(&b, c.Image()); err != nil {
-		return nil, fmt.Errorf("pdfrecord: drawing a plot: %w", err)
-	}
-	return b.Bytes(), nil
-}
-
 func newPlot(title, x, y string) *plot.Plot {
 	p := plot.New()
 	p.Title.Text = title
@@ -275,7 +253,9 @@ func newPlot(title, x, y string) *plot.Plot {
 		ax.Tick.Label.Font.Size = vg.Points(8)
 		ax.Tick.Label.Color = colInk
 	}
-	p.Add(plotter.NewGrid())
+	grid := plotter.NewGrid()
+	grid.Vertical.Color, grid.Horizontal.Color = color.Gray{Y: 0xd0}, color.Gray{Y: 0xd0}
+	p.Add(grid)
 	p.Legend.TextStyle.Font.Size = vg.Points(8)
 	for _, f := range []*font.Font{&p.Title.TextStyle.Font, &p.X.Label.TextStyle.Font, &p.Y.Label.TextStyle.Font,
 		&p.X.Tick.Label.Font, &p.Y.Tick.Label.Font, &p.Legend.TextStyle.Font} {
@@ -394,8 +374,9 @@ func ratingPlot(d ratingDiagram, unit string, perUnit float64) (*plot.Plot, erro
 	return p, nil
 }
 
-// speedPlot draws a speed–time profile with its annotations.
-func speedPlot(title string, sp speedProfile, marks []mark) (*plot.Plot, error) {
+// speedPlot draws a speed–time profile with its annotations; its note goes in the top
+// left corner (noteLeft) or the top middle, where the line is not.
+func speedPlot(title string, sp speedProfile, marks []mark, noteLeft bool) (*plot.Plot, error) {
 	p := newPlot(title, "time [s]", "speed [m/s]")
 	pts := make(plotter.XYs, len(sp.T))
 	vmax := 0.0
@@ -447,12 +428,16 @@ func speedPlot(title string, sp speedProfile, marks []mark) (*plot.Plot, error) 
 			return nil, err
 		}
 	}
+	noteX := 0.45
+	if noteLeft {
+		noteX = 0.04
+	}
 	if sp.Note != "" || !math.IsNaN(sp.Distance) {
 		text := sp.Note
 		if !math.IsNaN(sp.Distance) && sp.Note == "" {
 			text = fmt.Sprintf("distance (shaded) %.4g m", sp.Distance)
 		}
-		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: xmax * 0.3, Y: vmax * 0.1}}, Labels: []string{text}})
+		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: plotter.XYs{{X: noteX * xmax, Y: vmax * 1.15}}, Labels: []string{text}})
 		if err != nil {
 			return nil, err
 		}
