@@ -31,20 +31,9 @@ import (
 // diagram (a fleet.Checker; nil leaves the diagram out). It fails, writing nothing, when
 // a text holds a character the embedded fonts cannot print.
 func Write(w io.Writer, r *fleet.Result, h *fleet.Header, info *fleet.RunInfo, ev Evaluator) error {
-	return write(w, r, h, info, ev, true)
-}
-
-// write is Write; with plots false it lays the record's texts out (checking that every
-// one can be printed) and draws no plot and writes nothing (tests of the texts).
-func write(w io.Writer, r *fleet.Result, h *fleet.Header, info *fleet.RunInfo, ev Evaluator, plots bool) error {
-	p, err := newPrinter(info)
+	p, err := layout(r, h, info, ev)
 	if err != nil {
 		return err
-	}
-	p.noPlots = !plots
-	p.record(r, h, info, ev)
-	if p.err != nil || !plots {
-		return p.err
 	}
 	if err := p.pdf.Error(); err != nil {
 		return fmt.Errorf("pdfrecord: %w", err)
@@ -55,6 +44,16 @@ func write(w io.Writer, r *fleet.Result, h *fleet.Header, info *fleet.RunInfo, e
 	}
 	_, err = w.Write(b.Bytes())
 	return err
+}
+
+// layout lays the record out in a new document, every text checked against its font.
+func layout(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo, ev Evaluator) (*printer, error) {
+	p, err := newPrinter(info)
+	if err != nil {
+		return nil, err
+	}
+	p.record(r, h, info, ev)
+	return p, p.err
 }
 
 const (
@@ -70,7 +69,6 @@ type printer struct {
 	cur              *face
 	err              error
 	images           int
-	noPlots          bool
 	plotFonts        map[string]bool // the plots' font families registered with pdf
 }
 
@@ -550,9 +548,6 @@ func (p *printer) plots(r *fleet.Result, h *fleet.Header, ev Evaluator) {
 			unit, perUnit = "t", c.Factor
 		}
 	}
-	if p.noPlots {
-		return
-	}
 	if d, ok := newRatingDiagram(r, ev); ok {
 		if pl, err := ratingPlot(d, unit, perUnit); err == nil {
 			p.needSpace(100 + 14)
@@ -629,9 +624,6 @@ func (p *printer) image(pl *plot.Plot, w, h float64) {
 
 // imageAt draws a plot of w × h mm at (x, y), as vector graphics (canvas).
 func (p *printer) imageAt(pl *plot.Plot, x, y, w, h float64) {
-	if p.noPlots {
-		return
-	}
 	c := newCanvas(p.pdf, x, y, vg.Length(w)*vg.Millimeter, vg.Length(h)*vg.Millimeter, p.plotFonts, &p.images)
 	pl.Draw(draw.New(c))
 	p.setErr(c.End())
