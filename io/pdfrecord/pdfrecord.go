@@ -265,6 +265,9 @@ func (p *printer) record(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo, 
 	p.caution()
 
 	p.heading(2, "Verdict")
+	for _, l := range record.Action(r) {
+		p.para(p.bold, bodyPt, l)
+	}
 	for _, l := range record.Verdict(r, h) {
 		p.para(p.sans, bodyPt, l)
 	}
@@ -488,20 +491,21 @@ func (p *printer) checkTable(checks []fleet.CheckResult, h *fleet.Header) {
 	}, bar)
 }
 
-// changes lists, for every check that fails with a demand and a capacity, the capacity
-// it would need to pass: capacity × utilisation, in the check's unit.
+// changes lists, for every check that fails with a utilisation, the capacity it would
+// need to pass: capacity × utilisation, in the check's unit (fleet.RequiredCapacity).
 func (p *printer) changes(checks []fleet.CheckResult, where string, h *fleet.Header) {
 	var items []string
 	for _, c := range checks {
 		if c.Status != fleet.StatusFail {
 			continue
 		}
-		if math.IsNaN(c.Utilisation) || math.IsNaN(c.Capacity) || c.Capacity == 0 {
+		need := fleet.RequiredCapacity(&c)
+		if math.IsNaN(need) {
 			items = append(items, c.ID+" fails: "+orDash(c.Message)+" (see its working)")
 			continue
 		}
 		items = append(items, fmt.Sprintf("%s: capacity needed %s %s (has %s %s; capacity × utilisation %s)",
-			c.ID, record.Num(c.Capacity*c.Utilisation), c.Unit, record.Num(c.Capacity), c.Unit, record.Num(c.Utilisation)))
+			c.ID, record.Num(need), c.Unit, record.Num(c.Capacity), c.Unit, record.Num(c.Utilisation)))
 	}
 	if len(items) == 0 {
 		return
