@@ -155,7 +155,7 @@ func (p speedProfile) area() float64 {
 // stopProfile is the emergency stop of brake-stop (design.md "Emergency stop"): the
 // load lowering at v when the power is lost, speeding up at a_ff through the brake delay
 // t_s to v_1, then slowing at a_b to rest. It is rebuilt from the check's own results:
-// v from its working, v_1 (speed_at_brake_set_m_s), s_1 (runaway_distance_m), a_b
+// v (initial_speed_m_s, or the working's step v), v_1 (speed_at_brake_set_m_s), s_1 (runaway_distance_m), a_b
 // (deceleration_m_s2) and the stop time (time_s); t_s = 2 s_1 / (v + v_1) since the
 // speed is linear in the delay. When the brakes cannot stop the load the line goes on
 // rising at −a_b for as long again as the delay.
@@ -163,9 +163,11 @@ func stopProfile(c *fleet.CheckResult) (speedProfile, bool) {
 	if c == nil {
 		return speedProfile{}, false
 	}
-	v0 := math.NaN()
+	// The speed at power loss: the figure initial_speed_m_s where calc gives it (design.md
+	// Revision 2: the layer's own speed), else the working's step "v".
+	v0 := calc.FigureValue(c.Figures, "initial_speed_m_s")
 	for _, s := range c.Steps {
-		if s.Symbol == "v" {
+		if s.Symbol == "v" && math.IsNaN(v0) {
 			v0 = s.Value
 		}
 	}
