@@ -7,42 +7,12 @@ import (
 	"time"
 
 	"hoistfleet/fleet/schema"
+	"hoistfleet/io/units"
 )
 
-// Exact unit factors, SI per unit (NIST SP 811, appendix B; standards.md "Units").
-const (
-	ft    = 0.3048
-	inch  = 0.0254
-	lb    = 0.45359237
-	lbf   = 4.4482216152605
-	hp    = 745.69987158227022
-	lbft2 = 0.0421401100938048
-	lbfft = 1.3558179483314004
-)
-
-// unitSI is the SI value of one unit as written in a header, in the SI units the hoist
-// struct holds (kg, m, N, W, N m, kg m², m/s, m/s²; rpm, deg, s and h as they are; %
-// becomes a fraction; N/mm² stays N/mm²).
-var unitSI = map[string]float64{
-	"t": 1000, "kg": 1, "lb": lb,
-	"mm": 0.001, "m": 1, "in": inch, "ft": ft,
-	"kN": 1000, "lbf": lbf,
-	"kW": 1000, "hp": hp,
-	"N m": 1, "lbf ft": lbfft,
-	"kg m2": 1, "lb ft2": lbft2,
-	"m/min": 1.0 / 60, "ft/min": ft / 60,
-	"m/s2": 1, "ft/s2": ft,
-	"rpm": 1, "deg": 1, "s": 1, "h": 1, "%": 0.01, "N/mm2": 1, "1": 1,
-}
-
-// usUnit gives the US customary unit written for a schema default unit; units not listed
-// are written as they are.
-var usUnit = map[string]string{
-	"t": "lb", "kg": "lb", "mm": "in", "m": "ft", "kN": "lbf", "kW": "hp",
-	"N m": "lbf ft", "kg m2": "lb ft2", "m/min": "ft/min", "m/s2": "ft/s2",
-}
-
-// cell is one generated value: a number (in SI, converted at write time), a text, or empty.
+// cell is one generated value: a number (in the SI unit io/units converts to,
+// units.SI: kg, m, N, W, N m, kg m², m/s, m/s², s; rev/min, deg, N/mm² and a ratio as
+// they are; converted to the header's unit at write time), a text, or empty.
 type cell struct {
 	num   float64
 	isNum bool
@@ -60,9 +30,10 @@ func date(t time.Time) cell {
 
 // field is one generated column: a schema column (Key set) or a pass-through one.
 type field struct {
-	Key    string // schema key, "" for a pass-through column
-	Header string // header text as written, with its unit
-	Unit   string // unit written in the header ("" for none)
+	Key    string  // schema key, "" for a pass-through column
+	Header string  // header text as written, with its unit
+	Unit   string  // unit written in the header ("" for none)
+	factor float64 // SI value of one Unit (units.Factor)
 	get    func(h *hoist) cell
 }
 
@@ -128,7 +99,7 @@ var extractors = map[string]func(h *hoist) cell{
 	"control_braking":      func(h *hoist) cell { return txt(h.ControlBrake) },
 	"hoist_speed":          func(h *hoist) cell { return num(h.HoistSpeedMS) },
 	"acceleration":         func(h *hoist) cell { return num(h.AccelMS2) },
-	"operating_hours":      func(h *hoist) cell { return num(h.Hours) },
+	"operating_hours":      func(h *hoist) cell { return num(h.Hours * units.Hour) },
 	"load_spectrum":        func(h *hoist) cell { return txt(h.Spectrum) },
 	"usage_records":        func(h *hoist) cell { return txt(h.Records) },
 	"commissioned":         func(h *hoist) cell { return date(h.Commissioned) },
@@ -158,9 +129,9 @@ var passThrough = []field{
 
 // fields returns the generated columns in schema order followed by the pass-through
 // columns, with headers for the unit system ("si" or "us").
-func fields(units string) ([]field, error) {
-	if units != "si" && units != "us" {
-		return nil, fmt.Errorf("units %q: want si or us", units)
+func fields(system string) ([]field, error) {
+	if system != "si" && system != "us" {
+		return nil, fmt.Errorf("units %q: want si or us", system)
 	}
 	var out []field
 	seen := map[string]bool{}
@@ -170,17 +141,19 @@ func fields(units string) ([]field, error) {
 			continue
 		}
 		seen[c.Key] = true
-		unit := ""
+		unit, factor := "", 0.0
 		if c.Quantity != "" {
 			unit = c.Unit
-			if u, ok := usUnit[unit]; ok && units == "us" {
+			if u, ok := units.USCustomary(c.Quantity, unit); ok && system == "us" {
 				unit = u
 			}
-			if _, ok := unitSI[unit]; !ok {
-				return nil, fmt.Errorf("column %s: unit %q has no conversion", c.Key, unit)
+			f, err := units.Factor(c.Quantity, unit)
+			if err != nil {
+				return nil, fmt.Errorf("column %s: unit %q has no conversion: %w", c.Key, unit, err)
 			}
+			factor = f
 		}
-		out = append(out, field{Key: c.Key, Header: c.HeaderWithUnit(unit), Unit: unit, get: get})
+		out = append(out, field{Key: c.Key, Header: c.HeaderWithUnit(unit), Unit: unit, factor: factor, get: get})
 	}
 	for k := range extractors {
 		if !seen[k] {
@@ -198,11 +171,10 @@ func (f field) value(h *hoist) cell {
 	if !c.isNum {
 		return c
 	}
-	x := c.num
 	if f.Unit != "" {
-		x /= unitSI[f.Unit]
+		c.num /= f.factor
 	}
-	c.num = sig(x, 6)
+	c.num = sig(c.num, 6)
 	return c
 }
 

@@ -5,10 +5,12 @@ import (
 	"math"
 	"math/rand/v2"
 	"time"
+
+	"hoistfleet/io/units"
 )
 
 // gn is the standard acceleration of gravity g_n = 9.80665 m/s² (NIST SP 811, exact).
-const gn = 9.80665
+const gn = units.StandardGravity
 
 // fault names the defect seeded into a synthetic hoist ("" for none). The generator writes
 // it to a pass-through column so that a reader of the results can see what was intended.

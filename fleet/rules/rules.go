@@ -15,6 +15,7 @@ import (
 	"strings"
 	"sync"
 
+	"hoistfleet/io/units"
 	"hoistfleet/templates"
 )
 
@@ -105,26 +106,45 @@ type unitInfo struct {
 }
 
 // ruleUnits maps each accepted rule unit to its dimension and the factor that takes a
-// value to the unit the checks work in. Factors are exact (NIST SP 811: in = 0.0254 m,
-// ft = 0.3048 m). Time in hours, calendar months and years, days a year and angles in
-// degrees are not converted: the checks report them in those units (design.md).
-var ruleUnits = map[string]unitInfo{
-	"1":      {"ratio", 1},
-	"%":      {"ratio", 0.01},
-	"mm":     {"length", 0.001},
-	"m":      {"length", 1},
-	"in":     {"length", 0.0254},
-	"ft":     {"length", 0.3048},
-	"deg":    {"angle", 1},
-	"s":      {"time_s", 1},
-	"h":      {"time_h", 1},
-	"months": {"months", 1},
-	"years":  {"years", 1},
-	"d/year": {"days_per_year", 1},
-	"kg":     {"mass", 1},
-	"t":      {"mass", 1000},
-	"m/s2":   {"acceleration", 1},
-	"ft/s2":  {"acceleration", 0.3048},
+// value to the unit the checks work in. Ratios, lengths, accelerations and seconds are
+// converted with io/units' exact factors (NIST SP 811: in = 0.0254 m, ft = 0.3048 m);
+// time in hours, calendar months and years, days a year and angles in degrees are not
+// converted: the checks report them in those units (design.md).
+var ruleUnits = ruleUnitTable([]struct{ unit, dim, quantity string }{
+	{"1", "ratio", "ratio"},
+	{"%", "ratio", "ratio"},
+	{"mm", "length", "length"},
+	{"m", "length", "length"},
+	{"in", "length", "length"},
+	{"ft", "length", "length"},
+	{"deg", "angle", ""},
+	{"s", "time_s", "time"},
+	{"h", "time_h", ""},
+	{"months", "months", ""},
+	{"years", "years", ""},
+	{"d/year", "days_per_year", ""},
+	{"kg", "mass", "mass"},
+	{"t", "mass", "mass"},
+	{"m/s2", "acceleration", "acceleration"},
+	{"ft/s2", "acceleration", "acceleration"},
+})
+
+// ruleUnitTable makes ruleUnits: a unit with an io/units quantity takes its factor
+// from units.Factor, a unit without one is not converted. A unit io/units does not
+// accept is a programming error (every rule unit has a case in TestValueSI).
+func ruleUnitTable(list []struct{ unit, dim, quantity string }) map[string]unitInfo {
+	m := make(map[string]unitInfo, len(list))
+	for _, u := range list {
+		f := 1.0
+		if u.quantity != "" {
+			var err error
+			if f, err = units.Factor(u.quantity, u.unit); err != nil {
+				panic("rules: rule unit " + u.unit + ": " + err.Error())
+			}
+		}
+		m[u.unit] = unitInfo{u.dim, f}
+	}
+	return m
 }
 
 // RuleUnits lists the units a rule row may carry (besides "" for word values).

@@ -250,6 +250,8 @@ func TestUSWearBandEdges(t *testing.T) {
 	}
 }
 
+// TestValueSI covers every rule unit; the factors come from io/units (tested there
+// against NIST SP 811), so this checks which units convert and which are kept.
 func TestValueSI(t *testing.T) {
 	tests := []struct {
 		value, unit string
@@ -258,14 +260,23 @@ func TestValueSI(t *testing.T) {
 		{"1", "in", 0.0254},               // NIST SP 811: in = 0.0254 m exactly
 		{"1", "ft", 0.3048},               // NIST SP 811: ft = 0.3048 m exactly
 		{"32.17404856", "ft/s2", 9.80665}, // NIST SP 811: g_n in ft/s² (derived)
+		{"9.80665", "m/s2", 9.80665},
 		{"25", "mm", 0.025},
+		{"2.5", "m", 2.5},
 		{"12.5", "%", 0.125},
+		{"1.25", "1", 1.25},
 		{"0.3", "s", 0.3},
 		{"1600", "h", 1600}, // hours kept: FEM 9.755 durations are in hours
 		{"12", "months", 12},
+		{"5", "years", 5},
+		{"250", "d/year", 250},
+		{"40", "kg", 40},
+		{"5", "t", 5000}, // NIST SP 811: metric ton = 1000 kg
 		{"2", "deg", 2},
 	}
+	covered := map[string]bool{}
 	for _, tt := range tests {
+		covered[tt.unit] = true
 		r := Rule{ID: "x.test", Value: tt.value, Unit: tt.unit}
 		got, err := r.ValueSI()
 		if err != nil {
@@ -274,6 +285,11 @@ func TestValueSI(t *testing.T) {
 		}
 		if !approxEqual(got, tt.want, 0, 1e-9) {
 			t.Errorf("%s %s = %v, want %v", tt.value, tt.unit, got, tt.want)
+		}
+	}
+	for _, u := range RuleUnits() {
+		if !covered[u] {
+			t.Errorf("rule unit %q: no case in TestValueSI", u)
 		}
 	}
 	if _, err := (Rule{ID: "rope.basis", Value: "static"}).Float(); err == nil {

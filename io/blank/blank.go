@@ -139,7 +139,7 @@ func exampleValue(c column) (any, error) {
 	switch x := v.(type) {
 	case float64:
 		if c.unit != c.Unit {
-			return roundSig(convert(x, c.Unit, c.unit), 5), nil
+			return roundSig(convert(x, c.Quantity, c.Unit, c.unit), 5), nil
 		}
 		return x, nil
 	case string:
@@ -347,7 +347,7 @@ func prompt(c column) string {
 func bounds(c column) (lo, hi float64, hasLo, hasHi bool) {
 	lo, hi = c.Min, c.Max
 	if c.unit != c.Unit {
-		lo, hi = convert(lo, c.Unit, c.unit), convert(hi, c.Unit, c.unit)
+		lo, hi = convert(lo, c.Quantity, c.Unit, c.unit), convert(hi, c.Quantity, c.Unit, c.unit)
 	}
 	return lo, hi, c.HasMin, c.HasMax
 }

@@ -16,33 +16,23 @@ import (
 	"hoistfleet/fleet/schema"
 )
 
-func TestConversionFactors(t *testing.T) {
+// convert takes the factors from io/units (tested there against NIST SP 811); here: the
+// direction of the conversion, the column's quantity, and units passed through.
+func TestConvert(t *testing.T) {
 	tests := []struct {
-		v        float64
-		from, to string
-		want     float64
-		relTol   float64 // 0: 1e-12
+		v                  float64
+		quantity, from, to string
+		want               float64
 	}{
-		{1, "lb", "kg", 0.45359237, 0},          // NIST SP 811: lb = 0.45359237 kg exactly
-		{1, "lbf", "N", 4.4482216152605, 0},     // NIST SP 811: lbf = 4.4482216152605 N exactly
-		{1, "in", "mm", 25.4, 0},                // NIST SP 811: in = 0.0254 m exactly
-		{1, "ft", "m", 0.3048, 0},               // NIST SP 811: ft = 0.3048 m exactly
-		{1, "hp", "kW", 0.74569987158227022, 0}, // NIST SP 811: hp (550 ft lbf/s)
-		{1, "lbf ft", "N m", 1.3558179483314004, 0},
-		{1, "lb ft2", "kg m2", 0.0421401100938048, 0},
-		{100, "ft/min", "m/min", 30.48, 0},
-		// standards.md: g_n = 32.17404856 ft/s² (derived, printed to 10 digits, hence 1e-9).
-		{32.17404856, "ft/s2", "m/s2", 9.80665, 1e-9},
-		{1, "t", "lb", 1000 / 0.45359237, 0},
-		{1, "kN", "lbf", 1000 / 4.4482216152605, 0},
-		{7, "rpm", "rpm", 7, 0},
+		{1, "mass", "t", "lb", 1000 / 0.45359237},              // NIST SP 811: lb = 0.45359237 kg exactly
+		{1, "mass", "lb", "kg", 0.45359237},                    // the other way
+		{100, "speed", "ft/min", "m/min", 30.48},               // NIST SP 811: ft = 0.3048 m exactly
+		{1, "force", "lb", "N", 4.4482216152605},               // lb in a force column is lbf (design.md)
+		{7, "rotational_speed", "rpm", "rpm", 7},               // the same unit
+		{7, "rotational_speed", "rpm", "furlong/fortnight", 7}, // not a unit: passed through
 	}
 	for _, tt := range tests {
-		tol := tt.relTol
-		if tol == 0 {
-			tol = 1e-12
-		}
-		if got := convert(tt.v, tt.from, tt.to); !approx.Equal(got, tt.want, 0, tol) {
+		if got := convert(tt.v, tt.quantity, tt.from, tt.to); !approx.Equal(got, tt.want, 0, 1e-12) {
 			t.Errorf("convert(%v %s → %s) = %v, want %v", tt.v, tt.from, tt.to, got, tt.want)
 		}
 	}

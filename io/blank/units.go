@@ -14,6 +14,7 @@ import (
 	"math"
 
 	"hoistfleet/fleet/schema"
+	"hoistfleet/io/units"
 )
 
 // Unit systems accepted by HeaderUnit, WriteXLSX and WriteCSV.
@@ -22,78 +23,34 @@ const (
 	US = "us"
 )
 
-// usUnit maps a schema default unit to the US customary unit the US template writes.
-// Units without an entry (rpm, deg, s, h, %, N/mm2) are written as in SI: they are used
-// unchanged in US practice, or (N/mm2 for the rope grade) have no US unit the register
-// reader understands.
-var usUnit = map[string]string{
-	"t":     "lb",
-	"kg":    "lb",
-	"kN":    "lbf",
-	"N":     "lbf",
-	"mm":    "in",
-	"m":     "ft",
-	"N m":   "lbf ft",
-	"kW":    "hp",
-	"kg m2": "lb ft2",
-	"m/min": "ft/min",
-	"m/s2":  "ft/s2",
-}
-
-// toSI is each header unit's size in SI base units (kg, N, m, N m, W, kg m², m/s,
-// m/s²). Exact per NIST SP 811 appendix B: lb = 0.45359237 kg, lbf = 4.4482216152605 N,
-// in = 0.0254 m, ft = 0.3048 m, hp (550 ft lbf/s) = 745.69987158227022 W,
-// lbf ft = 1.3558179483314004 N m, lb ft² = 0.0421401100938048 kg m².
-var toSI = map[string]float64{
-	"t":      1000,
-	"kg":     1,
-	"lb":     0.45359237,
-	"kN":     1000,
-	"N":      1,
-	"lbf":    4.4482216152605,
-	"mm":     0.001,
-	"m":      1,
-	"in":     0.0254,
-	"ft":     0.3048,
-	"N m":    1,
-	"lbf ft": 1.3558179483314004,
-	"kW":     1000,
-	"hp":     745.69987158227022,
-	"kg m2":  1,
-	"lb ft2": 0.0421401100938048,
-	"m/min":  1.0 / 60,
-	"ft/min": 0.3048 / 60,
-	"m/s2":   1,
-	"ft/s2":  0.3048,
-}
-
 // HeaderUnit is the unit the template writes in column c's header for the unit system
-// ("si" or "us"); "" for a column without a unit.
-func HeaderUnit(c schema.Column, units string) (string, error) {
-	switch units {
+// ("si" or "us"); "" for a column without a unit. The US template writes the US
+// customary unit io/units gives for the column's default unit (units.USCustomary).
+func HeaderUnit(c schema.Column, system string) (string, error) {
+	switch system {
 	case SI:
 		return c.Unit, nil
 	case US:
-		if u, ok := usUnit[c.Unit]; ok && c.Quantity != "" {
+		if u, ok := units.USCustomary(c.Quantity, c.Unit); ok {
 			return u, nil
 		}
 		return c.Unit, nil
 	}
-	return "", fmt.Errorf("units %q: expected %s or %s", units, SI, US)
+	return "", fmt.Errorf("units %q: expected %s or %s", system, SI, US)
 }
 
-// convert expresses v, given in unit from, in unit to. Units without a factor (the
-// same unit on both sides, or a unit the template does not change) pass v through.
-func convert(v float64, from, to string) float64 {
+// convert expresses v, a value of quantity in unit from, in unit to, with io/units'
+// exact factors (units.Convert). Units without a factor (a unit the template does not
+// change) pass v through.
+func convert(v float64, quantity, from, to string) float64 {
 	if from == to {
 		return v
 	}
-	f, ok1 := toSI[from]
-	t, ok2 := toSI[to]
-	if !ok1 || !ok2 {
+	x, err := units.Convert(v, quantity, from, to)
+	if err != nil {
 		return v
 	}
-	return v * f / t
+	return x
 }
 
 // roundSig rounds v to n significant digits (for example values shown in US units).

@@ -46,6 +46,7 @@ const (
 	ShortTon        = 2000 * Pound                     // kg (907.18474, exact)
 	LongTon         = 2240 * Pound                     // kg (1016.0469088, exact)
 	KilogramForce   = StandardGravity                  // N per kgf (exact)
+	Hour            = 3600                             // s per h (exact, NIST SP 811 B.9)
 	PSI             = PoundForce / (Inch * Inch) / 1e6 // N/mm² per lbf/in² (6.894757293168361e-3)
 	RadPerSecondRPM = 60 / (2 * math.Pi)               // rev/min per rad/s
 	DegreesPerRad   = 180 / math.Pi                    // deg per rad
@@ -159,7 +160,7 @@ var table = map[string][]unit{
 		{"s", []string{"s", "sec", "secs", "second", "seconds"}, 1},
 		{"ms", []string{"ms", "msec"}, 1e-3},
 		{"min", []string{"min", "mins", "minute", "minutes"}, 60},
-		{"h", []string{"h", "hr", "hrs", "hour", "hours"}, 3600},
+		{"h", []string{"h", "hr", "hrs", "hour", "hours"}, Hour},
 	},
 	"stress": {
 		{"N/mm2", []string{"N/mm2", "Nmm-2"}, 1},

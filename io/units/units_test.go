@@ -261,3 +261,67 @@ func TestNormalize(t *testing.T) {
 		t.Error("different words must stay different")
 	}
 }
+
+// The US template's and the generator's units: each pair is one quantity in two units the
+// reader accepts, and converting between them gives the NIST SP 811 (2008) appendix B
+// factor (exact values: lb = 0.45359237 kg, lbf = 4.4482216152605 N, in = 0.0254 m,
+// ft = 0.3048 m; hp, lbf ft and lb ft² from those).
+func TestUSCustomaryConvert(t *testing.T) {
+	tests := []struct {
+		quantity, si string
+		v, want      float64 // v in the US unit, want in the SI unit
+		source       string
+	}{
+		{"mass", "t", 1, 0.45359237e-3, "NIST SP 811 B.9: pound (avoirdupois) = 0.45359237 kg, exact"},
+		{"mass", "kg", 1, 0.45359237, "NIST SP 811 B.9: pound (avoirdupois), exact"},
+		{"force", "kN", 1, 4.4482216152605e-3, "NIST SP 811 B.9: pound-force = 4.4482216152605 N, exact"},
+		{"force", "N", 1, 4.4482216152605, "NIST SP 811 B.9: pound-force, exact"},
+		{"length", "mm", 1, 25.4, "NIST SP 811 B.9: inch = 0.0254 m, exact"},
+		{"length", "m", 1, 0.3048, "NIST SP 811 B.9: foot = 0.3048 m, exact"},
+		{"torque", "N m", 1, 1.3558179483314004, "NIST SP 811 B.9: pound-force foot = 1.355 818 N m (exact: lbf × ft)"},
+		{"power", "kW", 1, 0.74569987158227022, "NIST SP 811 B.9: horsepower (550 ft lbf/s) = 745.6999 W (exact: 550 lbf ft)"},
+		{"inertia", "kg m2", 1, 0.0421401100938048, "NIST SP 811 B.9: pound foot squared = 0.04214011 kg m² (exact: lb × ft²)"},
+		{"speed", "m/min", 100, 30.48, "NIST SP 811 B.9: foot per minute = 5.08 E-03 m/s, exact"},
+		{"acceleration", "m/s2", 32.17404856, 9.80665, "standards.md: g_n = 32.17404856 ft/s² (computed, 10 digits)"},
+	}
+	tol := func(source string) float64 {
+		if strings.Contains(source, "10 digits") {
+			return 1e-9
+		}
+		return 1e-15
+	}
+	seen := map[[2]string]bool{}
+	for _, tt := range tests {
+		us, ok := USCustomary(tt.quantity, tt.si)
+		if !ok {
+			t.Errorf("USCustomary(%q, %q): no US unit", tt.quantity, tt.si)
+			continue
+		}
+		seen[[2]string{tt.quantity, tt.si}] = true
+		got, err := Convert(tt.v, tt.quantity, us, tt.si)
+		if err != nil || !approx.Equal(got, tt.want, 0, tol(tt.source)) {
+			t.Errorf("Convert(%v %s → %s) = %.17g, %v; want %.17g (%s)", tt.v, us, tt.si, got, err, tt.want, tt.source)
+		}
+		// and back
+		back, err := Convert(tt.want, tt.quantity, tt.si, us)
+		if err != nil || !approx.Equal(back, tt.v, 0, tol(tt.source)) {
+			t.Errorf("Convert(%v %s → %s) = %.17g, %v; want %.17g (%s)", tt.want, tt.si, us, back, err, tt.v, tt.source)
+		}
+	}
+	for _, c := range usCustomary {
+		if !seen[[2]string{c.quantity, c.si}] {
+			t.Errorf("USCustomary(%q, %q) = %q has no NIST case in this test", c.quantity, c.si, c.us)
+		}
+	}
+	for _, no := range [][2]string{{"rotational_speed", "rpm"}, {"stress", "N/mm2"}, {"time", "h"}, {"ratio", "%"}, {"length", "t"}} {
+		if u, ok := USCustomary(no[0], no[1]); ok {
+			t.Errorf("USCustomary(%q, %q) = %q; want none (written as in SI)", no[0], no[1], u)
+		}
+	}
+	if got, err := Convert(7, "rotational_speed", "rpm", "rev/min"); err != nil || got != 7 {
+		t.Errorf("Convert(7 rpm → rev/min) = %v, %v; want 7 (the same unit)", got, err)
+	}
+	if _, err := Convert(1, "mass", "lb", "ton"); err == nil {
+		t.Error("Convert to a refused unit: no error")
+	}
+}
