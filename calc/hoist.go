@@ -36,8 +36,6 @@ type Hoist struct {
 	// numbers are the same, only the text is not made. Root-finding and bulk runs set it;
 	// the calculation record (explain) leaves it false.
 	SkipRecord bool
-	// eff holds η_R and η_D once worked out (WithEfficiencies); nil: computed on each call.
-	eff *effCache
 	// SkipDetail asks for the numbers only: Demand, Capacity, Utilisation and Verdict,
 	// without Steps, Figures or Note (the dynamics checks honour it; the others may still
 	// build figures). The rated-load search sets it: it evaluates a check many times and
@@ -132,47 +130,12 @@ func ReevingEfficiency(etaS float64, ne int) float64 {
 
 // ReevingEff is η_R for this hoist's n_e and η_s.
 func (h Hoist) ReevingEff() float64 {
-	if c := h.eff; c != nil && c.matches(h) {
-		return c.etaR
-	}
 	return ReevingEfficiency(h.SheaveEff, h.Parts/h.RopeEnds)
 }
 
 // DeflectionEff is η_D = η_s^k.
 func (h Hoist) DeflectionEff() float64 {
-	if c := h.eff; c != nil && c.matches(h) {
-		return c.etaD
-	}
 	return math.Pow(h.SheaveEff, float64(h.DeflectionSheaves))
-}
-
-// WithEfficiencies returns h with η_R and η_D worked out once, for the many checks and
-// rated-load searches of one hoist that ask for them (each is a math.Pow). The values are
-// those ReevingEff and DeflectionEff compute, and are used only while the sheave
-// efficiency, parts of line, rope ends and deflection sheaves stay as they were. A hoist
-// without rope ends (invalid reeving) is returned as it is.
-func (h Hoist) WithEfficiencies() Hoist {
-	h.eff = nil
-	if h.RopeEnds <= 0 {
-		return h // invalid reeving: the checks report it (CheckReeving) and compute nothing
-	}
-	c := &effCache{sheaveEff: h.SheaveEff, parts: h.Parts, ropeEnds: h.RopeEnds, deflection: h.DeflectionSheaves,
-		etaR: h.ReevingEff(), etaD: h.DeflectionEff()}
-	h.eff = c
-	return h
-}
-
-// effCache is η_R and η_D of a hoist, with the fields they were worked out from.
-type effCache struct {
-	sheaveEff                   float64
-	parts, ropeEnds, deflection int
-	etaR, etaD                  float64
-}
-
-// matches reports whether h still has the fields c was worked out from (a NaN sheave
-// efficiency never matches, and is worked out afresh).
-func (c *effCache) matches(h Hoist) bool {
-	return c.sheaveEff == h.SheaveEff && c.parts == h.Parts && c.ropeEnds == h.RopeEnds && c.deflection == h.DeflectionSheaves
 }
 
 // RopeSystemEff is η_RD = η_R η_D.

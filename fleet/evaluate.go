@@ -38,7 +38,6 @@ type Checker struct {
 	keys    keyIndex        // schema key → index in columns
 	texts   sync.Map        // ruleSet → ruleText: the rule and source text of a set of rows
 	ropes   ropeCache       // rope construction text → what calc reads from it
-	dflts   sync.Map        // defaultKey → the text saying a rule default was applied
 	scratch sync.Pool       // *scratch, reused from one Check to the next
 	results sync.Pool       // *Result, recycled by Run once written (recycle)
 }
@@ -309,7 +308,7 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 	}
 	p.run = run
 	p.closedLimit, d.closedLimit = d.closedLimit, nil
-	p.rule, p.source = d.ruleTexts(rules)
+	p.rule, p.source = d.c.ruleTexts(rules)
 	if p.rule == "" {
 		p.rule, p.source = s.Rule, s.Source
 	}

@@ -2,9 +2,13 @@ package fleet
 
 // keyIndex maps the schema's keys to their column indices. The checks look up some
 // hundred keys per hoist by name, and a lookup here costs a few byte loads and one string
-// comparison, about a third of a Go map's. It is an open-addressing table hashed on the
-// key's length and three of its bytes, with linear probing, so any key set works; the
-// multiplier is chosen when the table is built to keep probe sequences short.
+// comparison. It is an open-addressing table hashed on the key's length and three of its
+// bytes, with linear probing, so any key set works; the multiplier is chosen when the
+// table is built to keep probe sequences short.
+//
+// What it beats: a map[string]int. Measured 2026-12-05 (CPU time, interleaved runs):
+// BenchmarkKeyLookup (every schema key once) takes 1.36× the time with the map;
+// BenchmarkCheck/rated-recycled 1.04× and BenchmarkCheckEach (generated hoists) 1.02×.
 type keyIndex struct {
 	slots []keySlot
 	mask  uint32

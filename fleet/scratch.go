@@ -22,7 +22,6 @@ func (c *Checker) getScratch() *scratch {
 			bad:     make([]*Error, len(c.columns)),
 			scope:   rules.Scope{Attrs: make(map[string]string, 8), Nums: make(map[string]float64, 2)},
 			rules:   make([]int, 0, 24),
-			texts:   new(textMemo),
 		},
 		prepared: make([]preparedCheck, len(c.specs)),
 	}
@@ -45,36 +44,5 @@ func (d *hoistData) reset(c *Checker, a *Asset) {
 	clear(d.scope.Nums)
 	d.scope.Group = 0 // resolveDuty looks rules up before the group is known
 	*d = hoistData{a: a, c: c, missing: d.missing, bad: d.bad, scope: d.scope,
-		messages: d.messages[:0], rules: d.rules[:0], rowBuf: d.rowBuf[:0], texts: d.texts}
-}
-
-// textMemo remembers, for one scratch, the rule and source texts of the sets of rule rows
-// its checks used (Checker.ruleTexts), so that a hoist's checks find them without the
-// Checker's shared map. The rule table is fixed for a Checker, so entries stay valid; a
-// set that finds its slot taken is looked up in the Checker's map.
-type textMemo [64]struct {
-	key ruleSet
-	set bool
-	ruleText
-}
-
-// ruleTexts is Checker.ruleTexts through d's memo.
-func (d *hoistData) ruleTexts(rows []int) (rule, source string) {
-	key, ok := ruleSetOf(rows)
-	if len(rows) < 2 || !ok {
-		return d.c.ruleTexts(rows) // one row: precomputed; five or more: not memoised
-	}
-	h := uint32(0)
-	for _, r := range key {
-		h = h*0x9e3779b1 + uint32(r)
-	}
-	e := &d.texts[(h^h>>16)%uint32(len(d.texts))]
-	if e.set && e.key == key {
-		return e.rule, e.source
-	}
-	rule, source = d.c.ruleTexts(rows)
-	if !e.set {
-		e.key, e.set, e.ruleText = key, true, ruleText{rule, source}
-	}
-	return rule, source
+		messages: d.messages[:0], rules: d.rules[:0], rowBuf: d.rowBuf[:0]}
 }
