@@ -16,6 +16,11 @@ import (
 // Unlike strconv, it may write up to 40 bytes into b's spare capacity beyond what it
 // appends (it lays digits out eight bytes at a time): b must not share that room with
 // anything live.
+//
+// What it beats: strconv.AppendFloat. Measured 2026-12-05 (CPU time, interleaved runs):
+// BenchmarkAppendShortest (random numbers from 0.01 to 1e6, 'g') 45 ns a number against
+// strconv's 82 (1.83×); csvout's BenchmarkWriteReal without the number memo takes 1.46×
+// the time when its numbers go through strconv (9.5 → 13.8 µs a hoist).
 func AppendShortest(b []byte, f float64, format byte) []byte {
 	if isPlainWhole(f, format) {
 		return appendWhole(b, f)

@@ -61,6 +61,10 @@ func (s *colSpec) prepare() {
 // the Value and the Cell (fill has written the cell's text and reference) as fill's
 // general path would and reports true; for any other cell it writes nothing and reports
 // false. text is the cell without its surrounding spaces.
+//
+// What it beats: fill's general path for every number. BenchmarkReadCSVRecycled (20 000
+// rows of 40 columns, 30 of them numbers, CPU time, interleaved runs, 2026-12-05) takes
+// 1.10× the time without it (1.94 → 2.14 µs a row).
 func (s *colSpec) fillNumber(text string, d dialect, v *fleet.Value, c *fleet.Cell) bool {
 	nb := scanNumber(text)
 	if !nb.exact || s.headerErr != "" || d.decimalComma && strings.IndexByte(text, '.') >= 0 {

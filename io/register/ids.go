@@ -8,6 +8,11 @@ import "hash/maphash"
 // per id (a map[string]int needs a copy of each id, which is a substring of its whole
 // record), no pointers for the collector to scan, and one look-up that adds a new id,
 // the common case, instead of a map's look-up and insertion.
+//
+// What it beats: that map. BenchmarkIDSet (100 000 distinct ids, CPU time, 5 interleaved
+// runs, 2026-12-05) takes 1.76× the time with the map (0.17 → 0.30 µs an id); the
+// difference is 7 % of what BenchmarkReadCSVRecycled spends on a row (1.94 µs), and
+// grows with the register, as the map's copies do.
 type idSet struct {
 	seed  maphash.Seed
 	slots []idSlot  // len a power of two, at most half full

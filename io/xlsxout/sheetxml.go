@@ -26,6 +26,12 @@ import (
 // openpyxl) places every cell alike. A reference repeated in every cell, its row number
 // changing from row to row, was the largest part of the compressed sheets: leaving it
 // out took the Checks sheet from 3.5 to about 1.8 KB a hoist (deflate, best speed).
+//
+// What it beats: excelize's StreamWriter, which reflects on every cell and buffers 16–32
+// MiB per sheet. BenchmarkFloorStreamWrite, the StreamWriter writing as many plain cells
+// as BenchmarkXLSXWrite's 10 000 hoists (no styles, no Summary or Audit sheet), takes
+// 2.09× the CPU time of the whole workbook written here (4 interleaved runs, 2026-12-05)
+// and allocates 302 MB in 16.3 million allocations against 33 MB in 0.57 million.
 type sheetStream struct {
 	sp   *spool
 	buf  []byte
