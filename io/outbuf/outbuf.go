@@ -1,10 +1,10 @@
 // Package outbuf holds what the streaming result writers (io/csvout, io/jsonout) share:
 // encodings prepared in the pipeline's workers and recycled once written, the shortest
 // form of a float64 (AppendShortest, what strconv writes, faster for the numbers of a
-// result), a cache of formatted numbers across hoists (NumCache) and a memo of those
-// a schema field read by index (TextField),
-// a complete write of a block of output, and the sign (Absorber) that the writer below
-// buffers cheaply itself, so the result writers need not gather blocks first.
+// result), a cache of formatted numbers across hoists (NumCache), a schema field read
+// by index (TextField), a complete write of a block of output, and the sign (Absorber)
+// that the writer below buffers cheaply itself, so the result writers need not gather
+// blocks first.
 package outbuf
 
 import (
