@@ -19,8 +19,9 @@ import (
 //
 // What it beats: strconv.AppendFloat. Measured 2026-12-05 (CPU time, interleaved runs):
 // BenchmarkAppendShortest (random numbers from 0.01 to 1e6, 'g') 45 ns a number against
-// strconv's 82 (1.83×); csvout's BenchmarkWriteReal without the number memo takes 1.46×
-// the time when its numbers go through strconv (9.5 → 13.8 µs a hoist).
+// strconv's 82 (1.83×); jsonout's BenchmarkWriteReal (2000 checked hoists, NumCache in
+// front of both) takes 1.58× the time when AppendNumber uses strconv (8.7 → 13.9 µs a
+// hoist).
 func AppendShortest(b []byte, f float64, format byte) []byte {
 	if isPlainWhole(f, format) {
 		return appendWhole(b, f)
