@@ -48,6 +48,14 @@ func (t dynTrain) radiusName(k int) string {
 	return "r_L"
 }
 
+// layerNumber is the layer of radius index k: 1, or L for the outer layer.
+func (t dynTrain) layerNumber(k int) float64 {
+	if k == 0 {
+		return 1
+	}
+	return float64(t.layers)
+}
+
 // radiusWords says in words which layer radius index k is.
 func (t dynTrain) radiusWords(k int) string {
 	return t.radiusPhrase(k, "", radiusWordsOf)
@@ -323,6 +331,7 @@ func Runaway(h Hoist) (Outcome, error) {
 // dynStopAt is the emergency stop evaluated at one drum radius.
 type dynStopAt struct {
 	r          float64
+	v0         float64 // v_j, the lowering speed on this layer [m/s]
 	fb         float64 // brake force reflected to the hook F_b [N]
 	meq        float64 // equivalent mass of the braking phase [kg]
 	aff        float64 // acceleration during the delay [m/s²]
@@ -341,13 +350,14 @@ type dynStopAt struct {
 //
 // Formulas (design.md "Exact definitions", Emergency stop):
 //
+//	v_j = v r_j / r_1                                                  lowering speed on layer j
 //	a_ff = m g / m_eq, m_eq = m + (n_e/r)² (I_d/η_RD + i² J_m/η_l)     runaway phase
-//	v_1 = v + a_ff t_s,  s_1 = v t_s + ½ a_ff t_s²                     during the delay
+//	v_1 = v_j + a_ff t_s,  s_1 = v_j t_s + ½ a_ff t_s²                 during the delay
 //	motor-shaft brake: F_b = N_b M_b i n_e / r,  a_b = (F_b/η_l − m g) / m_eq
 //	drum brake:        F_b = N_b M_b n_e / r,    a_b = (F_b/η_RD − m g) / m_eq,d,
 //	                   m_eq,d = m + (n_e/r)² (I_d + η_g i² J_m) / η_RD
 //	s_2 = v_1² / (2 a_b),  s = s_1 + s_2,  t = t_s + v_1 / a_b
-//	T_peak = m (g + a_b) / (n η_R)  (dead-end part),  Z_peak = MBF / T_peak
+//	T_peak = max_j m (g + a_b,j) / (n η_R)  (dead-end part),  Z_peak = MBF / T_peak
 //
 // Symbols as in Runaway, plus M_b one brake's rated torque [N m], N_b number of brakes,
 // t_s brake delay [s], η_g forward gear efficiency, MBF rope minimum breaking force [N].
@@ -362,8 +372,12 @@ type dynStopAt struct {
 // rotor (or the drum) gives the a_b above; the rotor's deceleration torque never exceeds
 // the brake torque, so the power flow does not reverse in the gearbox during the stop.
 //
-// Evaluated at r_1 and r_L; the radius giving the longer stop is reported, or the one
-// where the brakes cannot stop the load. Demand = s [m], Capacity = maxDistanceM (NaN
+// Evaluated at r_1 and r_L (design.md Revision 2, "Stop at every layer"): the motor turns
+// at the same speed on every layer, so on layer j the load lowers at v_j = v r_j / r_1
+// (the rope speed at the drum rim is ω_d r_j). The layer giving the longer stop is
+// reported (figures stop_layer = 1 or L and initial_speed_m_s = v_j), or the one where
+// the brakes cannot stop the load; the peak rope tension is the largest over the layers
+// (the hardest stop). Demand = s [m], Capacity = maxDistanceM (NaN
 // when maxDistanceM ≤ 0 or NaN: no limit, Verdict Info). a_b ≤ 0: the brakes cannot
 // decelerate the load: Verdict Fail, distance and time NaN.
 //
@@ -380,7 +394,8 @@ type dynStopAt struct {
 // Valid ranges: as Runaway, plus M_b ≥ 0, N_b ≥ 1, t_s ≥ 0, v > 0, MBF ≥ 0 (0 = not
 // given: Z_peak NaN). Figures: distance_m, time_s, deceleration_m_s2,
 // peak_rope_tension_n, peak_design_factor, speed_at_brake_set_m_s, runaway_distance_m
-// (= s_1, the distance travelled between power loss and full brake torque).
+// (= s_1, the distance travelled between power loss and full brake torque), stop_layer,
+// initial_speed_m_s.
 func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 	t, err := dynTrainOf(h)
 	if err != nil {
@@ -439,12 +454,20 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 	}
 
 	var res [2]dynStopAt
+	r1 := t.radii[0]
 	for k, r := range t.radii[:t.nr] {
 		tag := ""
 		if rec {
 			tag = " (" + t.radiusName(k) + ")"
 		}
-		x := dynStopAt{r: r}
+		// The motor turns at the same speed on every layer, so the load lowers at
+		// v_j = v r_j / r_1 (design.md Revision 2, "Stop at every layer").
+		vj := v * r / r1
+		x := dynStopAt{r: r, v0: vj}
+		if rec && k > 0 {
+			out.Steps = append(out.Steps, Step{Symbol: "v_j" + tag, Formula: "v r_L / r_1 (same motor speed on every layer)",
+				Numbers: fmt.Sprintf("%s × %s / %s", dynNum(v), dynNum(r), dynNum(r1)), Value: vj, Unit: "m/s"})
+		}
 		kk := t.ne / r
 		x.aff = t.runawayAccel(r)
 		switch {
@@ -487,12 +510,12 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 						Numbers: fmt.Sprintf("(%s/%s − %s × %s) / %s", dynNum(x.fb), dynNum(bt.etaL), dynNum(t.m), dynNum(t.g), dynNum(x.meq)), Value: x.ab, Unit: "m/s2"})
 			}
 		}
-		x.v1 = v + x.aff*ts
-		x.s1 = v*ts + 0.5*x.aff*ts*ts
+		x.v1 = vj + x.aff*ts
+		x.s1 = vj*ts + 0.5*x.aff*ts*ts
 		if rec {
 			out.Steps = append(out.Steps,
-				Step{Symbol: "v_1" + tag, Formula: "v + a_ff t_s", Numbers: fmt.Sprintf("%s + %s × %s", dynNum(v), dynNum(x.aff), dynNum(ts)), Value: x.v1, Unit: "m/s"},
-				Step{Symbol: "s_1" + tag, Formula: "v t_s + ½ a_ff t_s²", Numbers: fmt.Sprintf("%s × %s + 0.5 × %s × %s²", dynNum(v), dynNum(ts), dynNum(x.aff), dynNum(ts)), Value: x.s1, Unit: "m"})
+				Step{Symbol: "v_1" + tag, Formula: "v_j + a_ff t_s", Numbers: fmt.Sprintf("%s + %s × %s", dynNum(vj), dynNum(x.aff), dynNum(ts)), Value: x.v1, Unit: "m/s"},
+				Step{Symbol: "s_1" + tag, Formula: "v_j t_s + ½ a_ff t_s²", Numbers: fmt.Sprintf("%s × %s + 0.5 × %s × %s²", dynNum(vj), dynNum(ts), dynNum(x.aff), dynNum(ts)), Value: x.s1, Unit: "m"})
 		}
 		x.canStop = x.ab > 0
 		x.s2, x.s, x.time = math.NaN(), math.NaN(), math.NaN()
@@ -530,12 +553,21 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 		}
 	}
 	g := res[best]
+	// The peak rope tension is the largest over the layers (the hardest stop), not the
+	// one of the longest stop (design.md Revision 2).
+	peak := 0
+	for k, x := range res[:t.nr] {
+		if x.peakT > res[peak].peakT {
+			peak = k
+		}
+	}
+	peakT, peakZ := res[peak].peakT, res[peak].dfc
 	if rec {
-		tag := " (" + t.radiusName(best) + ")"
-		out.Steps = append(out.Steps, Step{Symbol: "T_peak" + tag, Formula: "m (g + a_b) / (n η_R)",
-			Numbers: fmt.Sprintf("%s × (%s + %s) / (%s × %s)", dynNum(t.m), dynNum(t.g), dynNum(g.ab), dynNum(t.n), dynNum(t.etaR)), Value: g.peakT, Unit: "N"})
+		tag := " (" + t.radiusName(peak) + ")"
+		out.Steps = append(out.Steps, Step{Symbol: "T_peak" + tag, Formula: "max_j m (g + a_b,j) / (n η_R)",
+			Numbers: fmt.Sprintf("%s × (%s + %s) / (%s × %s)", dynNum(t.m), dynNum(t.g), dynNum(res[peak].ab), dynNum(t.n), dynNum(t.etaR)), Value: peakT, Unit: "N"})
 		if h.RopeMBFN > 0 {
-			out.Steps = append(out.Steps, Step{Symbol: "Z_peak" + tag, Formula: "MBF / T_peak", Numbers: dynNum(h.RopeMBFN) + " / " + dynNum(g.peakT), Value: g.dfc, Unit: "1"})
+			out.Steps = append(out.Steps, Step{Symbol: "Z_peak" + tag, Formula: "MBF / T_peak", Numbers: dynNum(h.RopeMBFN) + " / " + dynNum(peakT), Value: peakZ, Unit: "1"})
 		}
 	}
 	out.Demand = g.s
@@ -555,10 +587,12 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 		{Name: "distance_m", Value: g.s, Unit: "m"},
 		{Name: "time_s", Value: g.time, Unit: "s"},
 		{Name: "deceleration_m_s2", Value: g.ab, Unit: "m/s2"},
-		{Name: "peak_rope_tension_n", Value: g.peakT, Unit: "N"},
-		{Name: "peak_design_factor", Value: g.dfc, Unit: "1"},
+		{Name: "peak_rope_tension_n", Value: peakT, Unit: "N"},
+		{Name: "peak_design_factor", Value: peakZ, Unit: "1"},
 		{Name: "speed_at_brake_set_m_s", Value: g.v1, Unit: "m/s"},
 		{Name: "runaway_distance_m", Value: g.s1, Unit: "m"},
+		{Name: "stop_layer", Value: t.layerNumber(best), Unit: "1"},
+		{Name: "initial_speed_m_s", Value: g.v0, Unit: "m/s"},
 	})
 
 	where := t.radiusWords(best)

@@ -9,9 +9,11 @@ import "math"
 //
 //	motor-shaft brake: a_b = 0 ⇔ F_b / η_l = m g, F_b = N_b M_b i n_e / r, η_l = η_RD η_gb
 //	drum brake:        a_b = 0 ⇔ F_b / η_RD = m g, F_b = N_b M_b n_e / r
-//	m_L = F_b / (η g) − m_H, at the largest radius (r_L), where F_b is smallest.
+//	m_L,j = F_b,j / (η g) − m_H on each layer j ∈ {1, L};  m_L = min_j m_L,j
 //
-// Inertias do not enter: they set how fast the load stops, not whether it can. Special
+// (the outer layer's in practice: F_b,j falls as 1/r_j). Neither the inertias nor the
+// layer's lowering speed v_j = v r_j / r_1 enter: they set how far and how fast the load
+// stops, not whether it can (design.md Revision 2, "Stop at every layer"). Special
 // cases: NaN for a self-locking train (η_gb ≤ 0), whatever the brake's location: BrakeStop
 // then reports information only (the gear holds the load), so the check sets no limit;
 // NaN for inputs the dynamics checks refuse (the check itself reports those); a negative result means the brakes cannot stop even the hook
@@ -24,14 +26,16 @@ func BrakeStopLimitKg(h Hoist) float64 {
 	if t.selfLocking() {
 		return math.NaN() // BrakeStop: the gear holds the load, an information result
 	}
-	r := t.radii[t.nr-1]
-	var fb, eta float64
-	if h.BrakeOnDrum {
-		fb, eta = float64(h.Brakes)*h.BrakeTorqueNm*t.ne/r, t.etaRD
-	} else {
-		fb, eta = float64(h.Brakes)*h.BrakeTorqueNm*t.i*t.ne/r, t.etaL
+	m := math.Inf(1)
+	for _, r := range t.radii[:t.nr] {
+		var fb, eta float64
+		if h.BrakeOnDrum {
+			fb, eta = float64(h.Brakes)*h.BrakeTorqueNm*t.ne/r, t.etaRD
+		} else {
+			fb, eta = float64(h.Brakes)*h.BrakeTorqueNm*t.i*t.ne/r, t.etaL
+		}
+		m = math.Min(m, fb/(eta*t.g)-h.HookBlockKg)
 	}
-	m := fb/(eta*t.g) - h.HookBlockKg
 	return math.Max(m, 0)
 }
 

@@ -422,7 +422,9 @@ func simulateStop(h calc.Hoist, r float64, dt float64) (dist, tStop float64) {
 		}
 		return (lhs*g - h.GearEff*i*mm - md) / (lhs + id*k + h.GearEff*i*i*jm*k)
 	}
-	v := h.LoweringSpeed()
+	// The motor turns at the same speed on every layer: the drum's angular speed is the
+	// same, so the rope (and hook) speed scales with the layer radius (kinematics).
+	v := h.LoweringSpeed() * r / (h.DrumDiameterM / 2)
 	var x, tm float64
 	for tm < 60 {
 		var mm, md float64
@@ -476,16 +478,27 @@ func TestBrakeStopAgainstIntegration(t *testing.T) {
 			if o.Verdict != calc.Info {
 				t.Errorf("no distance limit: Verdict = %v, want Info", o.Verdict)
 			}
-			// The longer stop over the layer radii (design.md "Radius").
-			wantS, wantT := math.Inf(-1), 0.0
-			for _, r := range tt.h.Radii() {
+			// The longer stop over the layer radii (design.md "Radius"), each layer started
+			// from its own lowering speed v_j = v r_j / r_1 (Revision 2).
+			wantS, wantT, wantV, wantLayer := math.Inf(-1), 0.0, 0.0, 0
+			radii := tt.h.Radii()
+			for k, r := range radii {
 				s, ts := simulateStop(tt.h, r, 1e-5)
 				if math.IsNaN(s) {
 					t.Fatalf("integration at r = %g did not stop", r)
 				}
 				if s > wantS {
-					wantS, wantT = s, ts
+					wantS, wantT, wantV, wantLayer = s, ts, tt.h.LoweringSpeed()*r/radii[0], 1
+					if k > 0 {
+						wantLayer = tt.h.Layers
+					}
 				}
+			}
+			if got := o.Figure("stop_layer"); got != float64(wantLayer) {
+				t.Errorf("stop_layer = %g, integration's longer stop is on layer %d", got, wantLayer)
+			}
+			if got := o.Figure("initial_speed_m_s"); !dynApproxEqual(got, wantV, 0, 1e-12) {
+				t.Errorf("initial_speed_m_s = %g, want v r_j / r_1 = %g", got, wantV)
 			}
 			// Tolerance 0.5 %: explicit Euler with dt = 1e-5 s (the brief's agreement).
 			if got := o.Figure("distance_m"); !dynApproxEqual(got, wantS, 0, 0.005) {
@@ -503,23 +516,29 @@ func TestBrakeStopAgainstIntegration(t *testing.T) {
 
 func TestBrakeStopWorkedHoists(t *testing.T) {
 	// Hoist A by hand (computed: python3, body equations; r_L = 0.2138564 m gives the
-	// longer stop): a_ff = 0.4822956, F_b = 100 × 112 × 2 / r_L = 104 743.2 N,
+	// longer stop). The motor turns at the same speed on every layer, so the load lowers
+	// at v_L = v r_L / r_1 = 0.1333333 × 0.2138564 / 0.2 = 0.1425709 m/s there (design.md
+	// Revision 2): a_ff = 0.4822956, F_b = 100 × 112 × 2 / r_L = 104 743.2 N,
 	// a_b = (F_b/(0.99 × 0.9) − 5150 × 9.80665) / 104 716.4 = 0.6403261 m/s²,
-	// v_1 = 0.1333333 + 0.4822956 × 0.3 = 0.2780220 m/s, s_1 = 0.0617033 m,
-	// s = s_1 + v_1²/(2 a_b) = 0.1220602 m, t = 0.3 + v_1/a_b = 0.7341882 s,
-	// T_peak = 5150 (9.80665 + a_b)/(4 × 0.99) = 13 586.35 N, Z = 180 000 / T_peak = 13.2486.
+	// v_1 = 0.1425709 + 0.4822956 × 0.3 = 0.2872596 m/s, s_1 = 0.0644746 m,
+	// s = s_1 + v_1²/(2 a_b) = 0.1289090 m, t = 0.3 + v_1/a_b = 0.7486146 s. On the first
+	// layer (v = 0.1333333, a_ff = 0.4244389, a_b = 0.6319591) the stop is 0.1128582 m.
+	// T_peak = max over layers of 5150 (9.80665 + a_b,j)/(4 × 0.99) = 13 586.35 N (r_L),
+	// Z = 180 000 / T_peak = 13.2486.
 	o, err := calc.BrakeStop(hoistA(), 0.5)
 	if err != nil {
 		t.Fatal(err)
 	}
 	want := map[string]float64{
-		"distance_m":             0.12206023037885097, // hand calculation above (computed)
-		"time_s":                 0.7341881632363472,
+		"distance_m":             0.12890900283637227, // hand calculation above (computed)
+		"time_s":                 0.7486145700017841,
 		"deceleration_m_s2":      0.64032606713724,
 		"peak_rope_tension_n":    13586.34513781737,
 		"peak_design_factor":     13.248596158430638,
-		"speed_at_brake_set_m_s": 0.2780219989626722,
-		"runaway_distance_m":     0.06170329984440083,
+		"speed_at_brake_set_m_s": 0.28725960326970634,
+		"runaway_distance_m":     0.06447458113651106,
+		"stop_layer":             2, // L = 2
+		"initial_speed_m_s":      0.14257093764036735,
 	}
 	for name, w := range want {
 		if got := o.Figure(name); !dynApproxEqual(got, w, 0, 1e-9) {
@@ -527,16 +546,16 @@ func TestBrakeStopWorkedHoists(t *testing.T) {
 		}
 	}
 	if o.Verdict != calc.ByUtilisation || !dynApproxEqual(o.Capacity, 0.5, 0, 0) ||
-		!dynApproxEqual(o.Utilisation, 0.12206023037885097/0.5, 0, 1e-9) {
+		!dynApproxEqual(o.Utilisation, 0.12890900283637227/0.5, 0, 1e-9) {
 		t.Errorf("limit 0.5 m: Verdict %v, capacity %g, utilisation %g", o.Verdict, o.Capacity, o.Utilisation)
 	}
 
 	// Hoist B in US customary units (ft, slug, lbf), motor-shaft brakes.
 	u := hoistBUS()
 	ut := u.train()
-	v := u.lowerFtMin / 60
-	var sFt, abFt float64
+	var sFt, abFt, peakFt float64
 	for _, r := range ut.radii {
+		v := u.lowerFtMin / 60 * r / ut.radii[0] // same motor speed on every layer
 		k := ut.ne / r
 		meq := ut.mass + k*k*(ut.id/ut.etaRD+ut.i*ut.i*ut.jm/ut.etaL)
 		aff := ut.w / meq
@@ -547,6 +566,7 @@ func TestBrakeStopWorkedHoists(t *testing.T) {
 		if s > sFt {
 			sFt, abFt = s, ab
 		}
+		peakFt = math.Max(peakFt, ut.w*(1+ab/usGft)/(ut.n*ut.etaR)) // lbf, the largest over the layers
 	}
 	o, err = calc.BrakeStop(u.si(), math.NaN())
 	if err != nil {
@@ -558,8 +578,8 @@ func TestBrakeStopWorkedHoists(t *testing.T) {
 	if got, want := o.Figure("deceleration_m_s2"), abFt*usFt; !dynApproxEqual(got, want, 0, usTolUS) {
 		t.Errorf("hoist B a_b = %.10g m/s², US %.10g", got, want)
 	}
-	// Peak tension in lbf: W (1 + a_b/g) / (n η_R).
-	if got, want := o.Figure("peak_rope_tension_n"), ut.w*(1+abFt/usGft)/(ut.n*ut.etaR)*usLbf; !dynApproxEqual(got, want, 0, usTolUS) {
+	// Peak tension in lbf: max over the layers of W (1 + a_b/g) / (n η_R).
+	if got, want := o.Figure("peak_rope_tension_n"), peakFt*usLbf; !dynApproxEqual(got, want, 0, usTolUS) {
 		t.Errorf("hoist B peak tension = %.10g N, US %.10g", got, want)
 	}
 	if !math.IsNaN(o.Capacity) || o.Verdict != calc.Info {
@@ -620,7 +640,8 @@ func TestBrakeStopSelfLocking(t *testing.T) {
 		if o.Verdict != calc.Info {
 			t.Errorf("drum=%v: Verdict = %v, want Info (self-locking)", onDrum, o.Verdict)
 		}
-		v := h.HoistSpeedMS
+		// The outer layer's lowering speed v_L = v r_L / r_1 (same motor speed on every layer).
+		v := h.HoistSpeedMS * h.OuterLayerRadiusM() / h.FirstLayerRadiusM()
 		// No runaway: the speed at brake set is the lowering speed, s_1 = v t_s.
 		if got := o.Figure("speed_at_brake_set_m_s"); !dynApproxEqual(got, v, 0, 1e-15) {
 			t.Errorf("drum=%v: speed at brake set %g, want %g", onDrum, got, v)
@@ -904,7 +925,7 @@ func TestDynamicsRecords(t *testing.T) {
 	}{
 		{"motor-accel-torque", calc.MotorAccelTorque, []string{"drum_angular_acceleration_rad_s2", "load_torque_nm", "drum_inertia_torque_nm", "rotor_inertia_torque_nm", "peak_torque_nm"}},
 		{"gearbox-torque", calc.GearboxTorque, []string{"accel_drum_torque_nm", "stop_drum_torque_nm"}},
-		{"brake-stop", stop, []string{"distance_m", "time_s", "deceleration_m_s2", "peak_rope_tension_n", "peak_design_factor", "speed_at_brake_set_m_s", "runaway_distance_m"}},
+		{"brake-stop", stop, []string{"distance_m", "time_s", "deceleration_m_s2", "peak_rope_tension_n", "peak_design_factor", "speed_at_brake_set_m_s", "runaway_distance_m", "stop_layer", "initial_speed_m_s"}},
 		{"runaway", calc.Runaway, []string{"acceleration_m_s2", "drum_angular_acceleration_rad_s2", "rope_tension_n", "time_to_rated_speed_s", "fall_speed_m_s", "fall_energy_j", "equivalent_mass_kg"}},
 		{"shaft-load", calc.ShaftLoad, []string{"drum_weight_n", "rope_pull_n", "total_n"}},
 	}
