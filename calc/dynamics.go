@@ -196,16 +196,25 @@ func (t dynTrain) runawayAccel(r float64) float64 {
 //	a_ff  = m g / m_eq                       (0 when self-locking)       [m/s²]
 //	T     = m (g − a_ff) / n                 mean rope tension per part   [N]
 //	α_d   = a_ff n_e / r                     drum angular acceleration    [rad/s²]
-//	t_v   = v / a_ff                         time to reach rated speed v  [s]
+//	t_v   = v_j / a_ff,  v_j = v r / r_1     time to reach the rated lowering speed
+//	                                         on the layer of radius r     [s]
 //	v_H   = √(2 a_ff H)                      speed after falling H        [m/s]
 //	E_H   = ½ m v_H² = m a_ff H              load's kinetic energy then   [J]
+//	N_H   = v_H i n_e / r · 60/(2π)          rotor speed after falling H  [rev/min]
+//	N_H / N                                  rotor overspeed ratio        [1]
 //
 // Symbols: m = m_L + m_H load on the hook [kg]; g gravity [m/s²]; n parts of line; n_e
 // = n/e parts per rope end; r drum pitch radius [m]; I_d drum inertia, J_m motor-shaft
 // inertia [kg m²]; i gear ratio; η_RD reeving × deflection-sheave efficiency; η_gb gear
-// back-driving efficiency; v the rated HOISTING speed h.HoistSpeedMS [m/s] (design.md's
-// symbol v, "rated hoist speed (first layer)"; the lowering speed is used by BrakeStop,
-// not here); H lift height [m].
+// back-driving efficiency; v the rated lowering speed on the first layer
+// (h.LoweringSpeed(): the hoisting speed where none is given) [m/s], v_j its value on the
+// layer of radius r (the motor turns at the same speed on every layer; design.md
+// Revision 2); H lift height [m]; N the motor's rated speed [rev/min].
+//
+// The rotor speed is the hazard of a runaway: the load's fall speed reaches the motor
+// multiplied by the drive's speed ratio i n_e / r (rope kinematics: drum ω = n_e v / r,
+// rotor = i × drum), so a fall of a few m/s on a hoist geared 80:1 spins the rotor at
+// tens of thousands of rev/min, many times its rated speed.
 //
 // Derivation (Newton's second law for each body, kinematic constraint α_d = a n_e/r,
 // design.md loss model): load m a = m g − n T; the rope system delivers η_RD of the
@@ -218,20 +227,29 @@ func (t dynTrain) runawayAccel(r float64) float64 {
 // Evaluated at r_1 and r_L; reported at the radius giving the larger acceleration (the
 // outer layer: the reflected inertia falls as 1/r²). Special cases: a self-locking train
 // (η_gb ≤ 0) has no runaway: a_ff = 0, T = m g/n, equivalent mass NaN (not defined),
-// time to rated speed +Inf, fall speed and energy 0. Without a lift height (H ≤ 0) the
-// fall figures are NaN. Valid ranges: m ≥ 0, r > 0, i > 0, I_d, J_m ≥ 0, η in (0, 1],
-// η_gb in [−1, 1], v > 0.
+// time to rated speed +Inf, fall speed and energy 0, rotor speed and overspeed ratio NaN
+// (design.md: null when self-locking). Without a lift height (H ≤ 0) the fall figures
+// and the rotor speed are NaN; without a rated motor speed (N ≤ 0) the overspeed ratio
+// is NaN. Valid ranges: m ≥ 0, r > 0, i > 0, I_d, J_m ≥ 0, η in (0, 1], η_gb in [−1, 1],
+// v > 0.
 //
 // Figures: acceleration_m_s2, drum_angular_acceleration_rad_s2, rope_tension_n,
-// time_to_rated_speed_s, fall_speed_m_s, fall_energy_j, equivalent_mass_kg.
+// time_to_rated_speed_s, fall_speed_m_s, fall_energy_j, equivalent_mass_kg,
+// rotor_speed_after_fall_rpm, rotor_overspeed_ratio.
 func Runaway(h Hoist) (Outcome, error) {
 	t, err := dynTrainOf(h)
 	if err != nil {
 		return Outcome{}, fmt.Errorf("calc.Runaway: %w", err)
 	}
-	v := h.HoistSpeedMS
+	if !(h.LoweringSpeedMS >= 0) || math.IsInf(h.LoweringSpeedMS, 0) {
+		return Outcome{}, fmt.Errorf("calc.Runaway: %w", &RangeError{Field: "lowering_speed", Msg: fmt.Sprintf("lowering speed must be ≥ 0 (got %g m/s)", h.LoweringSpeedMS)})
+	}
+	v := h.LoweringSpeed()
 	if !(v > 0) || !dynFinite(v) {
-		return Outcome{}, fmt.Errorf("calc.Runaway: %w", &RangeError{Field: "hoist_speed", Msg: fmt.Sprintf("rated hoisting speed must be > 0 (got %g m/s)", v)})
+		return Outcome{}, fmt.Errorf("calc.Runaway: %w", &RangeError{Field: "hoist_speed", Msg: fmt.Sprintf("rated lowering (or hoisting) speed must be > 0 (got %g m/s)", v)})
+	}
+	if !(h.MotorSpeedRPM >= 0) || math.IsInf(h.MotorSpeedRPM, 0) {
+		return Outcome{}, fmt.Errorf("calc.Runaway: %w", &RangeError{Field: "motor_speed", Msg: fmt.Sprintf("motor speed must be ≥ 0 (got %g rpm)", h.MotorSpeedRPM)})
 	}
 	if !(h.LiftHeightM >= 0) || math.IsInf(h.LiftHeightM, 0) {
 		return Outcome{}, fmt.Errorf("calc.Runaway: %w", &RangeError{Field: "lift_height", Msg: fmt.Sprintf("lift height must be ≥ 0 (got %g m)", h.LiftHeightM)})
@@ -283,21 +301,30 @@ func Runaway(h Hoist) (Outcome, error) {
 	tension := t.m * (t.g - a) / t.n
 	meq := math.NaN()
 	timeV := math.Inf(1)
+	vj := v * r / t.radii[0] // the rated lowering speed on this layer
 	if !t.selfLocking() {
 		meq = t.runawayMass(r)
-		timeV = v / a
+		timeV = vj / a
 	}
 	fallV, fallE := math.NaN(), math.NaN()
+	rotorRPM, overspeed := math.NaN(), math.NaN()
 	H := h.LiftHeightM
 	if H > 0 {
 		fallV = math.Sqrt(2 * a * H)
 		fallE = 0.5 * t.m * fallV * fallV
+		if !t.selfLocking() {
+			rotorRPM = fallV * t.i * t.ne / r * 60 / (2 * math.Pi)
+			if h.MotorSpeedRPM > 0 {
+				overspeed = rotorRPM / h.MotorSpeedRPM
+			}
+		}
 	}
 	if rec {
 		out.Steps = append(out.Steps,
 			Step{Symbol: "α_d", Formula: "a_ff n_e / r", Numbers: fmt.Sprintf("%s × %s / %s", dynNum(a), dynNum(t.ne), dynNum(r)), Value: alpha, Unit: "rad/s2"},
 			Step{Symbol: "T", Formula: "m (g − a_ff) / n", Numbers: fmt.Sprintf("%s × (%s − %s) / %s", dynNum(t.m), dynNum(t.g), dynNum(a), dynNum(t.n)), Value: tension, Unit: "N"},
-			Step{Symbol: "t_v", Formula: "v / a_ff (v = rated hoisting speed)", Numbers: fmt.Sprintf("%s / %s", dynNum(v), dynNum(a)), Value: timeV, Unit: "s"},
+			Step{Symbol: "v_j", Formula: "v r / r_1 (rated lowering speed on this layer)", Numbers: fmt.Sprintf("%s × %s / %s", dynNum(v), dynNum(r), dynNum(t.radii[0])), Value: vj, Unit: "m/s"},
+			Step{Symbol: "t_v", Formula: "v_j / a_ff", Numbers: fmt.Sprintf("%s / %s", dynNum(vj), dynNum(a)), Value: timeV, Unit: "s"},
 		)
 	}
 	if rec && H > 0 {
@@ -305,6 +332,14 @@ func Runaway(h Hoist) (Outcome, error) {
 			Step{Symbol: "v_H", Formula: "√(2 a_ff H)", Numbers: fmt.Sprintf("√(2 × %s × %s)", dynNum(a), dynNum(H)), Value: fallV, Unit: "m/s"},
 			Step{Symbol: "E_H", Formula: "½ m v_H²", Numbers: fmt.Sprintf("0.5 × %s × %s²", dynNum(t.m), dynNum(fallV)), Value: fallE, Unit: "J"},
 		)
+		if !t.selfLocking() {
+			out.Steps = append(out.Steps,
+				Step{Symbol: "N_H", Formula: "v_H i n_e / r · 60/(2π)", Numbers: fmt.Sprintf("%s × %s × %s / %s × 60/(2π)", dynNum(fallV), dynNum(t.i), dynNum(t.ne), dynNum(r)), Value: rotorRPM, Unit: "rpm"})
+			if h.MotorSpeedRPM > 0 {
+				out.Steps = append(out.Steps,
+					Step{Symbol: "N_H/N", Formula: "rotor speed after the fall / rated motor speed", Numbers: dynNum(rotorRPM) + " / " + dynNum(h.MotorSpeedRPM), Value: overspeed, Unit: "1"})
+			}
+		}
 	}
 	out.Figures = h.Figs.take([]Figure{
 		{Name: "acceleration_m_s2", Value: a, Unit: "m/s2"},
@@ -314,13 +349,15 @@ func Runaway(h Hoist) (Outcome, error) {
 		{Name: "fall_speed_m_s", Value: fallV, Unit: "m/s"},
 		{Name: "fall_energy_j", Value: fallE, Unit: "J"},
 		{Name: "equivalent_mass_kg", Value: meq, Unit: "kg"},
+		{Name: "rotor_speed_after_fall_rpm", Value: rotorRPM, Unit: "rpm"},
+		{Name: "rotor_overspeed_ratio", Value: overspeed, Unit: "1"},
 	})
 	switch {
 	case t.selfLocking():
 		out.Note = "self-locking gear train (η_gb = " + dynNum(t.etaGB) + " ≤ 0): the load cannot drive the train, no runaway"
 	default:
 		out.Note = "runaway evaluated at the " + t.radiusWords(best) + " (larger acceleration); η_RD = " + dynNum(t.etaRD) +
-			", η_gb = " + dynNum(t.etaGB) + "; time to reach the rated hoisting speed"
+			", η_gb = " + dynNum(t.etaGB) + "; time to reach the rated lowering speed on that layer"
 	}
 	if H <= 0 {
 		out.Note += "; no lift height: fall speed and energy not computed"

@@ -332,9 +332,9 @@ func TestRunawayEnergyBalance(t *testing.T) {
 			if got := m*gSI - float64(h.Parts)*o.Figure("rope_tension_n"); !dynApproxEqual(got, m*a, 0, 1e-10) {
 				t.Errorf("m g − n T = %g, want m a = %g", got, m*a)
 			}
-			// Time to the rated (hoisting) speed at constant acceleration: t = v/a.
-			if got := o.Figure("time_to_rated_speed_s"); !dynApproxEqual(got*a, h.HoistSpeedMS, 0, 1e-12) {
-				t.Errorf("time to rated speed %g × a %g ≠ v %g", got, a, h.HoistSpeedMS)
+			// Time to the rated lowering speed at constant acceleration: t = v/a (one layer).
+			if got := o.Figure("time_to_rated_speed_s"); !dynApproxEqual(got*a, h.LoweringSpeed(), 0, 1e-12) {
+				t.Errorf("time to rated speed %g × a %g ≠ v %g", got, a, h.LoweringSpeed())
 			}
 		})
 	}
@@ -359,6 +359,36 @@ func TestRunawayWorkedHoists(t *testing.T) {
 	}
 	if got := o.Figure("rope_tension_n"); !dynApproxEqual(got, 5150*(gSI-want)/4, 0, 1e-9) {
 		t.Errorf("hoist A rope tension = %g, want %g", got, 5150*(gSI-want)/4)
+	}
+	// The rotor after the load has fallen the lift height (by hand, python3): v_H =
+	// √(2 × 0.4822956 × 12) = 3.402219 m/s; drum ω = n_e v_H / r_L = 2 × 3.402219 /
+	// 0.2138564 = 31.818 rad/s; rotor = 112 × 31.818 = 3563.59 rad/s = 34 029.8 rev/min,
+	// 23.47 × the rated 1450 rev/min. Time to the rated lowering speed on the outer layer:
+	// v_L / a_ff = (8/60 × 0.2138564/0.2) / 0.4822956 = 0.2956091 s.
+	for name, w := range map[string]float64{
+		"rotor_speed_after_fall_rpm": 34029.79906241023, // hand calculation above (computed)
+		"rotor_overspeed_ratio":      23.468826939593264,
+		"time_to_rated_speed_s":      0.29560906589380676,
+	} {
+		if got := o.Figure(name); !dynApproxEqual(got, w, 0, 1e-9) {
+			t.Errorf("hoist A %s = %.10g, want %.10g", name, got, w)
+		}
+	}
+	// Self-locking (no runaway) or no lift height: no rotor figures (design.md: null).
+	lock := hoistA()
+	lock.GearBackEff = -0.1
+	noH := hoistA()
+	noH.LiftHeightM = 0
+	for name, h := range map[string]calc.Hoist{"self-locking": lock, "no lift height": noH} {
+		o, err := calc.Runaway(h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, f := range []string{"rotor_speed_after_fall_rpm", "rotor_overspeed_ratio"} {
+			if got := o.Figure(f); !math.IsNaN(got) {
+				t.Errorf("%s: %s = %g, want NaN (null)", name, f, got)
+			}
+		}
 	}
 
 	// Hoist B in US customary units (ft, slug, lbf), converted with NIST SP 811.
@@ -926,7 +956,7 @@ func TestDynamicsRecords(t *testing.T) {
 		{"motor-accel-torque", calc.MotorAccelTorque, []string{"drum_angular_acceleration_rad_s2", "load_torque_nm", "drum_inertia_torque_nm", "rotor_inertia_torque_nm", "peak_torque_nm"}},
 		{"gearbox-torque", calc.GearboxTorque, []string{"accel_drum_torque_nm", "stop_drum_torque_nm"}},
 		{"brake-stop", stop, []string{"distance_m", "time_s", "deceleration_m_s2", "peak_rope_tension_n", "peak_design_factor", "speed_at_brake_set_m_s", "runaway_distance_m", "stop_layer", "initial_speed_m_s"}},
-		{"runaway", calc.Runaway, []string{"acceleration_m_s2", "drum_angular_acceleration_rad_s2", "rope_tension_n", "time_to_rated_speed_s", "fall_speed_m_s", "fall_energy_j", "equivalent_mass_kg"}},
+		{"runaway", calc.Runaway, []string{"acceleration_m_s2", "drum_angular_acceleration_rad_s2", "rope_tension_n", "time_to_rated_speed_s", "fall_speed_m_s", "fall_energy_j", "equivalent_mass_kg", "rotor_speed_after_fall_rpm", "rotor_overspeed_ratio"}},
 		{"shaft-load", calc.ShaftLoad, []string{"drum_weight_n", "rope_pull_n", "total_n"}},
 	}
 	for _, c := range checks {
