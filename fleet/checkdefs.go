@@ -353,7 +353,7 @@ func checkDefinitions() []Definition {
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, lim) }, rules, nil
 			}},
 		{ID: "runaway", Kind: Mechanical, NeedsOuterLayer: true,
-			Needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), Uses: join(driveUses, []string{"lowering_speed", "motor_speed", "lift_height"}),
+			Needs: join(loadNeeds, []string{"drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), Uses: join(driveUses, []string{"lowering_speed", "motor_speed"}),
 			Rule: "information: no limit", Source: "Newton's second law (brake released, motor unpowered)",
 			Reference: []string{"TestRunawayTextbook", "TestRunawayEnergyBalance", "ExampleRunaway"},
 			prepare:   noRule(calc.Runaway)},
