@@ -24,7 +24,7 @@ func TestFigureBufSameFigures(t *testing.T) {
 		{"motor-torque", calc.MotorTorque},
 		{"motor-power", calc.MotorPower},
 		{"hoist-speed", func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, 0.1) }},
-		{"brake-holding", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, 1.5, false) }},
+		{"brake-holding", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.5}) }},
 		{"brake-stop", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, 0) }},
 		{"runaway", calc.Runaway},
 		{"motor-accel-torque", calc.MotorAccelTorque},

@@ -36,8 +36,10 @@ func recChecks() []recCheck {
 		{"motor-torque", calc.MotorTorque},
 		{"motor-power", calc.MotorPower},
 		{"hoist-speed", func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, 0.10) }},
-		{"brake-holding", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, 1.25, false) }},
-		{"brake-holding each", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, 1.0, true) }},
+		{"brake-holding", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25}) }},
+		{"brake-holding each", func(h calc.Hoist) (calc.Outcome, error) {
+			return calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.0, Each: true})
+		}},
 		{"motor-accel-torque", calc.MotorAccelTorque},
 		{"gearbox-torque", calc.GearboxTorque},
 		{"brake-stop", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, 0.5) }},
@@ -239,7 +241,7 @@ func benchChecks(b *testing.B, h calc.Hoist) {
 		calc.MotorTorque,
 		calc.MotorPower,
 		func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, 0.10) },
-		func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, 1.25, false) },
+		func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25}) },
 		calc.MotorAccelTorque,
 		calc.GearboxTorque,
 		func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, 0.5) },

@@ -556,29 +556,63 @@ func HoistSpeed(h Hoist, tolerance float64) (Outcome, error) {
 	return o, nil
 }
 
-// BrakeHolding checks the holding brakes against the rated-load hoisting torque at the
-// point where they act (check brake-holding).
+// BrakeRule is the holding-brake rule in force for one hoist (rule ids brake.*).
+type BrakeRule struct {
+	// Factor f_b (> 0) multiplies the static torque T_s when Static, the hoisting torque
+	// T_h otherwise (rule brake.basis).
+	Factor float64
+	Static bool
+	// Each: the factor applies to each brake alone (capacity M_b), else to all together
+	// (N_b M_b) (rule brake.each).
+	Each bool
+	// EachFactor f_each (rule brake.each_factor): with N_b ≥ 2, each brake alone must
+	// also hold f_each T_h; 0 for no such rule.
+	EachFactor float64
+	// ControlBrakingCite, when set, says the rules require a control braking means that
+	// the register says the hoist lacks (rule brake.needs_control_braking): the check
+	// fails unless the gear train is self-locking (η_gb ≤ 0). The text is the citation.
+	ControlBrakingCite string
+	// MinBrakes (rule brake.min_brakes, 0 for none): fewer holding brakes fail the check,
+	// citing MinBrakesCite.
+	MinBrakes     int
+	MinBrakesCite string
+}
+
+// BrakeHolding checks the holding brakes against the rated-load torque at the point
+// where they act (check brake-holding; design.md Revision 2, "Holding brake").
 //
 // Formulas:
 //
-//	M_h(r) = e W r / (n η_RD) / (i η_g)     full-load hoisting torque, brake on the motor shaft
-//	M_h(r) = e W r / (n η_RD)               full-load hoisting torque, brake on the drum
-//	demand = f_b max(M_h(r_1), M_h(r_L))   [N m]
-//	capacity = N_b M_b, or M_b when each brake alone must hold;  unit "N m"
+//	T_h(r) = e W r / (n η_RD) / (i η_g)   hoisting torque, losses included, motor-shaft brake
+//	T_s(r) = e W r / n / i                static torque, no losses, motor-shaft brake
+//	(drum brake: without / (i η_g) and / i)
+//	u_all  = f_b T_basis / (N_b M_b),  or f_b T_basis / M_b where the rule says each
+//	u_each = f_each T_h / M_b          with N_b ≥ 2 (each brake alone)
+//	u = max(u_all, u_each), at the larger radius (r_L: the torques grow with r)
 //
-// "Full-load hoisting torque" is read as the torque the drive delivers to hoist the
-// rated load at the brake's shaft, losses included (the larger, conservative reading).
-// Symbols as in MotorTorque, plus f_b brake factor from the rules [1] (> 0; 1.25, or 1.0
-// with mechanical control braking or with two brakes each holding alone), M_b one
-// brake's rated torque [N m] (> 0), N_b number of brakes (≥ 1). The gear ratio and
-// efficiency are needed only for a motor-shaft brake. Figures:
-// full_load_hoisting_torque_nm (at the governing radius, without f_b), brake_factor,
-// brake_capacity_nm, radius_m.
+// Demand and Capacity are those of the governing term (f_b T_basis against N_b M_b or
+// M_b; f_each T_h against M_b), unit "N m". Symbols as in MotorTorque, plus f_b brake
+// factor [1] (> 0), f_each each-brake factor [1] (≥ 0), M_b one brake's rated torque
+// [N m] (> 0), N_b number of brakes (≥ 1). The gear ratio and efficiency are needed only
+// for a motor-shaft brake. Both torques grow in proportion to W, so u is affine in the
+// rated load (the rating search's closed form holds).
 //
-// Source: 29 CFR 1910.179(f)(2) (standards.md: law): at least 125 % of the rated-load
-// hoisting torque at the point of application, 100 % with mechanical control braking,
-// 100 % each when two holding brakes are fitted; ASME B30.2 the same (memory, medium).
-func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
+// Fails outright, whatever the utilisation: a hoist the rules require to have a
+// control braking means that has none and whose gear train is not self-locking
+// (29 CFR 1910.179(f)(1)(ii); Cal. Code Regs. tit. 8 §4898(b): law, read), and fewer
+// holding brakes than the rules require (hot metal with power control braking: two,
+// Cal. Code Regs. tit. 8 §4898(h): law, read).
+//
+// Figures: full_load_hoisting_torque_nm (T_h), static_torque_nm (T_s), brake_factor,
+// brake_capacity_nm (N_b M_b), required_brake_torque_nm (f_b T_basis), radius_m, and
+// each_brake_utilisation (u_each) with two or more brakes.
+//
+// Sources: 29 CFR 1910.179(f)(2) and Cal. Code Regs. tit. 8 §4898(c) (law, read): at
+// least 125 % of the full-load hoisting torque at the point where the brake is applied,
+// 100 % with mechanical control braking, 100 % each when two holding brakes are fitted;
+// 2006/42/EC Annex I 4.1.2.3 static test coefficient 1.25 (memory, high) on T_s; EN
+// 14492-2 1.6 (memory, low: a review limit) on T_h. The factors are rule values.
+func BrakeHolding(h Hoist, rule BrakeRule) (Outcome, error) {
 	if err := stCheckLoad(h); err != nil {
 		return Outcome{}, err
 	}
@@ -599,80 +633,139 @@ func BrakeHolding(h Hoist, factor float64, each bool) (Outcome, error) {
 	if h.Brakes < 1 {
 		return Outcome{}, &RangeError{Field: "brakes", Msg: fmt.Sprintf("number of holding brakes must be ≥ 1 (got %d)", h.Brakes)}
 	}
-	if err := stRule("brake factor", factor); err != nil {
+	if err := stRule("brake factor", rule.Factor); err != nil {
 		return Outcome{}, err
+	}
+	if !(rule.EachFactor >= 0) || math.IsInf(rule.EachFactor, 0) {
+		return Outcome{}, &RangeError{Field: "", Msg: fmt.Sprintf("rule value each-brake factor must be ≥ 0 (got %s): check the rule table", stGot(rule.EachFactor))}
 	}
 
 	rec := !h.SkipRecord && !h.SkipDetail
 	f, _, _, steps := stTension(h)
 	steps = append(steps, stRadiusSteps(h)...)
+	if !rec {
+		steps = nil
+	}
 	e := float64(h.RopeEnds)
-	best, bestIdx, bestR := -1.0, 0, 0.0
+	n := float64(h.Parts)
+	w := h.WeightN()
+	th, ts, bestIdx, bestR := -1.0, 0.0, 0, 0.0
 	radii, nr := h.radii()
 	for k, r := range radii[:nr] {
 		lbl := stRadiusLabel(k)
-		md := e * f * r
-		mh := md
+		mh, ms := e*f*r, e*w*r/n
 		if !h.BrakeOnDrum {
-			mh = md / (h.GearRatio * h.GearEff)
+			mh, ms = mh/(h.GearRatio*h.GearEff), ms/h.GearRatio
 		}
 		switch {
 		case rec && h.BrakeOnDrum:
-			steps = append(steps, stStep("M_h("+lbl+")", "e F "+lbl, "%s × %s × %s", md, "N m", e, f, r))
+			steps = append(steps,
+				stStep("T_h("+lbl+")", "e F "+lbl+" (hoisting torque at the drum)", "%s × %s × %s", mh, "N m", e, f, r),
+				stStep("T_s("+lbl+")", "e W "+lbl+" / n (static torque at the drum)", "%s × %s × %s / %s", ms, "N m", e, w, r, n))
 		case rec:
 			steps = append(steps,
-				stStep("M_d("+lbl+")", "e F "+lbl, "%s × %s × %s", md, "N m", e, f, r),
-				stStep("M_h("+lbl+")", "M_d("+lbl+") / (i η_g)", "%s / (%s × %s)", mh, "N m", md, h.GearRatio, h.GearEff),
-			)
+				stStep("T_h("+lbl+")", "e F "+lbl+" / (i η_g)", "%s × %s × %s / (%s × %s)", mh, "N m", e, f, r, h.GearRatio, h.GearEff),
+				stStep("T_s("+lbl+")", "e W "+lbl+" / (n i)", "%s × %s × %s / (%s × %s)", ms, "N m", e, w, r, n, h.GearRatio))
 		}
-		if mh > best {
-			best, bestIdx, bestR = mh, k, r
+		if mh > th {
+			th, ts, bestIdx, bestR = mh, ms, k, r
 		}
 	}
-	demand := factor * best
+	basis, basisSym := th, "T_h"
+	if rule.Static {
+		basis, basisSym = ts, "T_s"
+	}
+	demand := rule.Factor * basis
 	capacity := float64(h.Brakes) * h.BrakeTorqueNm
-	if each {
+	if rule.Each {
 		capacity = h.BrakeTorqueNm
 	}
 	u := demand / capacity
+	uEach := math.NaN()
+	if h.Brakes >= 2 && rule.EachFactor > 0 {
+		uEach = rule.EachFactor * th / h.BrakeTorqueNm
+	}
 	if rec {
-		steps = append(steps, stStep("M_req", "f_b M_h", "%s × %s", demand, "N m", factor, best))
-		if each {
+		steps = append(steps, stStep("M_req", "f_b "+basisSym, "%s × %s", demand, "N m", rule.Factor, basis))
+		if rule.Each {
 			steps = append(steps, stStep("M_cap", "M_b (each brake alone)", "%s", capacity, "N m", h.BrakeTorqueNm))
 		} else {
 			steps = append(steps, stStep("M_cap", "N_b M_b", "%s × %s", capacity, "N m", float64(h.Brakes), h.BrakeTorqueNm))
 		}
-		steps = append(steps, stStep("u", "M_req / M_cap", "%s / %s", u, "1", demand, capacity))
+		steps = append(steps, stStep("u_all", "M_req / M_cap", "%s / %s", u, "1", demand, capacity))
+		if !math.IsNaN(uEach) {
+			steps = append(steps, stStep("u_each", "f_each T_h / M_b (each brake alone)", "%s × %s / %s", uEach, "1", rule.EachFactor, th, h.BrakeTorqueNm))
+		}
+	}
+	util := u
+	eachGoverns := !math.IsNaN(uEach) && uEach > u
+	if eachGoverns {
+		util, demand, capacity = uEach, rule.EachFactor*th, h.BrakeTorqueNm
+	}
+	if rec && !math.IsNaN(uEach) {
+		steps = append(steps, stStep("u", "max(u_all, u_each)", "max(%s, %s)", util, "1", u, uEach))
 	}
 
+	verdict := ByUtilisation
+	var fails []string
+	if rule.ControlBrakingCite != "" && h.GearBackEff > 0 {
+		verdict = Fail
+		fails = append(fails, "no control braking means, and the gear train is not self-locking: every hoisting unit except a self-locking worm-geared one needs one besides the holding brake ("+rule.ControlBrakingCite+")")
+	}
+	if rule.MinBrakes > 0 && h.Brakes < rule.MinBrakes {
+		verdict = Fail
+		fails = append(fails, fmt.Sprintf("%d holding brake(s), the rules require at least %d (%s)", h.Brakes, rule.MinBrakes, rule.MinBrakesCite))
+	}
+	if h.SkipDetail {
+		return Outcome{Demand: demand, Capacity: capacity, Unit: "N m", Utilisation: util, Verdict: verdict}, nil
+	}
 	where := "motor shaft"
 	if h.BrakeOnDrum {
 		where = "drum"
 	}
-	if h.SkipDetail {
-		return Outcome{Demand: demand, Capacity: capacity, Unit: "N m", Utilisation: u, Verdict: ByUtilisation}, nil
-	}
 	note := "brake on the " + where
-	if each && h.Brakes > 1 {
+	if rule.Static {
+		note += "; factor on the static torque T_s (no losses)"
+	} else {
+		note += "; factor on the hoisting torque T_h (losses included)"
+	}
+	switch {
+	case eachGoverns:
+		note += "; each brake alone must hold f_each T_h, which governs"
+	case rule.Each && h.Brakes > 1:
 		note += "; each brake alone must hold"
 	}
 	if bestIdx > 0 {
 		note += "; " + stOuterNote(h)
 	}
+	for _, f := range fails {
+		note += "; FAIL: " + f
+	}
 	return Outcome{
 		Demand:      demand,
 		Capacity:    capacity,
 		Unit:        "N m",
-		Utilisation: u,
-		Verdict:     ByUtilisation,
+		Utilisation: util,
+		Verdict:     verdict,
 		Note:        note,
-		Figures: h.Figs.take([]Figure{
-			{Name: "full_load_hoisting_torque_nm", Value: best, Unit: "N m"},
-			{Name: "brake_factor", Value: factor, Unit: "1"},
-			{Name: "brake_capacity_nm", Value: capacity, Unit: "N m"},
-			{Name: "required_brake_torque_nm", Value: demand, Unit: "N m"},
-			{Name: "radius_m", Value: bestR, Unit: "m"},
-		}),
-		Steps: steps,
+		Figures:     h.Figs.take(brakeFigures(th, ts, rule.Factor, float64(h.Brakes)*h.BrakeTorqueNm, rule.Factor*basis, uEach, bestR)),
+		Steps:       steps,
 	}, nil
+}
+
+// brakeFigures are BrakeHolding's figures; each_brake_utilisation only where the
+// each-brake rule applies (two or more brakes).
+func brakeFigures(th, ts, factor, capacity, required, uEach, r float64) []Figure {
+	fs := []Figure{
+		{Name: "full_load_hoisting_torque_nm", Value: th, Unit: "N m"},
+		{Name: "static_torque_nm", Value: ts, Unit: "N m"},
+		{Name: "brake_factor", Value: factor, Unit: "1"},
+		{Name: "brake_capacity_nm", Value: capacity, Unit: "N m"},
+		{Name: "required_brake_torque_nm", Value: required, Unit: "N m"},
+		{Name: "radius_m", Value: r, Unit: "m"},
+	}
+	if !math.IsNaN(uEach) {
+		fs = append(fs, Figure{Name: "each_brake_utilisation", Value: uEach, Unit: "1"})
+	}
+	return fs
 }

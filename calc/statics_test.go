@@ -415,7 +415,7 @@ func TestBrakeHolding(t *testing.T) {
 	// 29 CFR 1910.179(f)(2) (standards.md: law): ≥ 125 % of the rated-load hoisting
 	// torque where the brake acts. Motor shaft, by hand: 1.25 × 131.76983 = 164.71228 N m
 	// against one 200 N m brake: u = 0.8235614.
-	o, err := calc.BrakeHolding(siHoist(), 1.25, false)
+	o, err := calc.BrakeHolding(siHoist(), calc.BrakeRule{Factor: 1.25})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -435,7 +435,7 @@ func TestBrakeHolding(t *testing.T) {
 	h := siHoist()
 	h.BrakeOnDrum, h.BrakeTorqueNm = true, 6500
 	h.GearRatio, h.GearEff = 0, 0 // not needed for a drum brake
-	d, err := calc.BrakeHolding(h, 1.25, false)
+	d, err := calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -447,8 +447,8 @@ func TestBrakeHolding(t *testing.T) {
 	// Two brakes: both together (N_b M_b), or each alone at 100 % (29 CFR 1910.179(f)(2)).
 	h = siHoist()
 	h.Brakes, h.BrakeTorqueNm = 2, 150
-	both, _ := calc.BrakeHolding(h, 1.25, false)
-	each, _ := calc.BrakeHolding(h, 1.0, true)
+	both, _ := calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25})
+	each, _ := calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.0, Each: true})
 	runFigChecks(t, []figCheck{
 		{"both capacity", both.Capacity, 300, 0, "2 × 150"},
 		{"both u", both.Utilisation, 164.71228 / 300, 1e-6, "hand"},
@@ -462,13 +462,13 @@ func TestBrakeHolding(t *testing.T) {
 	// Outer layer governs and the demand scales with r_L/r_1; affine in load.
 	h = siHoist()
 	h.Layers = 2
-	two, _ := calc.BrakeHolding(h, 1.25, false)
+	two, _ := calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25})
 	rL := 0.2 + (math.Sqrt(3)/2)*0.020
 	if !approxEqual(two.Demand/o.Demand, rL/0.2, 0, 1e-12) || !strings.Contains(two.Note, "outer layer") {
 		t.Errorf("outer layer ratio %g, note %q", two.Demand/o.Demand, two.Note)
 	}
 	u := func(kg float64) float64 {
-		r, _ := calc.BrakeHolding(siHoist().WithRatedLoad(kg), 1.25, false)
+		r, _ := calc.BrakeHolding(siHoist().WithRatedLoad(kg), calc.BrakeRule{Factor: 1.25})
 		return r.Utilisation
 	}
 	if !approxEqual(u(3000)-u(2000), u(2000)-u(1000), 0, 1e-12) {
@@ -487,11 +487,80 @@ func TestBrakeHolding(t *testing.T) {
 	} {
 		h := siHoist()
 		tt.mod(&h)
-		_, err := calc.BrakeHolding(h, 1.25, false)
+		_, err := calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25})
 		checkRangeError(t, err, tt.field)
 	}
-	_, err = calc.BrakeHolding(siHoist(), math.Inf(1), false)
+	_, err = calc.BrakeHolding(siHoist(), calc.BrakeRule{Factor: math.Inf(1)})
 	checkRangeError(t, err, "")
+}
+
+// TestBrakeHoldingRevision2 checks design.md Revision 2's holding-brake rule: the factor's
+// basis (static or hoisting torque), each of two brakes alone, the control braking means
+// and the minimum number of brakes.
+func TestBrakeHoldingRevision2(t *testing.T) {
+	// Static torque at the motor shaft, by hand: T_s = e W r / (n i) = 1 × 5000 × 9.81 ×
+	// 0.2 / (2 × 40) = 122.625 N m (no losses). ISO floor: 1.25 T_s (2006/42/EC Annex I
+	// 4.1.2.3 static test coefficient, memory high) = 153.28125 N m against 200 N m.
+	st, err := calc.BrakeHolding(siHoist(), calc.BrakeRule{Factor: 1.25, Static: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	runFigChecks(t, []figCheck{
+		{"static_torque_nm", st.Figure("static_torque_nm"), 122.625, 1e-12, "hand"},
+		{"static demand", st.Demand, 153.28125, 1e-12, "hand"},
+		{"static u", st.Utilisation, 0.76640625, 1e-12, "hand"},
+		// T_h / T_s = 1 / (η_R η_g): the losses count against the hoisting torque
+		// (η_R for 2 parts at 0.98 = 0.99, η_g 0.94).
+		{"T_h / T_s", st.Figure("full_load_hoisting_torque_nm") / st.Figure("static_torque_nm"), 1 / (0.99 * 0.94), 1e-12, "identity"},
+	})
+
+	// Two brakes each 0.8 × the rated-load hoisting torque: together they meet the ISO
+	// floor easily (1.25 T_s / (2 × 0.8 T_h) = 0.72), but neither holds the load alone:
+	// u_each = 1.0 T_h / (0.8 T_h) = 1.25 (each-brake factor 1.0: 29 CFR
+	// 1910.179(f)(2)(i)(c), law; redundancy in the ISO profile) — a fail.
+	h := siHoist()
+	th := 131.76983 // T_h by hand (TestBrakeHolding)
+	h.Brakes, h.BrakeTorqueNm = 2, 0.8*th
+	two, err := calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25, Static: true, EachFactor: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	runFigChecks(t, []figCheck{
+		{"each u", two.Utilisation, 1.25, 1e-6, "1 / 0.8"},
+		{"each_brake_utilisation", two.Figure("each_brake_utilisation"), 1.25, 1e-6, "1 / 0.8"},
+		{"each capacity", two.Capacity, 0.8 * th, 1e-12, "one brake"},
+	})
+	if !strings.Contains(two.Note, "each brake alone") {
+		t.Errorf("note %q does not say each brake governs", two.Note)
+	}
+	// One brake: the each-brake rule does not apply.
+	one, _ := calc.BrakeHolding(siHoist(), calc.BrakeRule{Factor: 1.25, EachFactor: 1})
+	if !math.IsNaN(one.Figure("each_brake_utilisation")) {
+		t.Errorf("one brake: each_brake_utilisation %g, want NaN", one.Figure("each_brake_utilisation"))
+	}
+
+	// 29 CFR 1910.179(f)(1)(ii) (law, read in OSHA's letter of 15 November 2005): a hoist
+	// without a control braking means fails unless its worm gear is self-locking.
+	cite := "29 CFR 1910.179(f)(1)(ii)"
+	none, _ := calc.BrakeHolding(siHoist(), calc.BrakeRule{Factor: 1.25, ControlBrakingCite: cite})
+	if none.Verdict != calc.Fail || !strings.Contains(none.Note, cite) {
+		t.Errorf("no control braking: verdict %v, note %q; want Fail citing %s", none.Verdict, none.Note, cite)
+	}
+	lock := siHoist()
+	lock.GearBackEff = -0.1
+	if o, _ := calc.BrakeHolding(lock, calc.BrakeRule{Factor: 1.25, ControlBrakingCite: cite}); o.Verdict != calc.ByUtilisation {
+		t.Errorf("self-locking train without control braking: verdict %v, want ByUtilisation", o.Verdict)
+	}
+	// Cal. Code Regs. tit. 8 §4898(h) (law, read): hot metal with power control braking
+	// needs at least two holding brakes.
+	if o, _ := calc.BrakeHolding(siHoist(), calc.BrakeRule{Factor: 1.25, MinBrakes: 2, MinBrakesCite: "§4898(h)"}); o.Verdict != calc.Fail {
+		t.Errorf("one brake where two are required: verdict %v, want Fail", o.Verdict)
+	}
+	h = siHoist()
+	h.Brakes, h.BrakeTorqueNm = 2, 200
+	if o, _ := calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25, MinBrakes: 2, MinBrakesCite: "§4898(h)"}); o.Verdict != calc.ByUtilisation {
+		t.Errorf("two brakes where two are required: verdict %v", o.Verdict)
+	}
 }
 
 func TestMotorErrors(t *testing.T) {
@@ -570,7 +639,7 @@ func TestUSCustomaryHoist(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	br, err := calc.BrakeHolding(h, 1.25, false)
+	br, err := calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -612,7 +681,7 @@ func TestOutcomesConsistent(t *testing.T) {
 		"motor-torque":       func() (calc.Outcome, error) { return calc.MotorTorque(h) },
 		"motor-power":        func() (calc.Outcome, error) { return calc.MotorPower(h) },
 		"hoist-speed":        func() (calc.Outcome, error) { return calc.HoistSpeed(h, 0.1) },
-		"brake-holding":      func() (calc.Outcome, error) { return calc.BrakeHolding(h, 1.25, false) },
+		"brake-holding":      func() (calc.Outcome, error) { return calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25}) },
 	}
 	for id, f := range outs {
 		o, err := f()

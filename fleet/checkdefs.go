@@ -307,20 +307,12 @@ func checkDefinitions() []Definition {
 		{ID: "brake-holding", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
 			advise: overLimit("holding brake demand", "fit holding brakes of at least", "N m", 1),
 			Needs:  join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), Uses: brakeUses,
-			Rules:     []string{"brake.factor", "brake.each"},
-			Reference: []string{"TestBrakeHolding"},
-			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
-				f, r1, err := d.rule("brake.factor")
-				if err != nil {
-					return nil, nil, err
-				}
-				each, r2, err := d.ruleWord("brake.each")
-				if err != nil {
-					return nil, nil, err
-				}
-				e := each == "yes"
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, f, e) }, d.usedRows(r1, r2), nil
-			}},
+			Rules:         []string{"brake.factor", "brake.basis", "brake.each", "brake.each_factor"},
+			OptionalRules: []string{"brake.needs_control_braking", "brake.min_brakes"},
+			Rule:          "brake factor × rated-load torque at the brake ≤ brake capacity; with two or more brakes each alone holds the rated load",
+			Source:        "the rule table's brake rows",
+			Reference:     []string{"TestBrakeHolding", "TestBrakeHoldingRevision2"},
+			prepare:       prepareBrakeHolding},
 		{ID: "brake-stop", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
 			advise: func(in adviceInput) advice {
 				switch {
@@ -584,4 +576,47 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []in
 		in.Figs = h.Figs
 		return calc.RopeWear(in)
 	}, rules, nil
+}
+
+// prepareBrakeHolding reads the holding-brake rules (design.md Revision 2, "Holding
+// brake" and "US control braking"): the factor and the torque it multiplies, whether it
+// applies to each brake, the each-brake factor, and where the rules in force have them,
+// the control braking means and the minimum number of brakes.
+func prepareBrakeHolding(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+	var rule calc.BrakeRule
+	f, r1, err := d.rule("brake.factor")
+	if err != nil {
+		return nil, nil, err
+	}
+	basis, r2, err := d.ruleWord("brake.basis")
+	if err != nil {
+		return nil, nil, err
+	}
+	each, r3, err := d.ruleWord("brake.each")
+	if err != nil {
+		return nil, nil, err
+	}
+	fe, r4, err := d.rule("brake.each_factor")
+	if err != nil {
+		return nil, nil, err
+	}
+	rule.Factor, rule.Static, rule.Each, rule.EachFactor = f, basis == "static", each == "yes", fe
+	rows := d.usedRows(r1, r2, r3, r4)
+	t := d.c.opts.Rules
+	if need, i := d.optionalWord("brake.needs_control_braking"); i >= 0 {
+		rows = append(rows, i)
+		if need == "yes" && d.scope.Attrs["control"] == "none" {
+			rule.ControlBrakingCite = t.RuleCite(i)
+		}
+	}
+	v, i, ok, err := d.optionalRule("brake.min_brakes")
+	if err != nil {
+		return nil, nil, err
+	}
+	if ok {
+		rows = append(rows, i)
+		rule.MinBrakes, rule.MinBrakesCite = int(v), t.RuleCite(i)
+	}
+	d.rowBuf = rows // keep a grown buffer
+	return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, rule) }, rows, nil
 }

@@ -42,15 +42,15 @@ type Checker struct {
 	results sync.Pool       // *Result, recycled by Run once written (recycle)
 }
 
-// ruleSet names up to four rows of the rule table (indices, unused slots −1): the rows
+// ruleSet names up to eight rows of the rule table (indices, unused slots −1): the rows
 // one check used for one hoist.
-type ruleSet [4]int32
+type ruleSet [8]int32
 
 type ruleText struct{ rule, source string }
 
 // ruleSetOf returns rows as a ruleSet, with ok false when there are too many to fit.
 func ruleSetOf(rows []int) (key ruleSet, ok bool) {
-	key = ruleSet{-1, -1, -1, -1}
+	key = ruleSet{-1, -1, -1, -1, -1, -1, -1, -1}
 	if len(rows) > len(key) {
 		return key, false
 	}
@@ -262,6 +262,13 @@ type preparedCheck struct {
 	message     string
 	rule        string
 	source      string
+	// review, when set, is the check prepared against the review rows that apply to it
+	// (design.md Revision 2, "Review limits"); reviewOnly: some rule had only a review
+	// row, so run itself is judged against review rows. reviewRule and reviewSource name
+	// those rows, reviewMsg is what the check says when it exceeds them.
+	review                              func(calc.Hoist) (calc.Outcome, error)
+	reviewOnly                          bool
+	reviewRule, reviewSource, reviewMsg string
 }
 
 func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
@@ -296,6 +303,7 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 		p.status, p.message = StatusUnchecked, "needs "+strings.Join(missing, ", ")
 		return p
 	}
+	d.reviewRows, d.reviewOnly = d.reviewRows[:0], false
 	run, rules, err := s.prepare(d)
 	if err != nil {
 		var fe *Error
@@ -312,7 +320,90 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 	if p.rule == "" {
 		p.rule, p.source = s.Rule, s.Source
 	}
+	if len(d.reviewRows) > 0 {
+		c.prepareReview(d, s, &p)
+	}
 	return p
+}
+
+// prepareReview readies the review of a check whose rules have review rows (provenance
+// "memory, low": design.md Revision 2, "Review limits"): the check is prepared once more
+// with those rows in place of the verified ones. Its verdict and rating stay those of the
+// verified rows; exceeding the review rows makes it at worst marginal with a message
+// naming them. When a rule has only a review row, the check itself is judged against
+// review rows (reviewOnly): then it never fails and does not enter the rating.
+func (c *Checker) prepareReview(d *hoistData, s *checkSpec, p *preparedCheck) {
+	t := c.opts.Rules
+	var ids, srcs []string
+	for _, r := range d.reviewRows {
+		row := &t.Rules[r]
+		v := row.ID + " = " + row.Value
+		if row.Unit != "" && row.Unit != "1" {
+			v += " " + row.Unit
+		}
+		if !slices.Contains(ids, v) {
+			ids = append(ids, v)
+		}
+		if cite := t.RuleCite(r); !slices.Contains(srcs, cite) {
+			srcs = append(srcs, cite)
+		}
+	}
+	p.reviewRule, p.reviewSource = strings.Join(ids, ", "), strings.Join(srcs, "; ")
+	p.reviewMsg = "exceeds " + p.reviewRule + " (" + p.reviewSource + "), which is not verified: check the document before relying on it"
+	if d.reviewOnly {
+		p.reviewOnly = true
+		return
+	}
+	used := len(d.rules)
+	d.reviewMode = true
+	run, _, err := s.prepare(d)
+	d.reviewMode, d.closedLimit = false, nil
+	d.rules = append(d.rules[:used], d.reviewRows...) // count the review rows once, not the verified ones again
+	if err == nil {
+		p.review = run
+	}
+}
+
+// applyReview judges a check that ran against its review limit: the utilisation is
+// shown, and exceeding the limit makes a passing check marginal with the message; a
+// check judged against review rows only never fails and sets no rating limit.
+func (c *Checker) applyReview(cr *CheckResult, p *preparedCheck, h calc.Hoist) {
+	if p.reviewRule == "" || (cr.Status != StatusPass && cr.Status != StatusMarginal && cr.Status != StatusFail) {
+		return
+	}
+	u := cr.Utilisation
+	exceeded := cr.Status == StatusFail
+	if !p.reviewOnly {
+		if p.review == nil {
+			return
+		}
+		hr := h
+		hr.SkipRecord = true
+		o, err := p.review(hr)
+		if err != nil {
+			return
+		}
+		u = o.Utilisation
+		exceeded = o.Verdict == calc.Fail || (o.Verdict == calc.ByUtilisation && u > 1+utilisationTolerance)
+	}
+	cr.ReviewUtilisation, cr.ReviewRule, cr.ReviewSource = u, p.reviewRule, p.reviewSource
+	if p.reviewOnly {
+		cr.LimitRatedLoadKg = math.NaN() // the rating search uses the verified rows only
+		if cr.Status == StatusFail {
+			cr.Status = StatusMarginal
+		}
+	}
+	if !exceeded {
+		return
+	}
+	if cr.Status == StatusPass {
+		cr.Status = StatusMarginal
+	}
+	if cr.Message == "" {
+		cr.Message = p.reviewMsg
+	} else {
+		cr.Message += "; " + p.reviewMsg
+	}
 }
 
 // evaluate runs every prepared check at hoist state h.
@@ -325,7 +416,7 @@ func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck,
 	for _, p := range prepared {
 		cr := CheckResult{ID: p.spec.ID, Demand: math.NaN(), Capacity: math.NaN(), Utilisation: math.NaN(),
 			Margin: math.NaN(), LimitRatedLoadKg: math.NaN(), Rule: p.rule, Source: p.source,
-			LoadDependent: p.spec.LoadDependent}
+			LoadDependent: p.spec.LoadDependent, RequiredCapacity: math.NaN(), ReviewUtilisation: math.NaN()}
 		if p.run == nil {
 			cr.Status, cr.Message = p.status, p.message
 		} else {
@@ -336,6 +427,12 @@ func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck,
 				c.fill(&cr, o, p.spec.NoBand)
 				if limits && p.spec.LoadDependent {
 					cr.LimitRatedLoadKg = c.limitLoad(h, p, o)
+				}
+				c.applyReview(&cr, &p, h)
+				if p.spec.LoadDependent && cr.Status == StatusFail {
+					// What the check would need to pass: its capacity scaled by the
+					// utilisation (= the demand where utilisation is demand / capacity).
+					cr.RequiredCapacity = cr.Capacity * cr.Utilisation
 				}
 			}
 		}

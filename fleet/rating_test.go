@@ -116,9 +116,10 @@ func TestLimitLoadClosedForm(t *testing.T) {
 		Jm    = 0.05 // motor inertia
 		Mb    = 75.0
 		MBF   = 136.8e3
-		Zp    = 4.5 // standards.md: ISO 4308-1 Zp M5, seen
-		fb    = 1.6 // standards.md: EN 14492-2 brake factor, memory low (ISO profile value)
-		v     = 0.1 // 6 m/min
+		Zp    = 4.5  // standards.md: ISO 4308-1 Zp M5, seen
+		fb    = 1.25 // ISO profile: 2006/42/EC Annex I 4.1.2.3 static test coefficient (memory, high) on the static torque
+		fbRev = 1.6  // ISO profile review limit: EN 14492-2 (memory, low) on the hoisting torque
+		v     = 0.1  // 6 m/min
 		Tgb   = 12000.0
 		sMax  = 0.25 // stopDistanceRule
 	)
@@ -133,8 +134,9 @@ func TestLimitLoadClosedForm(t *testing.T) {
 		"motor-torque": Mr*i*etaG*n*etaRD/(e*g*r) - mH,
 		// m g v/η_h ≤ P, η_h = η_RD η_g.
 		"motor-power": P*etaRD*etaG/(g*v) - mH,
-		// f_b e W r/(n η_RD)/(i η_g) ≤ N_b M_b.
-		"brake-holding": Mb*i*etaG*n*etaRD/(fb*e*g*r) - mH,
+		// f_b e W r/(n i) ≤ N_b M_b: the verified ISO floor on the static torque T_s
+		// (design.md Revision 2); the review limit 1.6 T_h does not enter the rating.
+		"brake-holding": Mb*i*n/(fb*e*g*r) - mH,
 		// [e m (g+a) r/(n η_RD) + I_d α_d]/(i η_g) + J_m i α_d ≤ p M_r.
 		"motor-accel-torque": ((p*Mr-Jm*i*ad)*i*etaG-Id*ad)*n*etaRD/(e*(g+a)*r) - mH,
 		// e m (g+a) r/(n η_RD) + I_d a n_e/r ≤ gearbox rating (the accelerating torque
@@ -207,10 +209,18 @@ func TestLimitLoadClosedForm(t *testing.T) {
 			if r.GoverningCheck != gov || r.MaxRatedLoadKg != min {
 				t.Errorf("rating %.1f kg by %q, want the smallest limit %.1f kg by %q", r.MaxRatedLoadKg, r.GoverningCheck, min, gov)
 			}
-			// For this hoist the brake holding governs (hand values: brake-holding ≈ 6582 kg,
-			// motor torque ≈ 6991 kg, motor power ≈ 6997 kg).
-			if gov != "brake-holding" {
-				t.Errorf("governing check %q, want brake-holding (smallest hand-computed limit)", gov)
+			// For this hoist the motor torque governs (hand values: motor torque ≈ 6991 kg,
+			// motor power ≈ 6997 kg, brake-holding ≈ 9098 kg on the ISO floor 1.25 T_s;
+			// the review limit 1.6 T_h would give ≈ 6582 kg but never enters the rating).
+			if gov != "motor-torque" {
+				t.Errorf("governing check %q, want motor-torque (smallest hand-computed limit)", gov)
+			}
+			// The review limit is shown: 1.6 T_h / M_b at the rated load, T_h = e W r /
+			// (n η_RD i η_g).
+			bh := mustCheck(t, r, "brake-holding")
+			wantReview := fbRev * e * (5000 + mH) * g * 0.15 / (n * etaRD * i * etaG) / Mb // r = 0.15 m
+			if !approxEqual(bh.ReviewUtilisation, wantReview, 0, 1e-12) || !strings.Contains(bh.ReviewRule, "brake.factor = 1.6") {
+				t.Errorf("brake-holding review %.6f (%q), want %.6f against brake.factor = 1.6", bh.ReviewUtilisation, bh.ReviewRule, wantReview)
 			}
 		})
 	}
@@ -291,7 +301,7 @@ func TestRatingNullWhenLoadIndependentCheckFails(t *testing.T) {
 func TestRatingCappedByComponentWLL(t *testing.T) {
 	c := isoChecker(t)
 	mech := c.Check(winchA(t).asset())
-	if mech.GoverningCheck != "brake-holding" {
+	if mech.GoverningCheck != "motor-torque" {
 		t.Fatalf("test premise: governing %q", mech.GoverningCheck)
 	}
 
@@ -313,7 +323,7 @@ func TestRatingCappedByComponentWLL(t *testing.T) {
 // reported beside the rated-load evaluation (design.md).
 func TestProposedRatedLoad(t *testing.T) {
 	c := isoChecker(t)
-	const proposed = 7000.0 // above winchA's brake-holding limit (≈ 6582 kg)
+	const proposed = 7000.0 // above winchA's motor-torque limit (≈ 6991 kg) and its brake review limit (≈ 6582 kg)
 	r := c.Check(winchA(t).num("proposed_rated_load", proposed).asset())
 	if r.Proposed == nil {
 		t.Fatal("no proposed evaluation")
@@ -345,9 +355,16 @@ func TestProposedRatedLoad(t *testing.T) {
 			t.Errorf("%s: rated %v %.6f, proposed %v %.6f: want unchanged", id, a.Status, a.Utilisation, b.Status, b.Utilisation)
 		}
 	}
-	// 7000 kg exceeds the brake-holding limit: the proposed verdict fails, the rated passes.
-	if r.Status == StatusFail || p.Status != StatusFail || p.Check("brake-holding").Status != StatusFail {
-		t.Errorf("rated %v, proposed %v (brake-holding %v): want not fail, fail, fail", r.Status, p.Status, p.Check("brake-holding").Status)
+	// 7000 kg exceeds the motor-torque limit: the proposed verdict fails, the rated passes.
+	if r.Status == StatusFail || p.Status != StatusFail || p.Check("motor-torque").Status != StatusFail {
+		t.Errorf("rated %v, proposed %v (motor-torque %v): want not fail, fail, fail", r.Status, p.Status, p.Check("motor-torque").Status)
+	}
+	// It also exceeds the ISO brake review limit (EN 14492-2 1.6 T_h, memory low), which is
+	// never a fail: brake-holding is marginal with the review's message (design.md
+	// Revision 2, "Review limits"), its verified floor 1.25 T_s passing.
+	if bh := p.Check("brake-holding"); bh.Status != StatusMarginal || !(bh.ReviewUtilisation > 1) || bh.Utilisation > 0.9 ||
+		!strings.Contains(bh.Message, "which is not verified: check the document before relying on it") {
+		t.Errorf("proposed brake-holding %v, u %.3f, review %.3f, message %q: want marginal from the review limit alone", bh.Status, bh.Utilisation, bh.ReviewUtilisation, bh.Message)
 	}
 	// The last load test (6.25 t static, factor 1.25 → covers 5 t) does not cover 7 t.
 	if lt := p.Check("load-test"); lt.Status != StatusFail {
@@ -481,5 +498,37 @@ func TestRatingNullWhenAFailingLimitIsUnknown(t *testing.T) {
 	checks[1].LimitRatedLoadKg = 4200 // found: the smaller limit governs
 	if rt := c.rating(d, prepared, checks); rt.MaxRatedLoadKg != 4200 || rt.GoverningCheck != "gearbox-torque" {
 		t.Errorf("rating %v governed by %q, want 4200 kg, gearbox-torque", rt.MaxRatedLoadKg, rt.GoverningCheck)
+	}
+}
+
+// TestReviewLimitNeverFails (design.md Revision 2, "Review limits"): a rule row whose
+// provenance is "memory, low" is a review limit. A check judged against such a row alone
+// is at worst marginal, whatever its utilisation, with the message naming the unverified
+// source, and its limit does not enter the rating; confirmed (seen), the same row fails.
+func TestReviewLimitNeverFails(t *testing.T) {
+	// Zp = 20 for M5 (winchA is M5; ISO 4308-1 gives 4.5, seen): far above what the rope
+	// gives, so the check's utilisation exceeds 1 at the rated load.
+	const unverified = `rope.design_factor,M5,,20,1,"test: a value recalled with low confidence","memory, low",`
+	const confirmed = `rope.design_factor,M5,,20,1,"test: the same value, read in the document",seen,`
+	r := isoChecker(t, unverified).Check(winchA(t).asset())
+	cr := mustCheck(t, r, "rope-design-factor")
+	if !(cr.Utilisation > 1) {
+		t.Fatalf("test premise: utilisation %.3f, want above 1", cr.Utilisation)
+	}
+	if cr.Status != StatusMarginal {
+		t.Errorf("review limit exceeded: %v, want marginal (never fail)", cr.Status)
+	}
+	want := "exceeds rope.design_factor = 20 (test: a value recalled with low confidence [memory, low]), which is not verified: check the document before relying on it"
+	if !strings.Contains(cr.Message, want) {
+		t.Errorf("message %q, want it to contain %q", cr.Message, want)
+	}
+	if !approxEqual(cr.ReviewUtilisation, cr.Utilisation, 0, 0) || cr.ReviewRule != "rope.design_factor = 20" {
+		t.Errorf("review %.4f by %q, want the check's own utilisation %.4f by rope.design_factor = 20", cr.ReviewUtilisation, cr.ReviewRule, cr.Utilisation)
+	}
+	if !math.IsNaN(cr.LimitRatedLoadKg) || r.GoverningCheck == "rope-design-factor" || r.Status == StatusFail {
+		t.Errorf("limit %v, governing %q, status %v: a review limit enters neither the rating nor a fail", cr.LimitRatedLoadKg, r.GoverningCheck, r.Status)
+	}
+	if c := isoChecker(t, confirmed).Check(winchA(t).asset()); mustCheck(t, c, "rope-design-factor").Status != StatusFail {
+		t.Errorf("confirmed row (seen): %v, want fail", mustCheck(t, c, "rope-design-factor").Status)
 	}
 }

@@ -70,7 +70,60 @@ type hoistData struct {
 	// closedLimit is handed from a check's prepare to its preparedCheck: the limiting
 	// rated load in closed form, when the check has one.
 	closedLimit func(h calc.Hoist) float64
-	c           *Checker
+	// Review limits (design.md Revision 2): reviewRows are the review rows (provenance
+	// "memory, low") that apply to the rule ids one check's prepare looked up;
+	// reviewOnly is set when an id had a review row and no verified one (the prepare then
+	// used the review row); reviewMode makes the lookups prefer the review rows, to
+	// prepare the check once more against them.
+	reviewRows []int
+	reviewOnly bool
+	reviewMode bool
+	c          *Checker
+}
+
+// lookupRule returns the row of id that applies to this hoist: the verified row, or,
+// in review mode, the review row where there is one; it notes the review rows it saw.
+// -1 when no row applies.
+func (d *hoistData) lookupRule(id string) int {
+	i, ri := d.c.opts.Rules.LookupIndexes(id, d.scope)
+	if ri < 0 {
+		return i
+	}
+	if d.reviewMode {
+		return ri
+	}
+	d.reviewRows = append(d.reviewRows, ri)
+	if i < 0 {
+		d.reviewOnly = true
+		return ri
+	}
+	return i
+}
+
+// optionalRule looks up a rule that the rules in force may leave out: its value and
+// row, or ok false (and no error) when no row applies.
+func (d *hoistData) optionalRule(id string) (v float64, row int, ok bool, err error) {
+	i := d.lookupRule(id)
+	if i < 0 {
+		return 0, -1, false, nil
+	}
+	v, err = d.c.opts.Rules.ValueAt(i)
+	if err != nil {
+		return 0, -1, false, err
+	}
+	d.rules = append(d.rules, i)
+	return v, i, true, nil
+}
+
+// optionalWord looks up a word rule that the rules in force may not have ("" when no
+// row applies).
+func (d *hoistData) optionalWord(id string) (string, int) {
+	i := d.lookupRule(id)
+	if i < 0 {
+		return "", -1
+	}
+	d.rules = append(d.rules, i)
+	return strings.ToLower(strings.TrimSpace(d.c.opts.Rules.Rules[i].Value)), i
 }
 
 // usedRows returns rows in d's reusable buffer: a check's prepare returns the rule rows
@@ -123,7 +176,7 @@ func (d *hoistData) text(key string) string {
 // checks' units with the row's index in the table.
 func (d *hoistData) rule(id string) (float64, int, error) {
 	t := d.c.opts.Rules
-	i := t.LookupIndex(id, d.scope)
+	i := d.lookupRule(id)
 	if i < 0 {
 		return 0, -1, t.NoRowError(id, d.scope)
 	}
@@ -135,25 +188,10 @@ func (d *hoistData) rule(id string) (float64, int, error) {
 	return v, i, nil
 }
 
-// optionalRule looks up a rule that the rules in force may leave out: ok false (and no
-// error) when no row applies.
-func (d *hoistData) optionalRule(id string) (v float64, row int, ok bool, err error) {
-	t := d.c.opts.Rules
-	i := t.LookupIndex(id, d.scope)
-	if i < 0 {
-		return 0, -1, false, nil
-	}
-	if v, err = t.ValueAt(i); err != nil {
-		return 0, -1, false, err
-	}
-	d.rules = append(d.rules, i)
-	return v, i, true, nil
-}
-
 // ruleWord looks up a rule whose value is a word, lower-cased.
 func (d *hoistData) ruleWord(id string) (string, int, error) {
 	t := d.c.opts.Rules
-	i := t.LookupIndex(id, d.scope)
+	i := d.lookupRule(id)
 	if i < 0 {
 		return "", -1, fmt.Errorf("rule %s: no row of the %s rules applies", id, t.Profile)
 	}

@@ -21,6 +21,14 @@ type CheckResult struct {
 	Steps            []calc.Step
 	// LoadDependent marks checks that enter the maximum permissible rated load.
 	LoadDependent bool
+	// RequiredCapacity is what the check would need to pass (capacity × utilisation, in
+	// the unit of Capacity), for a failing load-dependent check; NaN otherwise.
+	RequiredCapacity float64
+	// Review is the check judged against a review limit (a rule row recalled with low
+	// confidence: design.md Revision 2), where one applies; ReviewRule is "" otherwise.
+	// Exceeding it makes the check at worst marginal, never fail.
+	ReviewUtilisation        float64
+	ReviewRule, ReviewSource string
 }
 
 // Rating is the maximum permissible rated load of one hoist.

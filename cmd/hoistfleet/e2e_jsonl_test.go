@@ -142,7 +142,19 @@ func checkHoistObject(t *testing.T, h jsonHoist) {
 		// Two documented exceptions: a fleet angle below the 0.5° minimum is marginal
 		// whatever u, and the load test is judged without the band (demo README).
 		belowMinAngle := cid == "fleet-angle" && st == "marginal" && u <= 0.9
-		if uok && (st == "pass" || st == "marginal" || st == "fail") && !belowMinAngle && cid != "load-test" {
+		// design.md Revision 2: a check that exceeds a review limit (a rule row recalled
+		// with low confidence) is marginal whatever its verified utilisation, and says so;
+		// a check may fail outright below utilisation 1 (no control braking means, too
+		// few brakes), and then says why.
+		review, _ := c["review"].(map[string]any)
+		ru, _ := num(review["utilisation"])
+		msg, _ := c["message"].(string)
+		reviewExceeded := st == "marginal" && review != nil && ru > 1 && strings.Contains(msg, "which is not verified")
+		if review != nil && (review["rule"] == "" || review["source"] == "") {
+			t.Errorf("%s %s: review %v without its rule and source", id, cid, review)
+		}
+		outright := st == "fail" && u <= 1 && strings.Contains(msg, "FAIL:")
+		if uok && (st == "pass" || st == "marginal" || st == "fail") && !belowMinAngle && !reviewExceeded && !outright && cid != "load-test" {
 			want := "pass"
 			switch {
 			case u > 1:

@@ -43,7 +43,11 @@ import (
 //
 // Lookup picks, among the rows of an id that match the hoist's group and all their
 // conditions, the most specific one: most conditions first, then the narrowest group
-// span (one group beats a range beats "all"), then the later row.
+// span (one group beats a range beats "all"), then the later row. A row whose
+// provenance is "memory, low" is a review limit: it is looked up apart from the verified
+// rows (LookupIndexes), and the checks judge against it at worst marginal, never fail
+// (design.md Revision 2). A rule file confirms it by a row with the same rule, groups and
+// when and the provenance seen or law, which replaces it.
 
 // RuleColumns are the columns of a rule table, in the order the built-in tables use.
 var RuleColumns = [...]string{"rule", "groups", "when", "value", "unit", "source", "provenance", "note"}
@@ -216,6 +220,10 @@ var knownRules = map[string]ruleSpec{
 	"hoist_speed.tolerance":         ruleSpec{dims: []string{"ratio"}, min: 0, minEx: true, max: 1},
 	"brake.factor":                  factorSpec,
 	"brake.each":                    {words: []string{"yes", "no"}},
+	"brake.basis":                   {words: []string{"hoisting", "static"}},
+	"brake.each_factor":             factorSpec,
+	"brake.needs_control_braking":   {words: []string{"yes", "no"}},
+	"brake.min_brakes":              countSpec,
 	"brake_stop.max_distance":       {dims: []string{"length"}, min: 0, minEx: true, max: math.Inf(1)},
 	"default.sheave_efficiency":     effSpec,
 	"default.gear_efficiency":       effSpec,
@@ -355,6 +363,7 @@ func (t *Table) index() {
 		c := &t.compiled[i]
 		c.text, c.cite = r.String(), r.Cite()
 		c.si, c.siErr = r.ValueSI()
+		c.review = IsReviewProvenance(r.Provenance)
 	}
 }
 
@@ -403,23 +412,56 @@ func (t *Table) Lookup(id string, s Scope) (Rule, bool) {
 }
 
 // LookupIndex is Lookup returning the row's index in t.Rules, or -1 when no row
-// applies. With an indexed table (NewTable, Profile, Override) it allocates nothing.
+// applies. It considers the verified rows only: a review row (IsReviewProvenance) is
+// found by LookupIndexes. With an indexed table (NewTable, Profile, Override) it
+// allocates nothing.
 func (t *Table) LookupIndex(id string, s Scope) int {
-	best, bestConds, bestSpan := -1, -1, 0
-	consider := func(i int, c *compiledRule) {
+	i, _ := t.LookupIndexes(id, s)
+	return i
+}
+
+// IsReviewProvenance reports whether a provenance label makes its row a review limit:
+// "memory, low", a value recalled with low confidence (design.md Revision 2, "Review
+// limits"). A check judged against a review row is at worst marginal, never fail, and
+// the rating search does not use it. A rule file confirms such a row by giving it the
+// provenance seen or law.
+func IsReviewProvenance(p string) bool {
+	return strings.ToLower(strings.Join(strings.Fields(p), " ")) == "memory, low"
+}
+
+// IsReview reports whether row i of the table is a review limit (IsReviewProvenance).
+func (t *Table) IsReview(i int) bool {
+	if len(t.compiled) == len(t.Rules) && t.byID != nil {
+		return t.compiled[i].review
+	}
+	return IsReviewProvenance(t.Rules[i].Provenance)
+}
+
+// LookupIndexes returns, for id in scope s, the verified row that applies (as
+// LookupIndex) and the review row that applies (a row whose provenance is "memory,
+// low"), each chosen among its own kind by Lookup's order; -1 where none applies.
+func (t *Table) LookupIndexes(id string, s Scope) (verified, review int) {
+	var best, bestConds, bestSpan [2]int
+	best, bestConds = [2]int{-1, -1}, [2]int{-1, -1}
+	consider := func(i int, c *compiledRule, rv bool) {
 		if !c.matches(s) {
 			return
 		}
+		k := 0
+		if rv {
+			k = 1
+		}
 		span := c.hi - c.lo
-		if len(c.conds) > bestConds || (len(c.conds) == bestConds && span <= bestSpan) {
-			best, bestConds, bestSpan = i, len(c.conds), span
+		if len(c.conds) > bestConds[k] || (len(c.conds) == bestConds[k] && span <= bestSpan[k]) {
+			best[k], bestConds[k], bestSpan[k] = i, len(c.conds), span
 		}
 	}
 	if t.byID != nil && len(t.compiled) == len(t.Rules) {
 		for _, i := range t.byID[id] {
-			consider(i, &t.compiled[i])
+			c := &t.compiled[i]
+			consider(i, c, c.review)
 		}
-		return best
+		return best[0], best[1]
 	}
 	for i := range t.Rules { // a Table built without NewTable
 		if t.Rules[i].ID != id {
@@ -429,9 +471,9 @@ func (t *Table) LookupIndex(id string, s Scope) int {
 		if err != nil {
 			continue
 		}
-		consider(i, &c)
+		consider(i, &c, IsReviewProvenance(t.Rules[i].Provenance))
 	}
-	return best
+	return best[0], best[1]
 }
 
 // RuleText is Rules[i].String(), precomputed for an indexed table.
@@ -504,6 +546,7 @@ type compiledRule struct {
 	text, cite string
 	si         float64
 	siErr      error
+	review     bool // a review limit (IsReviewProvenance)
 }
 
 type condition struct {

@@ -147,8 +147,12 @@ func TestLookupValues(t *testing.T) {
 		{"US two brakes", "us", "brake.factor", Scope{Attrs: attr("control", "none"), Nums: num("brakes", 2.0)}, 1.0, ""},
 		{"US two brakes each", "us", "brake.each", Scope{Attrs: attr("control", "none"), Nums: num("brakes", 2.0)}, 0, "yes"},
 		{"US one brake each", "us", "brake.each", Scope{Attrs: attr("control", "none"), Nums: num("brakes", 1.0)}, 0, "no"},
-		// standards.md: EN 14492-2 1.6, memory low (kept in the ISO profile, marked).
-		{"ISO brake", "iso", "brake.factor", Scope{Group: 5}, 1.6, ""},
+		// ISO: the verified floor 1.25 on the static torque (2006/42/EC Annex I 4.1.2.3,
+		// static test coefficient; standards.md memory high); EN 14492-2 1.6 (memory
+		// low) is a review row, found only by LookupIndexes (TestReviewRows).
+		{"ISO brake", "iso", "brake.factor", Scope{Group: 5}, 1.25, ""},
+		{"ISO brake basis", "iso", "brake.basis", Scope{Group: 5}, 0, "static"},
+		{"US brake basis", "us", "brake.basis", Scope{Group: 5}, 0, "hoisting"},
 		// standards.md: FEM 9.755 D, seen: 1Am (M4) 800 h, 2m (M5) 1 600 h, 5m (M8) 12 500 h.
 		{"D M4", "iso", "life.duration_h", Scope{Group: 4}, 800, ""},
 		{"D M5", "iso", "life.duration_h", Scope{Group: 5}, 1600, ""},
@@ -384,7 +388,7 @@ x.insurer.max_age,all,,40,years,Insurer acceptance criteria 2025,seen,
 	if r, _ := tb.Lookup("brake.factor", Scope{Attrs: map[string]string{"control": "mechanical"}}); r.Value != "1.1" || r.Origin != "insurer.csv" {
 		t.Errorf("brake mechanical: %+v", r)
 	}
-	if r, _ := tb.Lookup("brake.factor", Scope{Attrs: map[string]string{"control": "none"}}); r.Value != "1.6" {
+	if r, _ := tb.Lookup("brake.factor", Scope{Attrs: map[string]string{"control": "none"}}); r.Value != "1.25" {
 		t.Errorf("brake none: %+v", r)
 	}
 	// The original table is unchanged.
@@ -518,5 +522,50 @@ func ExampleTable_Lookup() {
 	fmt.Println(r.Cite())
 	// Output:
 	// brake.factor = 1.0 (all; control=mechanical)
-	// 29 CFR 1910.179(f)(2) [law]
+	// 29 CFR 1910.179(f)(2); Cal. Code Regs. tit. 8 §4898(c)(2) [law]
+}
+
+// TestReviewRows: a row whose provenance is "memory, low" is a review limit (design.md
+// Revision 2): looked up apart from the verified rows, and confirmed by a user row with
+// the same rule, groups and when and the provenance seen or law.
+func TestReviewRows(t *testing.T) {
+	iso := mustProfile(t, "iso")
+	s := Scope{Group: 5, Attrs: map[string]string{"control": "none"}}
+	for _, tc := range []struct{ id, verified, review string }{
+		{"brake.factor", "1.25", "1.6"},       // 2006/42/EC floor; EN 14492-2 (memory, low)
+		{"brake.basis", "static", "hoisting"}, // the torque each multiplies
+		{"rope.design_factor", "4.5", ""},     // ISO 4308-1 Zp M5, seen: no review row
+	} {
+		v, r := iso.LookupIndexes(tc.id, s)
+		if v < 0 || iso.Rules[v].Value != tc.verified || iso.IsReview(v) {
+			t.Errorf("%s: verified row %d, want value %s", tc.id, v, tc.verified)
+		}
+		switch {
+		case tc.review == "" && r >= 0:
+			t.Errorf("%s: review row %+v, want none", tc.id, iso.Rules[r])
+		case tc.review != "" && (r < 0 || iso.Rules[r].Value != tc.review || !iso.IsReview(r)):
+			t.Errorf("%s: review row %d, want value %s", tc.id, r, tc.review)
+		}
+	}
+	for p, want := range map[string]bool{"memory, low": true, "Memory,  low": true, "memory, low-medium": false, "memory, medium": false, "seen": false, "law": false} {
+		if got := IsReviewProvenance(p); got != want {
+			t.Errorf("IsReviewProvenance(%q) = %v, want %v", p, got, want)
+		}
+	}
+	// A rule file confirming EN 14492-2 (provenance seen) replaces both rows of the same
+	// key: the confirmed 1.6 on the hoisting torque is then the verified rule.
+	user, err := ParseRules(strings.NewReader(`rule,groups,when,value,unit,source,provenance,note
+brake.factor,all,,1.6,1,"EN 14492-2:2019, checked",seen,
+brake.basis,all,,hoisting,,"EN 14492-2:2019, checked",seen,
+`), "confirmed.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	tb := iso.Override(user)
+	for id, want := range map[string]string{"brake.factor": "1.6", "brake.basis": "hoisting"} {
+		v, r := tb.LookupIndexes(id, s)
+		if v < 0 || tb.Rules[v].Value != want || tb.Rules[v].Origin != "confirmed.csv" || r >= 0 {
+			t.Errorf("%s after confirmation: verified %d, review %d; want the user's %s alone", id, v, r, want)
+		}
+	}
 }

@@ -79,7 +79,7 @@ var example = map[string]any{
 	"brake_location":            "motor",
 	"brakes":                    1.0,
 	"brake_delay":               0.2,
-	"control_braking":           "none",
+	"control_braking":           "electrical",
 	"hoist_speed":               5.0,
 	"lowering_speed":            5.0,
 	"acceleration":              0.2,

@@ -12,7 +12,10 @@
 // "max_rated_load_kg": what to do, in plain words, null for a hoist that passes.
 // Extensions, after the contract fields: "site",
 // "rated_load_kg" (the load the checks were run at), "rating_note", "derived", and on
-// each check "margin" and "message"; "proposed" {rated_load_kg, status, worst_check,
+// each check "margin", "message", "required_capacity" (what a failing load-dependent
+// check would need to pass, in the unit of its capacity; null otherwise) and "review"
+// ({utilisation, rule, source} where a review limit applies: design.md Revision 2;
+// null otherwise); "proposed" {rated_load_kg, status, worst_check,
 // min_margin, action, checks} when the hoist was re-checked at a proposed rated load (absent
 // otherwise).
 //
@@ -86,6 +89,7 @@ type hoistMemos struct {
 
 type checkMemos struct {
 	id, status, unit, rule, source memo
+	reviewRule, reviewSource       memo
 	message                        freeMemo
 	figures                        []memo // by figure index: the key
 }
@@ -244,6 +248,24 @@ func (e *encoder) appendChecks(b []byte, cs []fleet.CheckResult, ms []checkMemos
 		b = e.nums.appendNumber(b, c.Margin)
 		b = append(b, `,"message":`...)
 		b = m.message.appendNullText(b, c.Message)
+		b = append(b, `,"required_capacity":`...)
+		if c.Status == fleet.StatusFail && c.LoadDependent {
+			b = e.nums.appendNumber(b, c.RequiredCapacity)
+		} else {
+			b = append(b, "null"...)
+		}
+		b = append(b, `,"review":`...)
+		if c.ReviewRule == "" {
+			b = append(b, "null"...)
+		} else {
+			b = append(b, `{"utilisation":`...)
+			b = e.nums.appendNumber(b, c.ReviewUtilisation)
+			b = append(b, `,"rule":`...)
+			b = e.texts.appendString(&m.reviewRule, b, c.ReviewRule)
+			b = append(b, `,"source":`...)
+			b = e.texts.appendString(&m.reviewSource, b, c.ReviewSource)
+			b = append(b, '}')
+		}
 		b = append(b, '}')
 	}
 	return append(b, ']')
