@@ -46,6 +46,10 @@ func TestFigureBufSameFigures(t *testing.T) {
 		{"rope-wear", func(h calc.Hoist) (calc.Outcome, error) {
 			return calc.RopeWear(calc.WearInput{NominalM: 0.016, MeasuredM: 0.0152, MaxReductionFraction: 0.075, BrokenWires: -1, SkipRecord: true, Figs: h.Figs})
 		}},
+		{"component-rating", func(h calc.Hoist) (calc.Outcome, error) {
+			h.ComponentWLLKg = 6300
+			return calc.ComponentRating(h)
+		}},
 	}
 	var names []string
 	for _, c := range checks {

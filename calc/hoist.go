@@ -81,6 +81,8 @@ type Hoist struct {
 	Brakes        int     // N_b, number of holding brakes
 	BrakeDelayS   float64 // t_s, time from power loss to full brake torque [s]
 
+	ComponentWLLKg float64 // lowest rating of hook, block, trolley or structure [kg] (0 = not given)
+
 	HoistSpeedMS    float64 // v, rated hoisting speed at the first layer [m/s]
 	LoweringSpeedMS float64 // rated lowering speed [m/s] (0 = same as hoisting)
 	AccelMS2        float64 // a, design hoisting acceleration [m/s²]

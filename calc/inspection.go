@@ -176,3 +176,35 @@ func addMonthsClamped(d time.Time, n int) time.Time {
 	last := first.AddDate(0, 1, -1).Day()
 	return time.Date(first.Year(), first.Month(), min(day, last), 0, 0, 0, 0, d.Location())
 }
+
+// ComponentRating computes the check `component-rating` (design.md Revision 2,
+// "Component rating and the rating cap"): the rated (or proposed) load against the
+// lowest rating of the parts the mechanism checks do not cover — hook, bottom block,
+// trolley, supporting structure — given in the register as the Component WLL.
+//
+//	demand = m_L [kg],  capacity = Component WLL [kg],  utilisation = m_L / WLL
+//
+// The utilisation is linear in the rated load and reaches 1 at m_L = WLL, the check's
+// limiting rated load. A rated load above the Component WLL fails. Valid ranges: m_L ≥ 0,
+// WLL > 0 (h.ComponentWLLKg). Figures: component_wll_kg.
+func ComponentRating(h Hoist) (Outcome, error) {
+	switch {
+	case !(h.RatedLoadKg >= 0) || math.IsInf(h.RatedLoadKg, 0):
+		return Outcome{}, &RangeError{Field: "rated_load", Msg: fmt.Sprintf("rated load must be ≥ 0 (got %s kg)", dutyNum(h.RatedLoadKg))}
+	case !(h.ComponentWLLKg > 0) || math.IsInf(h.ComponentWLLKg, 0):
+		return Outcome{}, &RangeError{Field: "component_wll", Msg: fmt.Sprintf("component WLL must be > 0 (got %s kg)", dutyNum(h.ComponentWLLKg))}
+	}
+	u := h.RatedLoadKg / h.ComponentWLLKg
+	o := Outcome{Demand: h.RatedLoadKg, Capacity: h.ComponentWLLKg, Unit: "kg", Utilisation: u, Verdict: ByUtilisation}
+	if h.SkipDetail {
+		return o, nil
+	}
+	o.Figures = h.Figs.take([]Figure{{Name: "component_wll_kg", Value: h.ComponentWLLKg, Unit: "kg"}})
+	if !h.SkipRecord {
+		o.Steps = []Step{{Symbol: "u", Formula: "m_L / WLL", Numbers: dutyNum(h.RatedLoadKg) + " / " + dutyNum(h.ComponentWLLKg), Value: u, Unit: "1"}}
+	}
+	if u > 1+1e-9 {
+		o.Note = "the rated load is above the lowest rating of hook, block, trolley or structure (Component WLL " + dutyNum(h.ComponentWLLKg) + " kg)"
+	}
+	return o, nil
+}

@@ -212,3 +212,29 @@ func TestLoadTest(t *testing.T) {
 		}
 	}
 }
+
+// TestComponentRating (design.md Revision 2): the rated load against the Component WLL,
+// the lowest rating of hook, block, trolley and structure; u = m_L / WLL, reaching 1 at
+// m_L = WLL (the limiting rated load). Values invented; arithmetic exact.
+func TestComponentRating(t *testing.T) {
+	for _, tc := range []struct {
+		rated, wll, u float64
+		note          bool
+	}{
+		{5000, 6300, 5000.0 / 6300, false}, // below the WLL
+		{6300, 6300, 1, false},             // at it: u = 1, not a fail
+		{7000, 6300, 7000.0 / 6300, true},  // above it: fails, with a note
+		{0, 6300, 0, false},                // the empty hook
+	} {
+		o, err := calc.ComponentRating(calc.Hoist{RatedLoadKg: tc.rated, ComponentWLLKg: tc.wll})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if o.Utilisation != tc.u || o.Demand != tc.rated || o.Capacity != tc.wll || o.Unit != "kg" || (o.Note != "") != tc.note {
+			t.Errorf("%g kg against %g kg: u %g, demand %g, capacity %g %s, note %q; want u %g", tc.rated, tc.wll, o.Utilisation, o.Demand, o.Capacity, o.Unit, o.Note, tc.u)
+		}
+	}
+	if _, err := calc.ComponentRating(calc.Hoist{RatedLoadKg: 5000}); err == nil {
+		t.Error("no Component WLL: want a range error")
+	}
+}

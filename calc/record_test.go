@@ -46,6 +46,10 @@ func recChecks() []recCheck {
 		{"brake-stop no limit", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, 0) }},
 		{"runaway", calc.Runaway},
 		{"shaft-load", calc.ShaftLoad},
+		{"component-rating", func(h calc.Hoist) (calc.Outcome, error) {
+			h.ComponentWLLKg = 0.9 * h.RatedLoadKg // below the rated load: fails, with its note
+			return calc.ComponentRating(h)
+		}},
 	}
 }
 

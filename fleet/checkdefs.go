@@ -49,6 +49,12 @@ type Definition struct {
 	LoadDependent, Linear bool
 	// NullsRating: when this load-independent check fails, the hoist has no rating.
 	NullsRating bool
+	// Optional: unchecked when a value it needs is missing, and then it neither sets the
+	// hoist's status nor stops the rating (component-rating without a Component WLL).
+	Optional bool
+	// CapsRating: the check's limit caps the rating but is not part of the mechanism's
+	// capacity (component-rating: the rating of hook, block, trolley and structure).
+	CapsRating bool
 	// NoBand: pass up to utilisation 1, no marginal band (a load test at exactly the
 	// required test load covers the rating); such a check sets the smallest margin and
 	// the worst check only when it fails.
@@ -450,6 +456,18 @@ func checkDefinitions() []Definition {
 				return false, "the rules in force require no overload limiter at this rated load, and the register does not say whether one is fitted"
 			},
 			prepare: prepareOverloadLimiter},
+		{ID: "component-rating", Kind: Mechanical, LoadDependent: true, Linear: true, Optional: true, CapsRating: true,
+			advise: func(in adviceInput) advice {
+				if math.IsNaN(in.cr.Utilisation) { // a proposed load without a Component WLL
+					return say("have hook, block, trolley and structure rated (Component WLL) before using the proposed load")
+				}
+				return orDerate("hook, block, trolley and structure rated for " + tonnes(in.cr.Demand) + " (Component WLL " + tonnes(in.cr.Capacity) + ")")
+			},
+			Needs:     join(loadNeeds, []string{"component_wll"}),
+			Rule:      "rated (or proposed) load ≤ Component WLL, the lowest rating of hook, block, trolley and structure",
+			Source:    "component rating from the register (design.md Revision 2)",
+			Reference: []string{"TestComponentRating"},
+			prepare:   noRule(calc.ComponentRating)},
 	}
 }
 

@@ -193,11 +193,15 @@ func rootIllinois(f func(float64) (float64, bool), lo, hi float64) (float64, flo
 
 func floorTenth(kg float64) float64 { return math.Floor(kg*10+1e-9) / 10 }
 
-// rating is the maximum permissible rated load: the smallest limit over the
-// load-dependent checks, null when a load-independent check fails or a load-dependent
-// check could not run, capped by the component WLL.
+// rating is the maximum permissible rated load (design.md Revision 2, "Component rating
+// and the rating cap"): the mechanism's capacity is the smallest limit over the
+// load-dependent checks but component-rating; null when a load-independent check fails
+// or a load-dependent check could not run. The rating is the smaller of that and the
+// Component WLL (governing check component-rating) where the register gives one, and
+// otherwise of that and the register's rated load (governing rated-load-cap, with a
+// note saying what the mechanism would allow).
 func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckResult) Rating {
-	rt := Rating{MaxRatedLoadKg: math.NaN()}
+	rt := Rating{MaxRatedLoadKg: math.NaN(), MechanismCapacityKg: math.NaN()}
 	var notRun []string
 	for i, cr := range checks {
 		spec := prepared[i].spec
@@ -206,7 +210,7 @@ func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckR
 			rt.Note = cr.ID + " fails whatever the load: no rating can be given"
 			return rt
 		}
-		if spec.LoadDependent && (cr.Status == StatusError || cr.Status == StatusUnchecked) {
+		if spec.LoadDependent && (cr.Status == StatusError || cr.Status == StatusUnchecked) && !(spec.Optional && cr.Status == StatusUnchecked) {
 			notRun = append(notRun, cr.ID)
 		}
 		if spec.LoadDependent && cr.Status == StatusFail && math.IsNaN(cr.LimitRatedLoadKg) {
@@ -221,24 +225,41 @@ func (c *Checker) rating(d *hoistData, prepared []preparedCheck, checks []CheckR
 		rt.Note = "not rated: " + strings.Join(notRun, ", ") + " could not be checked"
 		return rt
 	}
-	for _, cr := range checks {
+	mech, gov := math.NaN(), ""
+	capKg, capID := math.NaN(), ""
+	for i, cr := range checks {
 		if !cr.LoadDependent || math.IsNaN(cr.LimitRatedLoadKg) {
 			continue
 		}
-		if math.IsNaN(rt.MaxRatedLoadKg) || cr.LimitRatedLoadKg < rt.MaxRatedLoadKg {
-			rt.MaxRatedLoadKg, rt.GoverningCheck = cr.LimitRatedLoadKg, cr.ID
+		if prepared[i].spec.CapsRating {
+			capKg, capID = cr.LimitRatedLoadKg, cr.ID
+			continue
+		}
+		if math.IsNaN(mech) || cr.LimitRatedLoadKg < mech {
+			mech, gov = cr.LimitRatedLoadKg, cr.ID
 		}
 	}
-	if rt.MaxRatedLoadKg == 0 {
-		rt.Note = rt.GoverningCheck + " fails even with no rated load on the hook"
+	rt.MechanismCapacityKg, rt.MaxRatedLoadKg, rt.GoverningCheck = mech, mech, gov
+	if mech == 0 {
+		rt.Note = gov + " fails even with no rated load on the hook"
 	}
-	if wll, ok := d.num("component_wll"); ok && (math.IsNaN(rt.MaxRatedLoadKg) || wll < rt.MaxRatedLoadKg) {
-		mech := rt.MaxRatedLoadKg
-		rt.MaxRatedLoadKg, rt.GoverningCheck = floorTenth(wll), "component-wll"
-		if math.IsNaN(mech) {
-			rt.Note = "capped by the component WLL"
-		} else {
-			rt.Note = "capped by the component WLL; the mechanism alone would allow " + strconv.FormatFloat(mech, 'f', 1, 64) + " kg"
+	mechText := strconv.FormatFloat(mech, 'f', 1, 64) + " kg"
+	switch {
+	case capID != "":
+		if math.IsNaN(mech) || capKg < mech {
+			rt.MaxRatedLoadKg, rt.GoverningCheck = capKg, capID
+			if math.IsNaN(mech) {
+				rt.Note = "capped by the Component WLL"
+			} else {
+				rt.Note = "capped by the Component WLL; the mechanism alone would allow " + mechText
+			}
+		}
+	case d.h.RatedLoadKg > 0 && (math.IsNaN(mech) || d.h.RatedLoadKg < mech):
+		rt.MaxRatedLoadKg, rt.GoverningCheck = floorTenth(d.h.RatedLoadKg), RatedLoadCap
+		rt.Note = "capped at the register's rated load: hook, block, trolley and structure must be rated (Component WLL) to rate higher"
+		if !math.IsNaN(mech) {
+			rt.Note = "capped at the register's rated load: the mechanism would allow " + mechText +
+				"; hook, block, trolley and structure must be rated (Component WLL) to rate higher"
 		}
 	}
 	return rt

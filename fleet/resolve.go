@@ -284,6 +284,7 @@ func (c *Checker) resolve(a *Asset, d *hoistData) {
 	h.Brakes = int(d.numDefault("brakes", 1, ""))
 	d.scope.Nums["brakes"] = float64(h.Brakes)
 	h.BrakeDelayS = d.numRule("brake_delay", "default.brake_delay", "brake delay %g s")
+	h.ComponentWLLKg, _ = d.num("component_wll")
 	h.HoistSpeedMS, _ = d.num("hoist_speed")
 	h.LoweringSpeedMS, _ = d.num("lowering_speed")
 	h.AccelMS2 = d.numRule("acceleration", "default.acceleration", "acceleration %g m/s²")

@@ -31,12 +31,21 @@ type CheckResult struct {
 	ReviewRule, ReviewSource string
 }
 
-// Rating is the maximum permissible rated load of one hoist.
+// Rating is the maximum permissible rated load of one hoist (design.md Revision 2,
+// "Component rating and the rating cap").
 type Rating struct {
 	MaxRatedLoadKg float64 // NaN when none can be given
-	GoverningCheck string  // the check (or cap) that sets it
+	GoverningCheck string  // the check (or cap: RatedLoadCap) that sets it
 	Note           string  // why null, or which cap applied
+	// MechanismCapacityKg is the smallest limiting rated load over the load-dependent
+	// checks of the mechanism (all but component-rating); NaN when no rating can be
+	// given. It may exceed the nameplate: MaxRatedLoadKg never does without a Component WLL.
+	MechanismCapacityKg float64
 }
+
+// RatedLoadCap is the governing-check token when the register's own rated load caps
+// the rating (no Component WLL given): design.md's contract name.
+const RatedLoadCap = "rated-load-cap"
 
 // Evaluation is the set of checks of one hoist at one rated load, with its verdict.
 type Evaluation struct {

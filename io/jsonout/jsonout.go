@@ -11,7 +11,10 @@
 // and they are never renamed. "action" (design.md's contract additions) follows
 // "max_rated_load_kg": what to do, in plain words, null for a hoist that passes.
 // Extensions, after the contract fields: "site",
-// "rated_load_kg" (the load the checks were run at), "rating_note", "derived", and on
+// "rated_load_kg" (the load the checks were run at), "rating_note",
+// "mechanism_capacity_kg" (the smallest limit over the mechanism's load-dependent checks:
+// what the mechanism would allow, which max_rated_load_kg never exceeds without a
+// Component WLL; design.md Revision 2), "derived", and on
 // each check "margin", "message", "required_capacity" (what a failing load-dependent
 // check would need to pass, in the unit of its capacity; null otherwise) and "review"
 // ({utilisation, rule, source} where a review limit applies: design.md Revision 2;
@@ -188,6 +191,8 @@ func (e *encoder) appendHoist(b []byte, r *fleet.Result) []byte {
 	b = e.nums.appendNumber(b, r.RatedLoadKg)
 	b = append(b, `,"rating_note":`...)
 	b = hm.note.appendNullText(b, r.Note)
+	b = append(b, `,"mechanism_capacity_kg":`...)
+	b = e.nums.appendNumber(b, r.MechanismCapacityKg)
 	b = append(b, `,"derived":`...)
 	b = appendStrings(b, r.Derived, &hm.derived)
 	if p := r.Proposed; p != nil {

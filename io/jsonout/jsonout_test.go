@@ -249,11 +249,11 @@ func ExampleWriter() {
 			Action: "No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification",
 			Checks: []fleet.CheckResult{{ID: "drum-ratio", Status: fleet.StatusMarginal, Demand: 19, Capacity: 20, Unit: "1",
 				Utilisation: 0.95, Margin: 0.05, LimitRatedLoadKg: math.NaN(), Rule: "h1 ≥ 19 (M5)", Source: "ISO 4308-1"}}},
-		Rating: fleet.Rating{MaxRatedLoadKg: 1200.5, GoverningCheck: "motor-torque"}}
+		Rating: fleet.Rating{MaxRatedLoadKg: 1200.5, MechanismCapacityKg: 1200.5, GoverningCheck: "motor-torque"}}
 	_ = w.Begin(&fleet.Header{}, &fleet.RunInfo{})
 	_ = w.Write(r)
 	_ = w.End(fleet.NewSummary(10), &fleet.RunInfo{})
 	buf.WriteTo(os.Stdout)
 	// Output:
-	// {"asset_id":"H-07","row":2,"status":"marginal","governing_check":"motor-torque","worst_check":"drum-ratio","min_margin":0.05,"max_rated_load_kg":1200.5,"action":"No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification","messages":[],"defaults_used":[],"checks":[{"id":"drum-ratio","status":"marginal","demand":19,"capacity":20,"unit":"1","utilisation":0.95,"limit_rated_load_kg":null,"rule":"h1 ≥ 19 (M5)","source":"ISO 4308-1","figures":{},"margin":0.05,"message":null,"required_capacity":null,"review":null}],"site":null,"rated_load_kg":1000,"rating_note":null,"derived":[]}
+	// {"asset_id":"H-07","row":2,"status":"marginal","governing_check":"motor-torque","worst_check":"drum-ratio","min_margin":0.05,"max_rated_load_kg":1200.5,"action":"No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification","messages":[],"defaults_used":[],"checks":[{"id":"drum-ratio","status":"marginal","demand":19,"capacity":20,"unit":"1","utilisation":0.95,"limit_rated_load_kg":null,"rule":"h1 ≥ 19 (M5)","source":"ISO 4308-1","figures":{},"margin":0.05,"message":null,"required_capacity":null,"review":null}],"site":null,"rated_load_kg":1000,"rating_note":null,"mechanism_capacity_kg":1200.5,"derived":[]}
 }

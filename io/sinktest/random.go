@@ -86,6 +86,12 @@ func randChecks(rng *rand.Rand, n int) []fleet.CheckResult {
 		if rng.IntN(10) == 0 && len(c.Figures) > 1 {
 			c.Figures = append(c.Figures, c.Figures[0]) // a repeated name
 		}
+		c.LoadDependent = rng.IntN(2) == 0
+		c.RequiredCapacity, c.ReviewUtilisation = RandFloat(rng), RandFloat(rng)
+		if rng.IntN(4) == 0 {
+			c.ReviewRule = pickText(rng, "brake.factor = 1.6, brake.basis = hoisting", RandText(rng))
+			c.ReviewSource = pickText(rng, "EN 14492-2 (power driven hoists), holding brake; edition not recorded [memory, low]", RandText(rng))
+		}
 	}
 	return cs
 }
@@ -117,7 +123,7 @@ func RandomResults(seed uint64, n int) []*fleet.Result {
 		r := &fleet.Result{Asset: a,
 			Evaluation: fleet.Evaluation{RatedLoadKg: RandFloat(rng), Status: randStatus(rng), WorstCheck: pickText(rng, fleet.CheckIDs...),
 				MinMargin: RandFloat(rng)},
-			Rating:       fleet.Rating{MaxRatedLoadKg: RandFloat(rng), GoverningCheck: pickText(rng, fleet.CheckIDs...), Note: pickText(rng, "")},
+			Rating:       fleet.Rating{MaxRatedLoadKg: RandFloat(rng), MechanismCapacityKg: RandFloat(rng), GoverningCheck: pickText(rng, fleet.CheckIDs...), Note: pickText(rng, "")},
 			Messages:     randTexts(rng),
 			DefaultsUsed: randTexts(rng),
 			Derived:      randTexts(rng),
