@@ -403,18 +403,34 @@ func checkDefinitions() []Definition {
 				return say("load test before using " + tonnes(in.cr.Demand) + ": the last test covers " + tonnes(in.cr.Capacity))
 			},
 			Needs: join(loadNeeds, []string{"test_load"}), Uses: []string{"test_type", "proposed_rated_load"},
-			Rules:     []string{"load_test.factor"},
+			Rules:     []string{"load_test.factor", "load_test.proposed_factor"},
 			Reference: []string{"TestLoadTest"},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				// The current rating is judged by load_test.factor; a proposed rating above
+				// it by load_test.proposed_factor (US: a rating at most 80 % of the test
+				// load, OSHA's letter of 3 January 1989; design.md Revision 2).
 				f, r, err := d.rule("load_test.factor")
 				if err != nil {
 					return nil, nil, err
 				}
-				test, _ := d.num("test_load")
-				if d.c.opts.Record {
-					return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, f) }, d.usedRows(r), nil
+				fp, rp, err := d.rule("load_test.proposed_factor")
+				if err != nil {
+					return nil, nil, err
 				}
-				return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTestNumbers(h.RatedLoadKg, test, f, h.Figs) }, d.usedRows(r), nil
+				test, _ := d.num("test_load")
+				rated := d.h.RatedLoadKg
+				factor := func(h calc.Hoist) float64 {
+					if h.RatedLoadKg > rated {
+						return fp
+					}
+					return f
+				}
+				if d.c.opts.Record {
+					return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, factor(h)) }, d.usedRows(r, rp), nil
+				}
+				return func(h calc.Hoist) (calc.Outcome, error) {
+					return calc.LoadTestNumbers(h.RatedLoadKg, test, factor(h), h.Figs)
+				}, d.usedRows(r, rp), nil
 			}},
 		{ID: "rope-wear", Kind: Mechanical, NullsRating: true, FlagList: true,
 			advise: func(in adviceInput) advice {

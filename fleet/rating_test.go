@@ -4,6 +4,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"hoistfleet/fleet/rules"
 )
 
 // stopDistanceRule is a user rule row giving brake-stop a distance limit, so that its
@@ -592,5 +594,29 @@ func TestReviewLimitNeverFails(t *testing.T) {
 	}
 	if c := isoChecker(t, confirmed).Check(winchA(t).asset()); mustCheck(t, c, "rope-design-factor").Status != StatusFail {
 		t.Errorf("confirmed row (seen): %v, want fail", mustCheck(t, c, "rope-design-factor").Status)
+	}
+}
+
+// TestLoadTestCurrentAndProposedUS (design.md Revision 2, "Load test"): under the US
+// profile the current rating is covered by a static test at ≥ 100 % of it (ASME B30.2:
+// 100–125 %, memory medium), a proposed higher rating only by a test at ≥ 125 % of it
+// (OSHA interpretation letter of 3 January 1989 on 1910.179(k)(2): "should not be rated
+// in excess of 80 percent of the test load", read).
+func TestLoadTestCurrentAndProposedUS(t *testing.T) {
+	tab, err := rules.Profile("us")
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := NewChecker(Options{Rules: tab, MarginalBand: 0.10, AsOf: asOf})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// winchA: 5 t rated, last tested statically with 6.25 t.
+	r := c.Check(winchA(t).num("proposed_rated_load", 5500).asset())
+	if lt := mustCheck(t, r, "load-test"); !approxEqual(lt.Utilisation, 5000.0/6250, 0, 1e-12) || lt.Status != StatusPass {
+		t.Errorf("current 5 t on a 6.25 t test: u %.4f %v, want 0.8 pass (factor 1.0)", lt.Utilisation, lt.Status)
+	}
+	if lt := r.Proposed.Check("load-test"); !approxEqual(lt.Utilisation, 5500*1.25/6250, 0, 1e-12) || lt.Status != StatusFail {
+		t.Errorf("proposed 5.5 t on a 6.25 t test: u %.4f %v, want 1.1 fail (factor 1.25)", lt.Utilisation, lt.Status)
 	}
 }

@@ -236,6 +236,7 @@ var knownRules = map[string]ruleSpec{
 	"life.record_factor":            factorSpec,
 	"inspection.interval_months":    {dims: []string{"months"}, min: 0, minEx: true, max: 120},
 	"load_test.factor":              factorSpec,
+	"load_test.proposed_factor":     factorSpec,
 	"rope_wear.basis":               {words: []string{"reference", "nominal"}},
 	"rope_wear.max_reduction":       {dims: []string{"ratio", "length"}, min: 0, minEx: true, max: math.Inf(1)},
 	"rope_wear.broken_wires_lay":    countSpec,
