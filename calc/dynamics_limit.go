@@ -69,27 +69,28 @@ func MotorAccelTorqueLimitKg(h Hoist) float64 {
 	return math.Max(m-h.HookBlockKg, 0)
 }
 
-// GearboxTorqueLimitKg is the largest rated load within the gearbox's rated output
-// torque: the root of gearbox-torque's utilisation − 1 in closed form [kg]. The demand is
-// max(T_acc(m), T_stop) (GearboxTorque): T_stop does not depend on the rated load (a
-// motor-shaft brake's torque, or a drum brake stopping the empty hook), and at each
+// GearboxTorqueLimitKg is the largest rated load within the gearbox's ratings: the root
+// of gearbox-torque's utilisation − 1 in closed form [kg]. The utilisation is
+// max(T_acc(m)/C, T_stop/C_p) (GearboxTorque): T_stop does not depend on the rated load
+// (a motor-shaft brake's torque, or a drum brake stopping the empty hook), and at each
 // radius T_acc(m) = e m (g + a) r / (n η_RD) + I_d a n_e / r is affine in it, so
 //
 //	m ≤ (C − I_d a n_e / r) n η_RD / (e (g + a) r) at every radius,  m_L = min over r − m_H,
 //
-// with C the rated output torque; 0 when T_stop alone exceeds C or even the hook block
-// cannot be accelerated within it. NaN for inputs the check refuses.
-func GearboxTorqueLimitKg(h Hoist) float64 {
+// with C the rated output torque and C_p the peak rating (or C × peakFactor); 0 when
+// T_stop alone exceeds C_p or even the hook block cannot be accelerated within C. NaN for
+// inputs the check refuses.
+func GearboxTorqueLimitKg(h Hoist, peakFactor float64) float64 {
 	// T_stop does not depend on the rated load: read it at the hoist's own load, where the
 	// check runs (at no load a train with no hook block and no inertia has nothing to move
 	// and the check refuses it).
 	h.SkipRecord, h.SkipDetail = true, false
-	o, err := GearboxTorque(h) // also the check's own validation
+	o, err := GearboxTorque(h, peakFactor) // also the check's own validation
 	if err != nil {
 		return math.NaN()
 	}
 	c := h.GearboxRatedTorqueNm
-	if stop := o.Figure("stop_drum_torque_nm"); stop > c {
+	if stop := o.Figure("stop_drum_torque_nm"); stop > o.Figure("peak_torque_nm") {
 		return 0
 	}
 	t, _ := dynTrainOf(h)

@@ -72,7 +72,7 @@ func TestTorqueLimitsKg(t *testing.T) {
 		limit func(calc.Hoist) float64
 	}{
 		{"motor-accel-torque", calc.MotorAccelTorque, calc.MotorAccelTorqueLimitKg},
-		{"gearbox-torque", calc.GearboxTorque, calc.GearboxTorqueLimitKg},
+		{"gearbox-torque", gearbox1, gearboxLimit1},
 	}
 	for hn, h := range hoists {
 		for _, c := range checks {
@@ -94,10 +94,10 @@ func TestTorqueLimitsKg(t *testing.T) {
 	// exceeds the 9000 N m rating whatever the load.
 	strong := base
 	strong.BrakeTorqueNm = 120
-	if v := calc.GearboxTorqueLimitKg(strong); v != 0 {
+	if v := calc.GearboxTorqueLimitKg(strong, 1); v != 0 {
 		t.Errorf("stop torque above the rating: limit %v, want 0", v)
 	}
-	if o, _ := calc.GearboxTorque(strong.WithRatedLoad(0)); !(o.Utilisation > 1) {
+	if o, _ := calc.GearboxTorque(strong.WithRatedLoad(0), 1); !(o.Utilisation > 1) {
 		t.Errorf("stop torque above the rating: utilisation %v at no load, want > 1", o.Utilisation)
 	}
 	// No hook block and no inertia: the check refuses an empty hook ("nothing to move")
@@ -106,8 +106,8 @@ func TestTorqueLimitsKg(t *testing.T) {
 	bare := base
 	bare.HookBlockKg, bare.DrumInertiaKgM2, bare.MotorInertiaKgM2 = 0, 0, 0
 	bare.BrakeOnDrum, bare.BrakeTorqueNm, bare.GearboxRatedTorqueNm = true, 20000, 1500
-	lim := calc.GearboxTorqueLimitKg(bare)
-	o, err := calc.GearboxTorque(bare.WithRatedLoad(lim * (1 + 1e-6)))
+	lim := calc.GearboxTorqueLimitKg(bare, 1)
+	o, err := calc.GearboxTorque(bare.WithRatedLoad(lim*(1+1e-6)), 1)
 	if !(lim > 0) || err != nil || !(o.Utilisation > 1) {
 		t.Errorf("no hook block, no inertia: limit %v, utilisation just above it %v (err %v)", lim, o.Utilisation, err)
 	}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
 	"hoistfleet/calc"
@@ -789,11 +790,58 @@ func TestMotorAccelTorqueByHand(t *testing.T) {
 	}
 }
 
+// TestGearboxPeakRating (design.md Revision 2, "Gearbox"): the emergency stop's torque
+// is a momentary peak, judged against the gear unit's peak rating where the register
+// gives one, else against the rated torque × gearbox.peak_factor; the accelerating
+// torque always against the rated torque. Hoist A by hand (TestGearboxTorque): T_acc =
+// 5655.417 N m, T_stop = 100 × 112 / 0.9 = 12 444.44 N m, rated 14 000 N m.
+func TestGearboxPeakRating(t *testing.T) {
+	for _, tc := range []struct {
+		name           string
+		rated, peak, f float64
+		u              float64 // max(T_acc / rated, T_stop / peak rating), by hand
+		stop           bool    // the stop term governs
+	}{
+		{"no peak rating, factor 1", 14000, 0, 1, 12444.444444444443 / 14000, true},
+		{"no peak rating, factor 1.5", 14000, 0, 1.5, 12444.444444444443 / 21000, true},
+		{"peak rating 20 000 N m", 14000, 20000, 1, 0.6222222222222221, true},
+		{"peak rating 40 000 N m: acceleration governs", 14000, 40000, 1, 0.40395839038650005, false},
+		{"rated 10 000 N m, no peak: the stop exceeds it", 10000, 0, 1, 1.2444444444444443, true},
+	} {
+		h := hoistA()
+		h.GearboxRatedTorqueNm, h.GearboxPeakTorqueNm = tc.rated, tc.peak
+		o, err := calc.GearboxTorque(h, tc.f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !dynApproxEqual(o.Utilisation, tc.u, 0, 1e-9) {
+			t.Errorf("%s: u = %.10g, want %.10g", tc.name, o.Utilisation, tc.u)
+		}
+		wantCap := tc.rated
+		if tc.stop {
+			wantCap = tc.peak
+			if tc.peak == 0 {
+				wantCap = tc.rated * tc.f
+			}
+		}
+		if !dynApproxEqual(o.Capacity, wantCap, 0, 1e-12) {
+			t.Errorf("%s: capacity %g, want %g", tc.name, o.Capacity, wantCap)
+		}
+		if from := "peak (momentary) rating from the register"; (tc.peak > 0) != strings.Contains(o.Note, from) {
+			t.Errorf("%s: note %q does not say which peak rating was used", tc.name, o.Note)
+		}
+		// The stop torque alone above the peak rating: no load is within the gearbox.
+		if lim := calc.GearboxTorqueLimitKg(h, tc.f); (tc.u > 1) != (lim == 0) {
+			t.Errorf("%s: limit %g kg", tc.name, lim)
+		}
+	}
+}
+
 func TestGearboxTorque(t *testing.T) {
 	// Hoist A by hand (computed): accelerating at r_L: e m (g + a) r/(n η_RD) + I_d a n_e/r
 	// = 5655.417 N m; emergency stop with the motor brake N_b M_b i/η_gb = 100 × 112/0.9
 	// = 12 444.44 N m governs.
-	o, err := calc.GearboxTorque(hoistA())
+	o, err := calc.GearboxTorque(hoistA(), 1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -812,7 +860,7 @@ func TestGearboxTorque(t *testing.T) {
 	// the lighter the load, the harder the stop), larger at r_1.
 	h := hoistA()
 	h.BrakeOnDrum, h.BrakeTorqueNm = true, 8000
-	o, err = calc.GearboxTorque(h)
+	o, err = calc.GearboxTorque(h, 1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -832,7 +880,7 @@ func TestGearboxTorque(t *testing.T) {
 	// Self-locking with a motor brake: no stop torque, demand is the accelerating torque.
 	h = hoistA()
 	h.GearBackEff = 0
-	o, err = calc.GearboxTorque(h)
+	o, err = calc.GearboxTorque(h, 1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -848,7 +896,7 @@ func TestGearboxTorque(t *testing.T) {
 		acc = math.Max(acc, ut.e*ut.w*(1+u.accelFtS2/usGft)*r/(ut.n*ut.etaRD)+ut.id*u.accelFtS2*ut.ne/r)
 	}
 	stop := float64(u.brakes) * u.brakeLbfFt * ut.i / ut.etaGB
-	o, err = calc.GearboxTorque(u.si())
+	o, err = calc.GearboxTorque(u.si(), 1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -902,21 +950,21 @@ func TestDynamicsRangeErrors(t *testing.T) {
 		{"parts 0", calc.Runaway, func(h *calc.Hoist) { h.Parts = 0 }, "parts_of_line"},
 		{"3 parts on 2 ends", stop, func(h *calc.Hoist) { h.Parts = 3 }, "parts_of_line"},
 		{"gear ratio 0", calc.MotorAccelTorque, func(h *calc.Hoist) { h.GearRatio = 0 }, "gear_ratio"},
-		{"gear eff 1.2", calc.GearboxTorque, func(h *calc.Hoist) { h.GearEff = 1.2 }, "gear_efficiency"},
+		{"gear eff 1.2", gearbox1, func(h *calc.Hoist) { h.GearEff = 1.2 }, "gear_efficiency"},
 		{"back-drive NaN", calc.Runaway, func(h *calc.Hoist) { h.GearBackEff = math.NaN() }, "gear_backdrive_efficiency"},
 		{"drum inertia < 0", calc.Runaway, func(h *calc.Hoist) { h.DrumInertiaKgM2 = -1 }, "drum_inertia"},
 		{"motor inertia NaN", stop, func(h *calc.Hoist) { h.MotorInertiaKgM2 = math.NaN() }, "motor_inertia"},
 		{"drum diameter 0", calc.MotorAccelTorque, func(h *calc.Hoist) { h.DrumDiameterM = 0 }, "drum_diameter"},
 		{"layers 0", calc.Runaway, func(h *calc.Hoist) { h.Layers = 0 }, "rope_layers"},
 		{"no rope diameter, 2 layers", calc.Runaway, func(h *calc.Hoist) { h.RopeDiameterM = 0 }, "rope_diameter"},
-		{"rated load < 0", calc.GearboxTorque, func(h *calc.Hoist) { h.RatedLoadKg = -5 }, "rated_load"},
+		{"rated load < 0", gearbox1, func(h *calc.Hoist) { h.RatedLoadKg = -5 }, "rated_load"},
 		{"brakes 0", stop, func(h *calc.Hoist) { h.Brakes = 0 }, "brakes"},
-		{"brake torque < 0", calc.GearboxTorque, func(h *calc.Hoist) { h.BrakeTorqueNm = -1 }, "brake_torque"},
+		{"brake torque < 0", gearbox1, func(h *calc.Hoist) { h.BrakeTorqueNm = -1 }, "brake_torque"},
 		{"brake delay < 0", stop, func(h *calc.Hoist) { h.BrakeDelayS = -0.1 }, "brake_delay"},
 		{"lowering speed < 0", stop, func(h *calc.Hoist) { h.LoweringSpeedMS = -1 }, "lowering_speed"},
 		{"no speed", stop, func(h *calc.Hoist) { h.HoistSpeedMS = 0 }, "hoist_speed"},
 		{"no hoist speed", calc.Runaway, func(h *calc.Hoist) { h.HoistSpeedMS = 0 }, "hoist_speed"},
-		{"gearbox rating 0", calc.GearboxTorque, func(h *calc.Hoist) { h.GearboxRatedTorqueNm = 0 }, "gearbox_rated_torque"},
+		{"gearbox rating 0", gearbox1, func(h *calc.Hoist) { h.GearboxRatedTorqueNm = 0 }, "gearbox_rated_torque"},
 		{"peak ratio 0", calc.MotorAccelTorque, func(h *calc.Hoist) { h.PeakTorqueRatio = 0 }, "motor_peak_torque"},
 		{"motor power 0", calc.MotorAccelTorque, func(h *calc.Hoist) { h.MotorPowerW = 0 }, "motor_power"},
 		{"accel < 0", calc.MotorAccelTorque, func(h *calc.Hoist) { h.AccelMS2 = -0.1 }, "acceleration"},
@@ -954,7 +1002,7 @@ func TestDynamicsRecords(t *testing.T) {
 		figures []string
 	}{
 		{"motor-accel-torque", calc.MotorAccelTorque, []string{"drum_angular_acceleration_rad_s2", "load_torque_nm", "drum_inertia_torque_nm", "rotor_inertia_torque_nm", "peak_torque_nm"}},
-		{"gearbox-torque", calc.GearboxTorque, []string{"accel_drum_torque_nm", "stop_drum_torque_nm"}},
+		{"gearbox-torque", gearbox1, []string{"accel_drum_torque_nm", "stop_drum_torque_nm", "rated_torque_nm", "peak_torque_nm"}},
 		{"brake-stop", stop, []string{"distance_m", "time_s", "deceleration_m_s2", "peak_rope_tension_n", "peak_design_factor", "speed_at_brake_set_m_s", "runaway_distance_m", "stop_layer", "initial_speed_m_s"}},
 		{"runaway", calc.Runaway, []string{"acceleration_m_s2", "drum_angular_acceleration_rad_s2", "rope_tension_n", "time_to_rated_speed_s", "fall_speed_m_s", "fall_energy_j", "equivalent_mass_kg", "rotor_speed_after_fall_rpm", "rotor_overspeed_ratio"}},
 		{"shaft-load", calc.ShaftLoad, []string{"drum_weight_n", "rope_pull_n", "total_n"}},
@@ -1004,3 +1052,10 @@ func ExampleRunaway() {
 	// Output:
 	// a = 4.8 m/s², α = 24 rad/s², T = 6.0 N
 }
+
+// gearbox1 and gearboxLimit1 are GearboxTorque and GearboxTorqueLimitKg with the peak
+// factor 1.0 (both profiles' gearbox.peak_factor: the stop torque against the rated
+// torque where the register gives no peak rating).
+func gearbox1(h calc.Hoist) (calc.Outcome, error) { return calc.GearboxTorque(h, 1) }
+
+func gearboxLimit1(h calc.Hoist) float64 { return calc.GearboxTorqueLimitKg(h, 1) }

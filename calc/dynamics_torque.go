@@ -122,8 +122,13 @@ func dynAccelInput(h Hoist) error {
 	return nil
 }
 
-// GearboxTorque computes the check `gearbox-torque`: the largest torque on the gear
-// unit's output (drum) shaft, against its rated output torque h.GearboxRatedTorqueNm.
+// GearboxTorque computes the check `gearbox-torque`: the torques on the gear unit's
+// output (drum) shaft against its ratings (design.md Revision 2, "Gearbox"): the steady
+// and accelerating torque against the rated output torque C = h.GearboxRatedTorqueNm,
+// the emergency stop's momentary torque against the peak (momentary) rating C_p =
+// h.GearboxPeakTorqueNm, or, where the register gives none, C × peakFactor (rule
+// gearbox.peak_factor; 1.0 is the conservative reading, common practice). The Note says
+// which peak rating was used.
 //
 // Formulas (design.md "Exact definitions"; drum-brake case our reading, below):
 //
@@ -132,7 +137,7 @@ func dynAccelInput(h Hoist) error {
 //	emergency stop, drum brake:        T_stop = η_g i² J_m α_b,  α_b = a_b n_e / r,
 //	                                   a_b = (F_b/η_RD − m_H g)/m_eq,d as in BrakeStop,
 //	                                   with the empty hook (m = m_H)
-//	Demand = max(T_acc, T_stop),  Capacity = gearbox rated output torque
+//	u = max(T_acc / C, T_stop / C_p); Demand and Capacity those of the larger term
 //
 // Symbols as in MotorAccelTorque and BrakeStop. Sources: Newton's second law for the load
 // and the drum (T_acc is the drum-shaft torque that accelerates both: the drum inertia
@@ -154,9 +159,10 @@ func dynAccelInput(h Hoist) error {
 // model cannot give: the stop torque is NaN (said in the Note) and the demand is T_acc.
 //
 // Evaluated at r_1 and r_L, the larger torque is reported. Valid ranges: rated torque >
-// 0, a ≥ 0, M_b ≥ 0, N_b ≥ 1, plus the train's. Figures: accel_drum_torque_nm,
-// stop_drum_torque_nm.
-func GearboxTorque(h Hoist) (Outcome, error) {
+// 0, peak torque ≥ 0 (0: not given), peakFactor > 0, a ≥ 0, M_b ≥ 0, N_b ≥ 1, plus the
+// train's. Figures: accel_drum_torque_nm, stop_drum_torque_nm, rated_torque_nm,
+// peak_torque_nm (C_p).
+func GearboxTorque(h Hoist, peakFactor float64) (Outcome, error) {
 	t, err := dynTrainOf(h)
 	if err != nil {
 		return Outcome{}, fmt.Errorf("calc.GearboxTorque: %w", err)
@@ -170,6 +176,13 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 	if !(h.GearboxRatedTorqueNm > 0) || !dynFinite(h.GearboxRatedTorqueNm) {
 		return Outcome{}, fmt.Errorf("calc.GearboxTorque: %w", &RangeError{Field: "gearbox_rated_torque", Msg: fmt.Sprintf("gearbox rated output torque must be > 0 (got %g N m)", h.GearboxRatedTorqueNm)})
 	}
+	if !(h.GearboxPeakTorqueNm >= 0) || !dynFinite(h.GearboxPeakTorqueNm) {
+		return Outcome{}, fmt.Errorf("calc.GearboxTorque: %w", &RangeError{Field: "gearbox_peak_torque", Msg: fmt.Sprintf("gearbox peak output torque must be ≥ 0 (got %g N m)", h.GearboxPeakTorqueNm)})
+	}
+	if !(peakFactor > 0) || !dynFinite(peakFactor) {
+		return Outcome{}, fmt.Errorf("calc.GearboxTorque: %w", &RangeError{Field: "", Msg: fmt.Sprintf("rule value gearbox.peak_factor must be > 0 (got %g): check the rule table", peakFactor)})
+	}
+	peakCap, peakFrom := gearboxPeak(h, peakFactor)
 	a := h.AccelMS2
 	nb := float64(h.Brakes)
 	mb := h.BrakeTorqueNm
@@ -245,16 +258,26 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 	}
 
 	out.Demand = acc
+	uAcc, uStop := acc/out.Capacity, stop/peakCap // uStop NaN without a stop torque
+	stopGoverns := uStop > uAcc
 	if h.SkipDetail { // the demand below, without the notes
-		if stop > acc {
-			out.Demand = stop
+		if stopGoverns {
+			out.Demand, out.Capacity = stop, peakCap
 		}
 		out.Utilisation = out.Demand / out.Capacity
 		return out, nil
 	}
+	if rec {
+		out.Steps = append(out.Steps,
+			Step{Symbol: "C_p", Formula: peakFrom, Numbers: dynNum(peakCap), Value: peakCap, Unit: "N m"},
+			Step{Symbol: "u_acc", Formula: "T_acc / C (rated output torque)", Numbers: dynNum(acc) + " / " + dynNum(out.Capacity), Value: uAcc, Unit: "1"})
+		if !math.IsNaN(uStop) {
+			out.Steps = append(out.Steps, Step{Symbol: "u_stop", Formula: "T_stop / C_p (momentary peak)", Numbers: dynNum(stop) + " / " + dynNum(peakCap), Value: uStop, Unit: "1"})
+		}
+	}
 	which := t.radiusPhrase(accK, accelGovernsAt, accelGovernsAtOf)
-	if stop > acc {
-		out.Demand = stop
+	if stopGoverns {
+		out.Demand, out.Capacity = stop, peakCap
 		switch {
 		case !h.BrakeOnDrum: // stopK < 0: one stop torque, not by radius
 			which = "the emergency stop governs (motor-shaft brake torque through the back-driven gearbox, an upper bound)"
@@ -265,15 +288,26 @@ func GearboxTorque(h Hoist) (Outcome, error) {
 		}
 	}
 	out.Utilisation = out.Demand / out.Capacity
-	out.Note = which
+	out.Note = which + "; stop torque against the " + peakFrom
 	if stopWhy != "" {
 		out.Note += "; " + stopWhy
 	}
 	out.Figures = h.Figs.take([]Figure{
 		{Name: "accel_drum_torque_nm", Value: acc, Unit: "N m"},
 		{Name: "stop_drum_torque_nm", Value: stop, Unit: "N m"},
+		{Name: "rated_torque_nm", Value: h.GearboxRatedTorqueNm, Unit: "N m"},
+		{Name: "peak_torque_nm", Value: peakCap, Unit: "N m"},
 	})
 	return out, nil
+}
+
+// gearboxPeak is the gear unit's momentary (peak) output rating C_p [N m] and, in words,
+// where it comes from: the register's peak torque, or the rated torque × peakFactor.
+func gearboxPeak(h Hoist, peakFactor float64) (float64, string) {
+	if h.GearboxPeakTorqueNm > 0 {
+		return h.GearboxPeakTorqueNm, "gear unit's peak (momentary) rating from the register"
+	}
+	return h.GearboxRatedTorqueNm * peakFactor, "rated torque × gearbox.peak_factor " + dynNum(peakFactor) + " (no peak rating in the register)"
 }
 
 // ShaftLoad computes the check `shaft-load` (Verdict Info): the radial load on the drum

@@ -28,7 +28,7 @@ func TestFigureBufSameFigures(t *testing.T) {
 		{"brake-stop", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, 0) }},
 		{"runaway", calc.Runaway},
 		{"motor-accel-torque", calc.MotorAccelTorque},
-		{"gearbox-torque", calc.GearboxTorque},
+		{"gearbox-torque", gearbox1},
 		{"shaft-load", calc.ShaftLoad},
 		{"load-test", func(h calc.Hoist) (calc.Outcome, error) {
 			return calc.LoadTestNumbers(h.RatedLoadKg, 1.25*h.RatedLoadKg, 1.25, h.Figs)

@@ -70,6 +70,7 @@ type Hoist struct {
 	GearEff              float64 // η_g, forward (hoisting) efficiency [1]
 	GearBackEff          float64 // η_gb, back-driving efficiency [1]; ≤ 0 self-locking
 	GearboxRatedTorqueNm float64 // rated output (drum-shaft) torque of the gear unit [N m]
+	GearboxPeakTorqueNm  float64 // momentary (peak) output torque of the gear unit [N m] (0 = not given)
 
 	MotorPowerW      float64 // P, rated power [W]
 	MotorSpeedRPM    float64 // N, rated (full-load) speed [rev/min]

@@ -41,7 +41,7 @@ func recChecks() []recCheck {
 			return calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.0, Each: true})
 		}},
 		{"motor-accel-torque", calc.MotorAccelTorque},
-		{"gearbox-torque", calc.GearboxTorque},
+		{"gearbox-torque", gearbox1},
 		{"brake-stop", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, 0.5) }},
 		{"brake-stop no limit", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, 0) }},
 		{"runaway", calc.Runaway},
@@ -247,7 +247,7 @@ func benchChecks(b *testing.B, h calc.Hoist) {
 		func(h calc.Hoist) (calc.Outcome, error) { return calc.HoistSpeed(h, 0.10) },
 		func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeHolding(h, calc.BrakeRule{Factor: 1.25}) },
 		calc.MotorAccelTorque,
-		calc.GearboxTorque,
+		gearbox1,
 		func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeStop(h, 0.5) },
 		calc.Runaway,
 		calc.ShaftLoad,

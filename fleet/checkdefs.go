@@ -300,16 +300,26 @@ func checkDefinitions() []Definition {
 			prepare:   closedForm(calc.MotorAccelTorque, calc.MotorAccelTorqueLimitKg)},
 		{ID: "gearbox-torque", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
 			advise: overLimit("gearbox torque", "fit a gear unit rated at least", "N m", 1),
-			Needs:  join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), Uses: brakeUses,
-			Rule: "largest drum-shaft torque ≤ gearbox rated output torque", Source: "gear unit rating from the register; Newton's second law",
-			Reference: []string{"TestGearboxTorque", "TestTorqueLimitsKg"},
+			Needs:  join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), Uses: join(brakeUses, []string{"gearbox_peak_torque"}),
+			Rules:     []string{"gearbox.peak_factor"},
+			Reference: []string{"TestGearboxTorque", "TestGearboxPeakRating", "TestTorqueLimitsKg"},
 			applicable: func(d *hoistData) (bool, string) {
 				if d.isMissing("gearbox_rated_torque") {
 					return false, "no gearbox rated torque in the register"
 				}
 				return true, ""
 			},
-			prepare: closedForm(calc.GearboxTorque, calc.GearboxTorqueLimitKg)},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				// Steady and accelerating torque against the rated torque, the emergency
+				// stop's momentary torque against the peak rating, or the rated torque ×
+				// gearbox.peak_factor without one (design.md Revision 2).
+				pf, r, err := d.rule("gearbox.peak_factor")
+				if err != nil {
+					return nil, nil, err
+				}
+				d.closedLimit = func(h calc.Hoist) float64 { return calc.GearboxTorqueLimitKg(h, pf) }
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.GearboxTorque(h, pf) }, d.usedRows(r), nil
+			}},
 		{ID: "brake-holding", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
 			advise: overLimit("holding brake demand", "fit holding brakes of at least", "N m", 1),
 			Needs:  join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio"}), Uses: brakeUses,

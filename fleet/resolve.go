@@ -275,6 +275,7 @@ func (c *Checker) resolve(a *Asset, d *hoistData) {
 		}
 	}
 	h.GearboxRatedTorqueNm, _ = d.num("gearbox_rated_torque")
+	h.GearboxPeakTorqueNm, _ = d.num("gearbox_peak_torque")
 	h.MotorPowerW, _ = d.num("motor_power")
 	h.MotorSpeedRPM, _ = d.num("motor_speed")
 	h.PeakTorqueRatio = d.numRule("motor_peak_torque", "default.peak_torque_ratio", "motor peak torque %g × rated")

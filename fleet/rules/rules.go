@@ -220,6 +220,7 @@ var knownRules = map[string]ruleSpec{
 	"hoist_speed.tolerance":         ruleSpec{dims: []string{"ratio"}, min: 0, minEx: true, max: 1},
 	"brake.factor":                  factorSpec,
 	"brake.each":                    {words: []string{"yes", "no"}},
+	"gearbox.peak_factor":           factorSpec,
 	"brake.basis":                   {words: []string{"hoisting", "static"}},
 	"brake.each_factor":             factorSpec,
 	"brake.needs_control_braking":   {words: []string{"yes", "no"}},
