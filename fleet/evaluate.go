@@ -466,12 +466,14 @@ func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck,
 	return e
 }
 
-// worstCheck names the check behind the hoist's verdict: among the pass / marginal / fail
-// checks of the worst status, the one with the smallest margin (a fleet angle below its
-// minimum is marginal with a large margin, so the status comes first). A failing check
-// without a margin (brakes that cannot stop) counts as the smallest.
+// worstCheck names the check whose margin is the hoist's smallest margin (design.md
+// Revision 2, "Smallest margin"): among the pass / marginal / fail checks that carry a
+// margin, the one with the smallest, the worse status first on a tie. A check without a
+// utilisation (brakes that cannot stop, an information check) never carries a margin,
+// and a check judged without the band (load-test) counts only when it fails, as in
+// min_margin. "" when no check carries a margin.
 func worstCheck(checks []CheckResult, prepared []preparedCheck) string {
-	worst, best, bestMargin := StatusPass, "", math.Inf(1)
+	best, bestMargin, bestStatus := "", math.Inf(1), StatusPass
 	for i, c := range checks {
 		if c.Status != StatusPass && c.Status != StatusMarginal && c.Status != StatusFail {
 			continue
@@ -481,10 +483,10 @@ func worstCheck(checks []CheckResult, prepared []preparedCheck) string {
 		}
 		m := c.Margin
 		if math.IsNaN(m) {
-			m = math.Inf(-1)
+			continue
 		}
-		if c.Status.Worse(worst) || (c.Status == worst && (best == "" || m < bestMargin)) {
-			worst, best, bestMargin = c.Status, c.ID, m
+		if best == "" || m < bestMargin || (m == bestMargin && c.Status.Worse(bestStatus)) {
+			best, bestMargin, bestStatus = c.ID, m, c.Status
 		}
 	}
 	return best

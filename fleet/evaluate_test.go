@@ -77,7 +77,11 @@ func TestEvaluationPrecedence(t *testing.T) {
 		{"fail beats error", []preparedCheck{fakeCheck("e", StatusError, nil), fakeCheck("f", 0, util(1.5)), fakeCheck("u", StatusUnchecked, nil)}, StatusFail, -0.5, "f"},
 		{"info never counts", []preparedCheck{fakeCheck("i", 0, info), fakeCheck("a", 0, util(0.5))}, StatusPass, 0.5, "a"},
 		{"info alone", []preparedCheck{fakeCheck("i", 0, info), fakeCheck("n", StatusInfo, nil)}, StatusPass, math.NaN(), ""},
-		{"fail outright without margin", []preparedCheck{fakeCheck("s", 0, failOutright)}, StatusFail, math.NaN(), "s"},
+		// design.md Revision 2, "Smallest margin": worst_check names the check whose
+		// margin min_margin is; a check without a utilisation never carries one.
+		{"fail outright without margin", []preparedCheck{fakeCheck("s", 0, failOutright)}, StatusFail, math.NaN(), ""},
+		{"margin credited to its check (CS-H07)", []preparedCheck{fakeCheck("h", 0, util(2.949)), fakeCheck("s", 0, failOutright)}, StatusFail, -1.949, "h"},
+		{"marginal outright, smaller margin elsewhere", []preparedCheck{fakeCheck("a", 0, util(0.85)), fakeCheck("m", 0, &calc.Outcome{Verdict: calc.Marginal, Utilisation: 0.15, Demand: 0.15, Capacity: 1})}, StatusMarginal, 0.15, "a"},
 		{"utilisation exactly 1 is marginal", []preparedCheck{fakeCheck("a", 0, util(1))}, StatusMarginal, 0, "a"},
 	}
 	for _, tc := range cases {
@@ -350,4 +354,28 @@ func resultText(r *Result) string {
 		p = fmt.Sprintf("%+v", *r.Proposed)
 	}
 	return fmt.Sprintf("%+v|%+v|%q|%q|%q|%v|%s", r.Evaluation, r.Rating, r.Messages, r.DefaultsUsed, r.Derived, r.rules, p)
+}
+
+// TestDerivedMBFIsADefault (design.md Revision 2): a minimum breaking force derived from
+// grade and construction (EN 12385-4 F_min = d² R K / 1000: 14² × 1960 × 0.356 / 1000 =
+// 136.8 kN for 14 mm 6x36 IWRC 1960, computed) is listed in defaults_used, since no
+// certificate stands behind it; a certificate value in the register always wins.
+func TestDerivedMBFIsADefault(t *testing.T) {
+	c := isoChecker(t)
+	r := c.Check(winchA(t).drop("rope_mbf").num("rope_grade", 1960).text("rope_construction", "6x36 IWRC").asset())
+	found := false
+	for _, s := range r.DefaultsUsed {
+		if strings.Contains(s, "rope MBF 136.8 kN derived from grade and construction") {
+			found = true
+		}
+	}
+	if !found {
+		t.Errorf("defaults_used %q: want the derived MBF (136.8 kN) listed", r.DefaultsUsed)
+	}
+	given := c.Check(winchA(t).num("rope_grade", 1960).text("rope_construction", "6x36 IWRC").asset())
+	for _, s := range given.DefaultsUsed {
+		if strings.Contains(s, "rope MBF") {
+			t.Errorf("MBF given in the register, yet defaults_used lists %q", s)
+		}
+	}
 }

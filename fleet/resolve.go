@@ -302,6 +302,9 @@ func (c *Checker) resolve(a *Asset, d *hoistData) {
 			}
 			d.derived = append(d.derived, fmt.Sprintf("rope MBF %.1f kN from EN 12385-4: d² R K/1000 with d %g mm, R %g N/mm², K %g (%s)",
 				h.RopeMBFN/1000, h.RopeDiameterM*1000, grade, k, canon))
+			// A value the verdicts rest on that no certificate gives: listed with the
+			// defaults (design.md Revision 2); a certificate value always wins.
+			d.defaults = append(d.defaults, fmt.Sprintf("rope MBF %.1f kN derived from grade and construction (EN 12385-4), no certificate value in the register", h.RopeMBFN/1000))
 		}
 	}
 	d.h = h
