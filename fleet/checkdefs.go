@@ -482,7 +482,9 @@ func checkDefinitions() []Definition {
 				return false, "the rules in force require no overload limiter at this rated load, and the register does not say whether one is fitted"
 			},
 			prepare: prepareOverloadLimiter},
-		{ID: "component-rating", Kind: Mechanical, LoadDependent: true, Linear: true, Optional: true, CapsRating: true,
+		// NoBand: a hoist rated at exactly its Component WLL is the ordinary case, not a
+		// near miss (pass up to utilisation 1, as load-test).
+		{ID: "component-rating", Kind: Mechanical, LoadDependent: true, Linear: true, Optional: true, CapsRating: true, NoBand: true,
 			advise: func(in adviceInput) advice {
 				if math.IsNaN(in.cr.Utilisation) { // a proposed load without a Component WLL
 					return say("have hook, block, trolley and structure rated (Component WLL) before using the proposed load")

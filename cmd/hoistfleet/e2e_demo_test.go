@@ -24,6 +24,8 @@ var designCheckIDs = []string{
 	"motor-torque", "motor-power", "hoist-speed", "motor-accel-torque", "gearbox-torque",
 	"brake-holding", "brake-stop", "runaway", "shaft-load", "design-life", "inspection-due",
 	"load-test", "rope-wear",
+	// design.md Revision 2, "contract additions".
+	"component-rating",
 }
 
 // demoRun is the demo written and checked once, shared by the tests that only read it.
