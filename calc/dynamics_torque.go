@@ -182,7 +182,10 @@ func GearboxTorque(h Hoist, peakFactor float64) (Outcome, error) {
 	if !(peakFactor > 0) || !dynFinite(peakFactor) {
 		return Outcome{}, fmt.Errorf("calc.GearboxTorque: %w", &RangeError{Field: "", Msg: fmt.Sprintf("rule value gearbox.peak_factor must be > 0 (got %g): check the rule table", peakFactor)})
 	}
-	peakCap, peakFrom := gearboxPeak(h, peakFactor)
+	peakCap := h.GearboxRatedTorqueNm * peakFactor
+	if h.GearboxPeakTorqueNm > 0 {
+		peakCap = h.GearboxPeakTorqueNm
+	}
 	a := h.AccelMS2
 	nb := float64(h.Brakes)
 	mb := h.BrakeTorqueNm
@@ -267,6 +270,7 @@ func GearboxTorque(h Hoist, peakFactor float64) (Outcome, error) {
 		out.Utilisation = out.Demand / out.Capacity
 		return out, nil
 	}
+	peakFrom := gearboxPeakFrom(h, peakFactor)
 	if rec {
 		out.Steps = append(out.Steps,
 			Step{Symbol: "C_p", Formula: peakFrom, Numbers: dynNum(peakCap), Value: peakCap, Unit: "N m"},
@@ -288,7 +292,7 @@ func GearboxTorque(h Hoist, peakFactor float64) (Outcome, error) {
 		}
 	}
 	out.Utilisation = out.Demand / out.Capacity
-	out.Note = which + "; stop torque against the " + peakFrom
+	out.Note = which + "; stop torque against the " + peakFrom // one concatenation
 	if stopWhy != "" {
 		out.Note += "; " + stopWhy
 	}
@@ -301,13 +305,16 @@ func GearboxTorque(h Hoist, peakFactor float64) (Outcome, error) {
 	return out, nil
 }
 
-// gearboxPeak is the gear unit's momentary (peak) output rating C_p [N m] and, in words,
-// where it comes from: the register's peak torque, or the rated torque × peakFactor.
-func gearboxPeak(h Hoist, peakFactor float64) (float64, string) {
-	if h.GearboxPeakTorqueNm > 0 {
-		return h.GearboxPeakTorqueNm, "gear unit's peak (momentary) rating from the register"
+// gearboxPeakFrom says in words where the gear unit's momentary (peak) output rating
+// C_p comes from: the register's peak torque, or the rated torque × peakFactor.
+func gearboxPeakFrom(h Hoist, peakFactor float64) string {
+	switch {
+	case h.GearboxPeakTorqueNm > 0:
+		return "gear unit's peak (momentary) rating from the register"
+	case peakFactor == 1:
+		return "rated torque × gearbox.peak_factor 1 (no peak rating in the register)"
 	}
-	return h.GearboxRatedTorqueNm * peakFactor, "rated torque × gearbox.peak_factor " + dynNum(peakFactor) + " (no peak rating in the register)"
+	return "rated torque × gearbox.peak_factor " + dynNum(peakFactor) + " (no peak rating in the register)"
 }
 
 // ShaftLoad computes the check `shaft-load` (Verdict Info): the radial load on the drum

@@ -719,15 +719,14 @@ func BrakeHolding(h Hoist, rule BrakeRule) (Outcome, error) {
 	if h.SkipDetail {
 		return Outcome{Demand: demand, Capacity: capacity, Unit: "N m", Utilisation: util, Verdict: verdict}, nil
 	}
-	where := "motor shaft"
-	if h.BrakeOnDrum {
-		where = "drum"
-	}
-	note := "brake on the " + where
-	if rule.Static {
-		note += "; factor on the static torque T_s (no losses)"
-	} else {
-		note += "; factor on the hoisting torque T_h (losses included)"
+	note := brakeNotes[0]
+	switch {
+	case h.BrakeOnDrum && rule.Static:
+		note = brakeNotes[3]
+	case h.BrakeOnDrum:
+		note = brakeNotes[2]
+	case rule.Static:
+		note = brakeNotes[1]
 	}
 	switch {
 	case eachGoverns:
@@ -751,6 +750,14 @@ func BrakeHolding(h Hoist, rule BrakeRule) (Outcome, error) {
 		Figures:     h.Figs.take(brakeFigures(th, ts, rule.Factor, float64(h.Brakes)*h.BrakeTorqueNm, rule.Factor*basis, uEach, bestR)),
 		Steps:       steps,
 	}, nil
+}
+
+// brakeNotes are the notes every BrakeHolding result starts with (made once).
+var brakeNotes = [4]string{
+	"brake on the motor shaft; factor on the hoisting torque T_h (losses included)",
+	"brake on the motor shaft; factor on the static torque T_s (no losses)",
+	"brake on the drum; factor on the hoisting torque T_h (losses included)",
+	"brake on the drum; factor on the static torque T_s (no losses)",
 }
 
 // brakeFigures are BrakeHolding's figures; each_brake_utilisation only where the

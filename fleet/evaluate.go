@@ -38,6 +38,7 @@ type Checker struct {
 	specs   []checkSpec     // the checks, built once
 	keys    keyIndex        // schema key → index in columns
 	texts   sync.Map        // ruleSet → ruleText: the rule and source text of a set of rows
+	reviews sync.Map        // ruleSet → reviewText: the texts of a set of review rows
 	ropes   ropeCache       // rope construction text → what calc reads from it
 	scratch sync.Pool       // *scratch, reused from one Check to the next
 	results sync.Pool       // *Result, recycled by Run once written (recycle)
@@ -345,23 +346,8 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 // naming them. When a rule has only a review row, the check itself is judged against
 // review rows (reviewOnly): then it never fails and does not enter the rating.
 func (c *Checker) prepareReview(d *hoistData, s *checkSpec, p *preparedCheck) {
-	t := c.opts.Rules
-	var ids, srcs []string
-	for _, r := range d.reviewRows {
-		row := &t.Rules[r]
-		v := row.ID + " = " + row.Value
-		if row.Unit != "" && row.Unit != "1" {
-			v += " " + row.Unit
-		}
-		if !slices.Contains(ids, v) {
-			ids = append(ids, v)
-		}
-		if cite := t.RuleCite(r); !slices.Contains(srcs, cite) {
-			srcs = append(srcs, cite)
-		}
-	}
-	p.reviewRule, p.reviewSource = strings.Join(ids, ", "), strings.Join(srcs, "; ")
-	p.reviewMsg = "exceeds " + p.reviewRule + " (" + p.reviewSource + "), which is not verified: check the document before relying on it"
+	rt := c.reviewTexts(d.reviewRows)
+	p.reviewRule, p.reviewSource, p.reviewMsg = rt.rule, rt.source, rt.msg
 	if d.reviewOnly {
 		p.reviewOnly = true
 		return
@@ -374,6 +360,42 @@ func (c *Checker) prepareReview(d *hoistData, s *checkSpec, p *preparedCheck) {
 	if err == nil {
 		p.review = run
 	}
+}
+
+// reviewText is what a check says of the review rows it was judged against.
+type reviewText struct{ rule, source, msg string }
+
+// reviewTexts returns the texts of a set of review rows: "id = value" of each, their
+// citations, and the message of a check that exceeds them. They repeat from hoist to
+// hoist, so they are made once per set.
+func (c *Checker) reviewTexts(rows []int) reviewText {
+	key, cacheable := ruleSetOf(rows)
+	if cacheable {
+		if v, ok := c.reviews.Load(key); ok {
+			return v.(reviewText)
+		}
+	}
+	t := c.opts.Rules
+	var ids, srcs []string
+	for _, r := range rows {
+		row := &t.Rules[r]
+		v := row.ID + " = " + row.Value
+		if row.Unit != "" && row.Unit != "1" {
+			v += " " + row.Unit
+		}
+		if !slices.Contains(ids, v) {
+			ids = append(ids, v)
+		}
+		if cite := t.RuleCite(r); !slices.Contains(srcs, cite) {
+			srcs = append(srcs, cite)
+		}
+	}
+	rt := reviewText{rule: strings.Join(ids, ", "), source: strings.Join(srcs, "; ")}
+	rt.msg = "exceeds " + rt.rule + " (" + rt.source + "), which is not verified: check the document before relying on it"
+	if cacheable {
+		c.reviews.Store(key, rt)
+	}
+	return rt
 }
 
 // applyReview judges a check that ran against its review limit: the utilisation is
@@ -390,7 +412,7 @@ func (c *Checker) applyReview(cr *CheckResult, p *preparedCheck, h calc.Hoist) {
 			return
 		}
 		hr := h
-		hr.SkipRecord = true
+		hr.SkipRecord, hr.SkipDetail = true, true // the numbers only
 		o, err := p.review(hr)
 		if err != nil {
 			return
