@@ -466,7 +466,7 @@ func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck,
 				if p.spec.LoadDependent && cr.Status == StatusFail {
 					// What the check would need to pass: its capacity scaled by the
 					// utilisation (= the demand where utilisation is demand / capacity).
-					cr.RequiredCapacity = cr.Capacity * cr.Utilisation
+					cr.RequiredCapacity = RequiredCapacity(&cr)
 				}
 			}
 		}

@@ -362,7 +362,7 @@ func TestRatingNeverAboveWhatWasChecked(t *testing.T) {
 	// winchA scaled: 25 t rated; the checks' limits are the hoist's, so build one whose
 	// mechanism capacity exceeds 25 t by scaling the motor, rope and brake generously.
 	big := func() *assetBuilder {
-		return winchA(t).num("rated_load", 25*tonne).num("motor_power", 45000).num("rope_mbf", 800e3).
+		return winchA(t).num("rated_load", 25*tonne).num("motor_power", 45000).num("rope_mbf", 300e3).
 			num("brake_torque", 500).num("gearbox_rated_torque", 90000)
 	}
 	r := c.Check(big().asset())
