@@ -99,6 +99,11 @@ func CheckBasis(c *fleet.CheckResult) []string {
 	if c.Rule != "" {
 		out = append(out, "Rule: "+c.Rule, "Source: "+c.Source)
 	}
+	if c.ReviewRule != "" {
+		// design.md Revision 2: a review limit (a rule recalled with low confidence) is
+		// shown with its utilisation; it never makes the check fail.
+		out = append(out, "Review limit (not verified, at worst marginal): "+c.ReviewRule+", utilisation "+Num(c.ReviewUtilisation)+"; source "+c.ReviewSource)
+	}
 	if c.Message != "" {
 		out = append(out, "Note: "+c.Message)
 	}
@@ -173,6 +178,9 @@ func Verdict(r *fleet.Result, h *fleet.Header) []string {
 	out := []string{fmt.Sprintf("Overall status: %s. Smallest margin: %s (%s).", r.Status, Pct(r.MinMargin), orDash(r.WorstCheck))}
 	if !math.IsNaN(r.MaxRatedLoadKg) {
 		out = append(out, fmt.Sprintf("Maximum permissible rated load on the data given: %s%s, governed by %s.", Kg(r.MaxRatedLoadKg), RegisterUnit(r.MaxRatedLoadKg, h), r.GoverningCheck))
+		if !math.IsNaN(r.MechanismCapacityKg) && r.MechanismCapacityKg != r.MaxRatedLoadKg {
+			out = append(out, fmt.Sprintf("Mechanism capacity (the smallest limit of the mechanism's checks): %s%s.", Kg(r.MechanismCapacityKg), RegisterUnit(r.MechanismCapacityKg, h)))
+		}
 	} else {
 		out = append(out, "Maximum permissible rated load: not given.")
 	}

@@ -48,11 +48,14 @@ func TestWriteRecord(t *testing.T) {
 		{Index: 1, Title: "Rated load [t]", Key: "rated_load", Unit: "t", Factor: 1000}}}
 	r := &fleet.Result{Asset: a, DefaultsUsed: []string{"hook block mass 0 kg"}}
 	r.Status, r.RatedLoadKg, r.MinMargin, r.WorstCheck = fleet.StatusPass, 5000, 0.21, "rope-design-factor"
-	r.MaxRatedLoadKg, r.GoverningCheck = 6350.2, "rope-design-factor"
+	r.MaxRatedLoadKg, r.GoverningCheck, r.MechanismCapacityKg = 5000, fleet.RatedLoadCap, 6350.2
 	r.Checks = []fleet.CheckResult{{ID: "rope-design-factor", Status: fleet.StatusPass, Demand: 4.5, Capacity: 5.7, Unit: "1",
 		Utilisation: 0.789, Margin: 0.211, LimitRatedLoadKg: 6350.2, LoadDependent: true,
 		Rule: "rope.design_factor = 4.5 (M5)", Source: "ISO 4308-1 [seen]",
-		Steps: []calc.Step{{Symbol: "W", Formula: "m g", Numbers: "5000 × 9.80665", Value: 49033.25, Unit: "N"}}}}
+		Steps: []calc.Step{{Symbol: "W", Formula: "m g", Numbers: "5000 × 9.80665", Value: 49033.25, Unit: "N"}}},
+		// design.md Revision 2: a review limit's utilisation and source are in the record.
+		{ID: "brake-holding", Status: fleet.StatusPass, Demand: 100, Capacity: 200, Unit: "N m", Utilisation: 0.5, Margin: 0.5,
+			ReviewRule: "brake.factor = 1.6", ReviewUtilisation: 0.64, ReviewSource: "EN 14492-2 [memory, low]"}}
 	info := &fleet.RunInfo{Tool: "hoistfleet", Version: "test", Input: "reg.csv", Profile: "iso", AsOf: time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC)}
 	for _, f := range []Format{Text, Markdown} {
 		var b bytes.Buffer
@@ -67,7 +70,8 @@ func TestWriteRecord(t *testing.T) {
 		}
 		for _, want := range []string{"ISO 4308-1 [seen]", "5000 × 9.80665", "49033", "6350.2 kg", "rope-design-factor",
 			"hook block mass 0 kg", "Rated load [t]", "5000 kg", "Prepared by:", "Checked by:", "Approved by:",
-			"does not check", "the runway, rails"} {
+			"does not check", "the runway, rails", "governed by rated-load-cap", "Mechanism capacity",
+			"Review limit (not verified, at worst marginal): brake.factor = 1.6, utilisation 0.64; source EN 14492-2 [memory, low]"} {
 			if !strings.Contains(out, want) && !strings.Contains(joined, want) {
 				t.Errorf("format %d: record lacks %q", f, want)
 			}
