@@ -428,18 +428,16 @@ func checkDefinitions() []Definition {
 					return nil, nil, err
 				}
 				test, _ := d.num("test_load")
-				rated := d.h.RatedLoadKg
-				factor := func(h calc.Hoist) float64 {
-					if h.RatedLoadKg > rated {
-						return fp
-					}
-					return f
-				}
-				if d.c.opts.Record {
-					return func(h calc.Hoist) (calc.Outcome, error) { return calc.LoadTest(h.RatedLoadKg, test, factor(h)) }, d.usedRows(r, rp), nil
-				}
+				rated, record := d.h.RatedLoadKg, d.c.opts.Record
 				return func(h calc.Hoist) (calc.Outcome, error) {
-					return calc.LoadTestNumbers(h.RatedLoadKg, test, factor(h), h.Figs)
+					factor := f
+					if h.RatedLoadKg > rated {
+						factor = fp
+					}
+					if record {
+						return calc.LoadTest(h.RatedLoadKg, test, factor)
+					}
+					return calc.LoadTestNumbers(h.RatedLoadKg, test, factor, h.Figs)
 				}, d.usedRows(r, rp), nil
 			}},
 		{ID: "rope-wear", Kind: Mechanical, NullsRating: true, FlagList: true,
