@@ -130,6 +130,14 @@ func TestRatingDiagramCrossesAtTheLimits(t *testing.T) {
 				first, firstID = x, c.ID
 			}
 		}
+		// Capped at the register's rated load (design.md Revision 2, rated-load-cap): the
+		// first line crosses at the mechanism's capacity, above the rating.
+		if r.GoverningCheck == fleet.RatedLoadCap && !math.IsInf(first, 1) {
+			governed++
+			if !(first >= r.MechanismCapacityKg && first < r.MechanismCapacityKg+0.1) || first < r.MaxRatedLoadKg {
+				t.Errorf("%s %s: first crossing %s at %.1f kg, mechanism capacity %.1f kg, rating %.1f kg", dh.name, r.Asset.ID, firstID, first, r.MechanismCapacityKg, r.MaxRatedLoadKg)
+			}
+		}
 		if gov := r.GoverningCheck; gov != "" && !math.IsNaN(r.MaxRatedLoadKg) && r.Rating.Note == "" && !math.IsInf(first, 1) {
 			governed++
 			if !(first >= r.MaxRatedLoadKg && first < r.MaxRatedLoadKg+0.1) || (firstID != gov && r.Check(firstID).LimitRatedLoadKg != r.Check(gov).LimitRatedLoadKg) {
@@ -167,10 +175,10 @@ func TestStopProfileIsTheStop(t *testing.T) {
 		approx.Check(t, id+" distance", sp.area(), dist, 0, 1e-9)
 		approx.Check(t, id+" time", sp.T[len(sp.T)-1], calc.FigureValue(c.Figures, "time_s"), 0, 1e-12)
 		approx.Check(t, id+" speed at brake set", sp.V[1], calc.FigureValue(c.Figures, "speed_at_brake_set_m_s"), 0, 1e-12)
-		if v := dh.r.Asset.Get("lowering_speed"); v.State == fleet.OK {
-			approx.Check(t, id+" initial speed", sp.V[0], v.Num, 0, 1e-12)
-		} else if v := dh.r.Asset.Get("hoist_speed"); v.State == fleet.OK {
-			approx.Check(t, id+" initial speed", sp.V[0], v.Num, 0, 1e-12)
+		// design.md Revision 2: the stop on layer j starts from v r_j / r_1 (the motor's
+		// speed is the same on every layer), r_L = D/2 + (L − 1)(√3/2) d.
+		if v := layerSpeed(dh.r.Asset, calc.FigureValue(c.Figures, "stop_layer")); !math.IsNaN(v) {
+			approx.Check(t, id+" initial speed", sp.V[0], v, 0, 1e-12)
 		}
 		if sp.V[len(sp.V)-1] != 0 {
 			t.Errorf("%s: ends at %g m/s", id, sp.V[len(sp.V)-1])
@@ -194,8 +202,11 @@ func TestRunawayProfileIsTheRunaway(t *testing.T) {
 		}
 		n++
 		id := dh.name + " " + dh.r.Asset.ID
-		if v := dh.r.Asset.Get("hoist_speed"); v.State == fleet.OK {
-			approx.Check(t, id+" rated speed", vRated, v.Num, 0, 1e-12)
+		// The rated lowering speed on the layer of the runaway, the first or the outer
+		// (design.md Revision 2).
+		v1, vL := layerSpeed(dh.r.Asset, 1), layerSpeed(dh.r.Asset, math.Inf(1))
+		if !approx.Equal(vRated, v1, 0, 1e-12) && !approx.Equal(vRated, vL, 0, 1e-12) {
+			t.Errorf("%s: rated speed %g, want the lowering speed on the first (%g) or the outer layer (%g)", id, vRated, v1, vL)
 		}
 		if H := dh.r.Asset.Get("lift_height"); H.State == fleet.OK && H.Num > 0 {
 			approx.Check(t, id+" fall", rp.area(), H.Num, 0, 1e-12)
@@ -264,4 +275,31 @@ func TestFontsHaveTheRecordsCharacters(t *testing.T) {
 	if r, bad := p.sans.missing("a\x01b"); !bad || r != 1 {
 		t.Errorf("a control character: %q %v, want it reported", r, bad)
 	}
+}
+
+// layerSpeed is the register's rated lowering speed (the hoisting speed where none is
+// given) on layer j of its drum, v r_j / r_1 (design.md Revision 2): r_1 = D/2, r_L = D/2
+// + (L − 1)(√3/2) d for the outer layer (j ≥ 2; +Inf asks for the outer layer). NaN when
+// the register lacks a value.
+func layerSpeed(a *fleet.Asset, j float64) float64 {
+	v := a.Get("lowering_speed")
+	if v.State != fleet.OK {
+		v = a.Get("hoist_speed")
+	}
+	if v.State != fleet.OK {
+		return math.NaN()
+	}
+	layers := 1.0
+	if l := a.Get("rope_layers"); l.State == fleet.OK {
+		layers = l.Num
+	}
+	if j < 2 || layers < 2 {
+		return v.Num
+	}
+	D, d := a.Get("drum_diameter"), a.Get("rope_diameter")
+	if D.State != fleet.OK || d.State != fleet.OK {
+		return math.NaN()
+	}
+	r1 := D.Num / 2
+	return v.Num * (r1 + (layers-1)*math.Sqrt(3)/2*d.Num) / r1
 }

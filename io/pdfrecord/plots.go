@@ -111,8 +111,12 @@ func newRatingDiagram(r *fleet.Result, ev Evaluator) (ratingDiagram, bool) {
 			cv.U[i] = u
 			any = any || !math.IsNaN(u)
 		}
+		// A check that fails outright below its utilisation limit (design.md Revision 2:
+		// no control braking means, too few brakes) fails at every load: its line would
+		// stay under 1, so it is shown by its limit (0 kg) instead.
+		outright := c.Status == fleet.StatusFail && c.Utilisation <= 1
 		switch {
-		case any:
+		case any && !outright:
 			d.Curves = append(d.Curves, cv)
 		case !math.IsNaN(c.LimitRatedLoadKg):
 			d.Markers = append(d.Markers, cv)
@@ -201,7 +205,8 @@ func stopProfile(c *fleet.CheckResult) (speedProfile, bool) {
 // runawayProfile is runaway's speed from rest with the brake released and the motor
 // unpowered (design.md "Runaway"): v = a_ff t, up to the fall of the lift height (speed
 // fall_speed_m_s at t = v_H / a_ff) or, without a lift height, to three times the time to
-// reach the rated hoisting speed. ratedSpeed is that speed (a_ff × time_to_rated_speed_s).
+// reach the rated speed. ratedSpeed is that speed (a_ff × time_to_rated_speed_s): the rated
+// lowering speed on the layer of the runaway (design.md Revision 2: v_j = v r_j / r_1).
 func runawayProfile(c *fleet.CheckResult) (p speedProfile, ratedSpeed float64, ok bool) {
 	if c == nil {
 		return speedProfile{}, math.NaN(), false
