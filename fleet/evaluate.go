@@ -214,17 +214,6 @@ func (c *Checker) Check(a *Asset) *Result {
 		e := c.evaluate(d, d.h.WithRatedLoad(proposed), prepared, false, r.spare.Checks[:0])
 		for i := range e.Checks {
 			e.Checks[i].LimitRatedLoadKg = r.Checks[i].LimitRatedLoadKg
-			// Above the register's rated load with no Component WLL, the hook, block,
-			// trolley and structure are not known to carry the proposed load: at best
-			// marginal (design.md Revision 2).
-			if cr := &e.Checks[i]; prepared[i].spec.CapsRating && cr.Status == StatusUnchecked && proposed > d.h.RatedLoadKg {
-				cr.Status = StatusMarginal
-				cr.Message = "the proposed " + strconv.FormatFloat(proposed, 'f', 1, 64) + " kg is above the register's rated load " +
-					strconv.FormatFloat(d.h.RatedLoadKg, 'f', 1, 64) + " kg and the register gives no Component WLL: hook, block, trolley and structure must be rated for it"
-				if e.Status == StatusPass {
-					e.Status = StatusMarginal
-				}
-			}
 		}
 		e.Action = c.action(&e, r.MaxRatedLoadKg)
 		r.spare = e
@@ -469,6 +458,14 @@ func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck,
 					cr.RequiredCapacity = RequiredCapacity(&cr)
 				}
 			}
+		}
+		if p.spec.CapsRating && cr.Status == StatusUnchecked && h.RatedLoadKg > d.h.RatedLoadKg {
+			// Above the register's rated load with no Component WLL, the hook, block,
+			// trolley and structure are not known to carry the load: at best marginal
+			// (design.md Revision 2).
+			cr.Status = StatusMarginal
+			cr.Message = "the proposed " + strconv.FormatFloat(h.RatedLoadKg, 'f', 1, 64) + " kg is above the register's rated load " +
+				strconv.FormatFloat(d.h.RatedLoadKg, 'f', 1, 64) + " kg and the register gives no Component WLL: hook, block, trolley and structure must be rated for it"
 		}
 		e.Checks = append(e.Checks, cr)
 		if cr.Status.Worse(e.Status) && !(p.spec.Optional && cr.Status == StatusUnchecked) {

@@ -11,7 +11,7 @@ import (
 // proposed load every check as Check gives it in Result.Proposed. It computes no limit
 // loads. (A records check prepared from the register's rated load, overload-limiter's
 // "required from 1000 kg", is judged as at a proposed load: the register's rating
-// decides whether it applies.)
+// decides whether it applies; so is component-rating without a Component WLL.)
 func TestEvaluateAtLoadsIsCheck(t *testing.T) {
 	cases := []struct {
 		name  string
@@ -39,6 +39,15 @@ func TestEvaluateAtLoadsIsCheck(t *testing.T) {
 				for j, cr := range e.Checks {
 					w := want.Checks[j]
 					if !w.LoadDependent {
+						continue
+					}
+					// component-rating without a Component WLL is judged against the
+					// register's rated load (design.md Revision 2): above it, marginal; a
+					// register rated at that load has nothing above it to check.
+					if cr.ID == "component-rating" && w.Status == StatusUnchecked && kg > rated {
+						if cr.Status != StatusMarginal {
+							t.Errorf("at %g kg, above the rated %g kg without a Component WLL: component-rating %v, want marginal", kg, rated, cr.Status)
+						}
 						continue
 					}
 					if cr.ID != w.ID || cr.Status != w.Status || !sameFloat(cr.Utilisation, w.Utilisation) || !sameFloat(cr.Demand, w.Demand) {

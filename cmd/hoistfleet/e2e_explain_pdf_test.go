@@ -96,7 +96,14 @@ func TestExplainPDFMatchesJSONL(t *testing.T) {
 			if legends == 0 {
 				t.Errorf("no line of the rating diagram crosses the limit")
 			}
-			if gov := h.str("governing_check"); gov != "" && !strings.Contains(flat, gov+" (limit ") {
+			switch gov := h.str("governing_check"); {
+			case gov == "rated-load-cap":
+				// Capped at the register's rated load (design.md Revision 2): the first
+				// line to cross is at the mechanism's capacity.
+				if mc, ok := num(h["mechanism_capacity_kg"]); !ok || !regexp.MustCompile(`\(limit `+regexp.QuoteMeta(strconv.FormatFloat(mc/1000, 'g', 4, 64))+` t\)`).MatchString(flat) {
+					t.Errorf("no line of the rating diagram crosses at the mechanism's capacity %v kg", h["mechanism_capacity_kg"])
+				}
+			case gov != "" && !strings.Contains(flat, gov+" (limit "):
 				t.Errorf("the governing check %s does not cross the limit in the rating diagram", gov)
 			}
 			// The table of checks: each check's status, utilisation and limit load.
