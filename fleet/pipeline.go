@@ -34,12 +34,18 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		return nil, fmt.Errorf("writing results: %w", err)
 	}
 	summary := NewSummary(opts.TopN)
-	for _, p := range src.Header().Problems { // header problems first, once
-		summary.ProblemCount++
-		if len(summary.Problems) < summary.TopN {
-			summary.Problems = append(summary.Problems, p.Error())
+	addProblems := func(ps []*Error) {
+		for _, p := range ps {
+			summary.ProblemCount++
+			if len(summary.Problems) < summary.TopN {
+				summary.Problems = append(summary.Problems, p.Error())
+			}
 		}
 	}
+	// Header problems first, once; a Source may add more while it reads (the rows it
+	// left out, a column's blank markers), which are counted at the end.
+	headerProblems := len(src.Header().Problems)
+	addProblems(src.Header().Problems)
 	useCounts := make([]int, len(opts.Rules.Rules)) // uses of each rule row, by index
 	// A Sink keeps nothing of a result once written (the Sink contract), so Run reuses
 	// its memory: the Result's (Checker.recycle) and, when the Source can take it back,
@@ -134,6 +140,9 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		<-workersDone
 		sink.Abort()
 		return summary, err
+	}
+	if h := src.Header(); len(h.Problems) > headerProblems {
+		addProblems(h.Problems[headerProblems:])
 	}
 	info.Rows = summary.Total
 	info.Rules = ruleUses(opts.Rules, useCounts)

@@ -37,6 +37,7 @@ type checkConfig struct {
 	marginal        float64
 	workers         int
 	ratedLoadFactor float64
+	headerRow       int
 }
 
 func (c *checkConfig) register(fs *pflag.FlagSet) {
@@ -44,9 +45,15 @@ func (c *checkConfig) register(fs *pflag.FlagSet) {
 	fs.StringVar(&c.rulesSheet, "rules-sheet", "", "the sheet of an XLSX rule file to read (default its first sheet)")
 	fs.StringVar(&c.asOf, "as-of", "", "the run's date for inspections and ages, YYYY-MM-DD (default today)")
 	fs.StringVar(&c.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
+	fs.IntVar(&c.headerRow, "header-row", 0, "the register's header row (default: found in the first 30 rows)")
 	fs.Float64Var(&c.marginal, "marginal", 0.10, "marginal band: utilisation above 1 − band and up to 1 is marginal")
 	fs.IntVar(&c.workers, "workers", 0, "checking workers, at least 1 (default the number of cores)")
 	fs.Float64Var(&c.ratedLoadFactor, "rated-load-factor", 0, "re-rate every hoist to F × its rated load and check it there too; F from 0.5 to 3 (1.25 for +25 %)")
+}
+
+// readOptions are the register reader's options from the flags.
+func (c *checkConfig) readOptions() register.Options {
+	return register.Options{HeaderRow: c.headerRow}
 }
 
 // loadRules builds the rule table in force from --rules values (sheet: --rules-sheet).
@@ -158,7 +165,7 @@ func (in *input) sha256() string { return hex.EncodeToString(in.hash.Sum(nil)) }
 
 // openRegister opens a register file read-only ("-" is standard input, CSV). XLSX is
 // told from CSV by the zip signature, not the name.
-func openRegister(name, sheet string, st Streams) (*input, error) {
+func openRegister(name, sheet string, opt register.Options, st Streams) (*input, error) {
 	in := &input{hash: sha256.New()}
 	var r io.Reader
 	display := name
@@ -189,9 +196,9 @@ func openRegister(name, sheet string, st Streams) (*input, error) {
 		if in.file != nil {
 			// From the path: excelize reads the zip with random access instead of a
 			// copy of the whole file in memory. The hash reads the file at the end.
-			in.src, err = register.NewXLSXFile(name, sheet)
+			in.src, err = register.NewXLSXFileOptions(name, sheet, opt)
 		} else {
-			in.src, err = register.NewXLSX(full, filepath.Base(display), sheet)
+			in.src, err = register.NewXLSXOptions(full, filepath.Base(display), sheet, opt)
 		}
 	} else if n >= 4 && bytes.Equal(head, []byte{0xD0, 0xCF, 0x11, 0xE0}) {
 		err = fmt.Errorf("%s is an OLE2 file: a legacy .xls workbook or a password-protected .xlsx; save an unprotected .xlsx or CSV copy", display)
@@ -199,7 +206,7 @@ func openRegister(name, sheet string, st Streams) (*input, error) {
 		if sheet != "" {
 			err = usagef("--sheet %q: %s is a CSV file, it has no sheets", sheet, display)
 		} else {
-			in.src, err = register.NewCSV(full, filepath.Base(display))
+			in.src, err = register.NewCSVOptions(full, filepath.Base(display), opt)
 		}
 	}
 	if err != nil {
@@ -443,7 +450,10 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 	if err != nil {
 		return nil, err
 	}
-	in, err := openRegister(c.register, c.cfg.sheet, st)
+	if c.cfg.headerRow < 0 {
+		return nil, usagef("--header-row %d: want a row number, 1 or more", c.cfg.headerRow)
+	}
+	in, err := openRegister(c.register, c.cfg.sheet, c.cfg.readOptions(), st)
 	if err != nil {
 		return nil, err
 	}
@@ -464,6 +474,12 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 	if err != nil {
 		out.abort()
 		return summary, err
+	}
+	if summary.Total == 0 {
+		// A register without a hoist under its header is not a fleet that passed.
+		out.abort()
+		h := in.src.Header()
+		return summary, fmt.Errorf("%s: no hoist was read: the rows under the header (sheet %s) hold no hoist, so nothing was checked and no results were written", c.register, h.Sheet)
 	}
 	if err := out.commit(); err != nil {
 		return summary, err

@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/xuri/excelize/v2"
 )
 
 // badCellsWant is testdata/README.md's table for bad-cells.csv: for each spreadsheet
@@ -21,7 +23,6 @@ var badCellsWant = []struct {
 	{3, "B-02", [][]string{{"bad-cells.csv!E3", `"twelve"`, "not a number", "[t]"}}},
 	{4, "B-01", [][]string{{"bad-cells.csv!A4", "B-01", "row 2"}}},
 	{5, "", [][]string{{"bad-cells.csv!A5", "missing"}}},
-	{6, "", [][]string{{"bad-cells.csv!", "6", "empty"}}},
 	{7, "B-05", [][]string{{"bad-cells.csv!", "7", "5 cells", "27"}}},
 	{8, "B-06", [][]string{{"bad-cells.csv!AB8", "stray"}}},
 	{9, "B-07", [][]string{
@@ -117,24 +118,32 @@ func TestBadCells(t *testing.T) {
 
 	res := runCmd(t, "", "check", reg, "--format", "jsonl", "-o", "-", "--as-of", "2026-12-01", "-q")
 	hs := parseJSONL(t, res.out)
-	if len(hs) != len(records) {
-		t.Fatalf("jsonl has %d hoists, the register %d rows: every row must appear exactly once", len(hs), len(records))
+	// Every record is a hoist but the empty row 6, which is left out (noted once).
+	var rows []int
+	var ids []string
+	for i, rec := range records {
+		if strings.Join(rec, "") != "" {
+			rows, ids = append(rows, i+2), append(ids, strings.TrimSpace(rec[0]))
+		}
+	}
+	if len(hs) != len(rows) || len(rows) != 22 {
+		t.Fatalf("jsonl has %d hoists, the register %d rows that are not empty (want 22): every row must appear exactly once", len(hs), len(rows))
 	}
 	for i, h := range hs {
-		if got, want := h.str("asset_id"), strings.TrimSpace(records[i][0]); got != want {
-			t.Errorf("jsonl line %d: asset %q, register record %d is %q", i+1, got, i+1, want)
+		if got, want := h.str("asset_id"), ids[i]; got != want {
+			t.Errorf("jsonl line %d: asset %q, register row %d is %q", i+1, got, rows[i], want)
 		}
 		// A spreadsheet opening the CSV shows record i in row i+2 (a quoted field with
 		// a line break stays in one cell); design.md: row is the spreadsheet row.
-		if row, _ := num(h["row"]); row != float64(i+2) {
-			t.Errorf("%q: row %v, the register shows it in spreadsheet row %d", h.str("asset_id"), h["row"], i+2)
+		if row, _ := num(h["row"]); row != float64(rows[i]) {
+			t.Errorf("%q: row %v, the register shows it in spreadsheet row %d", h.str("asset_id"), h["row"], rows[i])
 		}
 		checkHoistObject(t, h)
 	}
 
 	byRow := map[int]jsonHoist{}
 	for i, h := range hs {
-		byRow[i+2] = h
+		byRow[rows[i]] = h
 	}
 	for _, w := range badCellsWant {
 		h := byRow[w.row]
@@ -166,10 +175,11 @@ func TestBadCells(t *testing.T) {
 			t.Errorf("control row 2 %s: error not caused by the two bad headers: %s", c["id"], m)
 		}
 	}
-	// Row 6 is blank: kept, not checked.
-	if st := byRow[6].str("status"); st != "unchecked" {
-		t.Errorf("blank row 6: status %s, want unchecked (kept, not checked)", st)
+	// Row 6 is blank: left out, noted once in the summary.
+	if _, ok := byRow[6]; ok {
+		t.Errorf("blank row 6 is in the results")
 	}
+	// (The workbook's Audit sheet lists the note, below.)
 	// Missing required values make the affected checks unchecked, not error (row 20).
 	for _, id := range []string{"rope-design-factor", "motor-torque"} {
 		if c := byRow[20].check(id); c == nil || c["status"] != "unchecked" {
@@ -207,13 +217,20 @@ func TestBadCells(t *testing.T) {
 	book := filepath.Join(dir, "bad-results.xlsx")
 	runCmd(t, "", "check", reg, "-o", book, "--as-of", "2026-12-01", "-q").mustExit(t, exitFindings, "check bad-cells.csv -o xlsx")
 	f := openXLSX(t, book)
-	rows := sheetRows(t, f, "Register", len(header))
-	if len(rows)-1 != len(records) {
-		t.Errorf("Register sheet has %d data rows, the register %d records (every row exactly once, no gaps)", len(rows)-1, len(records))
+	// Each hoist is on its register row: the empty row 6, left out, stays empty.
+	sheet := sheetRows(t, f, "Register", len(header))
+	var kept [][]string // the records that are not empty (row 6 is left out)
+	for _, rec := range records {
+		if strings.Join(rec, "") != "" {
+			kept = append(kept, rec)
+		}
+	}
+	if len(sheet)-1 != len(records) {
+		t.Errorf("Register sheet has %d data rows, the register %d records (every row on its own row)", len(sheet)-1, len(records))
 	}
 	badRecords := 0
 	for i, rec := range records {
-		if i+1 >= len(rows) || badRecords >= 3 {
+		if i+1 >= len(sheet) || badRecords >= 3 {
 			break
 		}
 		var diffs []string
@@ -222,7 +239,7 @@ func TestBadCells(t *testing.T) {
 				break // cells past the header are reported, not a column
 			}
 			cell := cellName(c+1, i+2)
-			if msg := sameInputValue(t, f, cell, rows[i+1][c], want); msg != "" {
+			if msg := sameInputValue(t, f, cell, sheet[i+1][c], want); msg != "" {
 				diffs = append(diffs, cell+" ("+header[c]+"): "+msg)
 			}
 		}
@@ -233,6 +250,10 @@ func TestBadCells(t *testing.T) {
 			}
 			t.Errorf("Register row %d does not hold register record %d %q as given:\n  %s", i+2, i+1, rec[0], strings.Join(diffs, "\n  "))
 		}
+	}
+	// The Audit sheet notes the empty row left out.
+	if !sheetHas(t, f, "Audit", "bad-cells.csv!6:6: 1 row (6) is empty: skipped") {
+		t.Errorf("the Audit sheet does not note the empty row 6")
 	}
 	// Formula injection: the register's "=HYPERLINK(…)" stays text.
 	for r := 2; r <= len(rows); r++ {
@@ -271,12 +292,12 @@ func TestBadCells(t *testing.T) {
 			}
 		}
 	}
-	if len(order) != len(records) {
-		t.Errorf("results CSV has %d hoists, the register %d", len(order), len(records))
+	if len(order) != len(kept) {
+		t.Errorf("results CSV has %d hoists, the register %d", len(order), len(kept))
 	}
-	for i := range min(len(order), len(records)) {
-		if order[i] != strings.TrimSpace(records[i][0]) {
-			t.Errorf("results CSV hoist %d is %q, register record %d is %q", i+1, order[i], i+1, records[i][0])
+	for i := range min(len(order), len(kept)) {
+		if order[i] != strings.TrimSpace(kept[i][0]) {
+			t.Errorf("results CSV hoist %d is %q, register record %d is %q", i+1, order[i], i+1, kept[i][0])
 		}
 	}
 
@@ -503,4 +524,21 @@ func TestStdoutIsOnlyResults(t *testing.T) {
 			t.Errorf("--format %s -o -: the summary should go to stderr, got %q", format, clip(r.err))
 		}
 	}
+}
+
+// sheetHas reports whether a cell of the sheet holds text.
+func sheetHas(t *testing.T, f *excelize.File, sheet, text string) bool {
+	t.Helper()
+	rows, err := f.GetRows(sheet)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range rows {
+		for _, c := range r {
+			if strings.Contains(c, text) {
+				return true
+			}
+		}
+	}
+	return false
 }

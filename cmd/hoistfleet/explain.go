@@ -62,7 +62,10 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	if err != nil {
 		return err
 	}
-	in, err := openRegister(fs.Arg(0), cfg.sheet, st)
+	if cfg.headerRow < 0 {
+		return usagef("--header-row %d: want a row number, 1 or more", cfg.headerRow)
+	}
+	in, err := openRegister(fs.Arg(0), cfg.sheet, cfg.readOptions(), st)
 	if err != nil {
 		return err
 	}

@@ -56,6 +56,11 @@ type colSpec struct {
 	enumSelf  []bool   // col.Values[i] as written matches col.Values[i]
 	headerErr string   // non-empty: the column's header is unusable; every non-empty cell is Bad
 
+	// Blank markers ("-", "n/a", "TBC") read as empty: how many, the first and where.
+	blankN    int
+	blankText string
+	blankAt   fleet.CellRef
+
 	// Set by prepare from the above, for the per-cell conversion.
 	kind   cellKind // col.Kind
 	lo, hi float64  // an SI value outside [lo, hi] fails checkRange (±Inf: no bound)
@@ -99,6 +104,13 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 		c.IsNumber = isPlainNumber(text)
 	}
 	if text == "" {
+		return
+	}
+	if s.blankMarker(text) {
+		if s.blankN == 0 {
+			s.blankText, s.blankAt = text, ref
+		}
+		s.blankN++
 		return
 	}
 	bad := func(k fleet.Kind, sentinel error, format string, args ...any) {

@@ -36,30 +36,21 @@ const peekSize = 64 << 10
 // the header is row 1, each record is one row (a quoted field may span several lines),
 // and blank lines between records count as empty rows.
 func NewCSV(r io.Reader, name string) (*Reader, error) {
+	return NewCSVOptions(r, name, Options{})
+}
+
+// NewCSVOptions is NewCSV with Options.
+func NewCSVOptions(r io.Reader, name string, opt Options) (*Reader, error) {
 	file := displayName(name)
 	text, sep, err := csvStream(r)
 	if err != nil {
 		return nil, fileError(file, err)
 	}
 	cr := newRecords(text, byte(sep))
-	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}}
-	rec, err := cr.read()
-	switch {
-	case err == io.EOF:
-		return nil, fileError(file, errors.New("the file is empty: the first row must hold the column titles"))
-	case err != nil:
-		var pe *csv.ParseError
-		if errors.As(err, &pe) {
-			return nil, fileError(file, fmt.Errorf("the header row cannot be read: %s", (&csvSyntaxError{pe}).message()))
-		}
+	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}, src: &csvSource{r: cr}}
+	if err := rd.findHeader(file, opt); err != nil {
 		return nil, fileError(file, err)
 	}
-	line := cr.fieldLine(0)
-	titles := decodeFields(append([]string(nil), rec...))
-	if err := rd.buildHeader(file, titles, line); err != nil {
-		return nil, fileError(file, err)
-	}
-	rd.src = &csvSource{r: cr, n: len(titles), row: 1, lastLine: recordEndLine(cr, rec)}
 	return rd, nil
 }
 

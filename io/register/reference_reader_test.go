@@ -33,24 +33,10 @@ func refNewCSV(r io.Reader, name string) (*refReader, error) {
 		return nil, fileError(file, err)
 	}
 	cr := refNewCSVReader(text, sep)
-	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}}
-	rec, err := cr.Read()
-	switch {
-	case err == io.EOF:
-		return nil, fileError(file, errors.New("the file is empty: the first row must hold the column titles"))
-	case err != nil:
-		var pe *csv.ParseError
-		if errors.As(err, &pe) {
-			return nil, fileError(file, fmt.Errorf("the header row cannot be read: %s", (&csvSyntaxError{pe}).message()))
-		}
+	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}, src: &refCSVSource{r: cr}}
+	if err := rd.findHeader(file, Options{}); err != nil {
 		return nil, fileError(file, err)
 	}
-	line, _ := cr.FieldPos(0)
-	titles := decodeFields(append([]string(nil), rec...))
-	if err := rd.buildHeader(file, titles, line); err != nil {
-		return nil, fileError(file, err)
-	}
-	rd.src = &refCSVSource{r: cr, n: len(titles), row: 1, lastLine: refRecordEndLine(cr, rec)}
 	return &refReader{Reader: rd, refIDs: map[string]int{}}, nil
 }
 
@@ -114,53 +100,14 @@ func (s *refCSVSource) next() (rawRow, error) {
 
 func (s *refCSVSource) close() error { return nil }
 
-// refNext is Next of commit dafac1f, building each Asset with refAsset.
+// refNext is Next, building each Asset with refAsset: the rows that are hoists are
+// chosen by the same nextData.
 func (r *refReader) refNext(ctx context.Context) (*fleet.Asset, error) {
-	if err := ctx.Err(); err != nil {
+	rr, err := r.nextData(ctx)
+	if err != nil {
 		return nil, err
 	}
-	if r.emitN > 0 {
-		row := r.emitStart
-		r.emitStart++
-		r.emitN--
-		return r.refAsset(rawRow{row: row}), nil
-	}
-	if r.held != nil {
-		rr := *r.held
-		r.held = nil
-		return r.refAsset(rr), nil
-	}
-	if r.err != nil {
-		return nil, r.err
-	}
-	for {
-		rr, err := r.src.next()
-		if err != nil {
-			// At the end, blank rows still pending are the sheet's trailing empty rows.
-			r.err = err
-			return nil, err
-		}
-		if r.dropTrailingBlank && rr.syntax == nil && isBlank(rr.cells) {
-			if r.pendN == 0 {
-				r.pendStart = rr.row
-			}
-			r.pendN++
-			if r.pendN%4096 == 0 {
-				if err := ctx.Err(); err != nil {
-					return nil, err
-				}
-			}
-			continue
-		}
-		if r.pendN > 0 {
-			r.held = &rr
-			r.emitStart, r.emitN = r.pendStart+1, r.pendN-1
-			row := r.pendStart
-			r.pendN = 0
-			return r.refAsset(rawRow{row: row}), nil
-		}
-		return r.refAsset(rr), nil
-	}
+	return r.refAsset(rr), nil
 }
 
 // refAsset is asset of commit dafac1f, converting each cell with refParse.

@@ -33,7 +33,7 @@ func (s *colSpec) refParse(raw string, d dialect, ref fleet.CellRef, asset strin
 	}
 	kind := s.col.Kind
 	c.IsNumber = kind != schema.Text && kind != schema.Date && refIsPlainNumber(text)
-	if text == "" {
+	if text == "" || s.blankMarker(text) { // issue 14: blank markers read as empty
 		return v, c
 	}
 	bad := func(k fleet.Kind, sentinel error, format string, args ...any) (fleet.Value, fleet.Cell) {

@@ -36,6 +36,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"strconv"
 	"strings"
@@ -75,13 +76,20 @@ type Reader struct {
 	index  int               // next Asset.Index
 	free   chan *fleet.Asset // Assets handed back by Recycle, to be reused
 
-	// XLSX: trailing blank rows are dropped; a run of blank rows is held back until a
-	// non-blank row shows it is not trailing.
+	// Blank rows are left out: a run of them is noted only when a non-blank row shows
+	// it is inside the data, not the sheet's trailing rows.
 	dropTrailingBlank bool
-	pendStart, pendN  int     // blank rows read and not yet known to be inside the data
-	emitStart, emitN  int     // blank rows released, still to be returned
-	held              *rawRow // the non-blank row that released them
-	err               error   // sticky: io.EOF or a read error
+	pendStart, pendN  int
+	err               error // sticky: io.EOF or a read error
+
+	skipped  [skipKinds]rowList // rows left out, by why
+	unitsRow []string           // the units row under the header, to know its repeats
+	finished bool               // the notes of the end are written
+	headRows int                // rows read up to the header (and its units row)
+
+	replay    []rawRow     // rows read with the header search, after the header: returned first
+	sumRows   map[int]bool // XLSX: rows holding a formula that sums a column (totals rows)
+	headerRow int          // the header's spreadsheet row
 }
 
 var (
@@ -133,55 +141,71 @@ func (r *Reader) newAsset(n int) (a *fleet.Asset, values []fleet.Value) {
 // Header returns the register's header as read.
 func (r *Reader) Header() *fleet.Header { return r.header }
 
-// Next returns the next row, or io.EOF after the last. A bad cell is a Bad Value in the
-// Asset, not an error; an error means the file cannot be read further. Next checks ctx
-// before reading.
+// Next returns the next hoist row, or io.EOF after the last. A bad cell is a Bad Value
+// in the Asset, not an error; an error means the file cannot be read further. Next checks
+// ctx before reading. Rows that are not hoists (blank rows, totals rows, repeated header
+// and units rows) are left out and listed once, at the end, in the header's problems.
 func (r *Reader) Next(ctx context.Context) (*fleet.Asset, error) {
-	if err := ctx.Err(); err != nil {
+	rr, err := r.nextData(ctx)
+	if err != nil {
 		return nil, err
 	}
-	if r.emitN > 0 {
-		row := r.emitStart
-		r.emitStart++
-		r.emitN--
-		return r.asset(rawRow{row: row}), nil
-	}
-	if r.held != nil {
-		rr := *r.held
-		r.held = nil
-		return r.asset(rr), nil
+	return r.asset(rr), nil
+}
+
+// nextData returns the next row that is a hoist, noting the rows skipped on the way.
+func (r *Reader) nextData(ctx context.Context) (rawRow, error) {
+	if err := ctx.Err(); err != nil {
+		return rawRow{}, err
 	}
 	if r.err != nil {
-		return nil, r.err
+		return rawRow{}, r.err
 	}
-	for {
-		rr, err := r.src.next()
+	for n := 1; ; n++ {
+		rr, err := r.nextRow()
 		if err != nil {
 			// At the end, blank rows still pending are the sheet's trailing empty rows.
 			r.err = err
-			return nil, err
+			if err == io.EOF {
+				r.finish()
+			}
+			return rawRow{}, err
 		}
-		if r.dropTrailingBlank && rr.syntax == nil && isBlank(rr.cells) {
+		if n%4096 == 0 {
+			if err := ctx.Err(); err != nil {
+				return rawRow{}, err
+			}
+		}
+		if rr.syntax == nil && isBlank(rr.cells) {
 			if r.pendN == 0 {
 				r.pendStart = rr.row
 			}
 			r.pendN++
-			if r.pendN%4096 == 0 {
-				if err := ctx.Err(); err != nil {
-					return nil, err
-				}
-			}
 			continue
 		}
 		if r.pendN > 0 {
-			r.held = &rr
-			r.emitStart, r.emitN = r.pendStart+1, r.pendN-1
-			row := r.pendStart
+			r.skipped[skipBlank] = r.skipped[skipBlank].add(r.pendStart, r.pendStart+r.pendN-1, "")
 			r.pendN = 0
-			return r.asset(rawRow{row: row}), nil
 		}
-		return r.asset(rr), nil
+		if rr.syntax == nil {
+			if why := r.notHoist(rr); why != skipNone {
+				r.skipped[why] = r.skipped[why].add(rr.row, rr.row, firstText(rr.cells))
+				continue
+			}
+		}
+		return rr, nil
 	}
+}
+
+// nextRow is the next row after the header: those the header search read, then the
+// source's.
+func (r *Reader) nextRow() (rawRow, error) {
+	if len(r.replay) > 0 {
+		rr := r.replay[0]
+		r.replay = r.replay[1:]
+		return rr, nil
+	}
+	return r.src.next()
 }
 
 // Close releases the file (an XLSX workbook's temporary files).
@@ -304,6 +328,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 // header builds the Header and the column specs from the header row's cells.
 func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	r.header = &fleet.Header{File: file, Sheet: r.sheet}
+	r.headerRow = row
 	r.idCol = -1
 	r.ids = newIDSet()
 	r.free = make(chan *fleet.Asset, recycleDepth)

@@ -288,9 +288,10 @@ func TestRowProblems(t *testing.T) {
 		"H-3,D\n" + // row 7: short
 		"H-4,E,4,extra,\n" + // row 8: long
 		"H-5,F,5,,\n" // row 9: long but the extra cells are empty
-	as := readAll(t, csvString(t, reg))
-	if len(as) != 7 {
-		t.Fatalf("%d rows, want 7", len(as))
+	r := csvString(t, reg)
+	as := readAll(t, r)
+	if len(as) != 6 {
+		t.Fatalf("%d rows, want 6 (the empty row left out)", len(as))
 	}
 	tests := []struct {
 		i    int
@@ -298,18 +299,18 @@ func TestRowProblems(t *testing.T) {
 		kind fleet.Kind
 		msg  string
 	}{
-		{1, 4, fleet.Shape, "reg.csv!4:4: row 4 is empty"},
-		{2, 5, fleet.Duplicate, `reg.csv!A5: asset H-1: asset id "H-1" is already used in row 2`},
-		{3, 6, fleet.Missing, "reg.csv!A6: the asset id is missing"},
-		{4, 7, fleet.Shape, "reg.csv!7:7: asset H-3: row has 2 cells, the header 3: the missing cells are read as empty"},
-		{5, 8, fleet.Shape, `reg.csv!D8: asset H-4: row has 5 cells, the header 3: cells beyond the header's last column are not read and not passed through (reg.csv!D8 "extra")`},
-		{6, 9, fleet.Shape, "reg.csv!9:9: asset H-5: row has 5 cells, the header 3 (the extra cells are empty)"},
+		{1, 5, fleet.Duplicate, `reg.csv!A5: asset H-1: asset id "H-1" is already used in row 2`},
+		{2, 6, fleet.Missing, "reg.csv!A6: the asset id is missing"},
+		{3, 7, fleet.Shape, "reg.csv!7:7: asset H-3: row has 2 cells, the header 3: the missing cells are read as empty"},
+		{4, 8, fleet.Shape, `reg.csv!D8: asset H-4: row has 5 cells, the header 3: cells beyond the header's last column are not read and not passed through (reg.csv!D8 "extra")`},
+		{5, 9, fleet.Shape, "reg.csv!9:9: asset H-5: row has 5 cells, the header 3 (the extra cells are empty)"},
 	}
 	if len(as[0].Problems) != 0 {
 		t.Errorf("row 2: %v", as[0].Problems)
 	}
-	if !as[1].Blank || as[1].Values != nil {
-		t.Errorf("empty row: Blank %v Values %v", as[1].Blank, as[1].Values)
+	// The empty row 4 is noted once, in the header's problems, at the end.
+	if p := r.Header().Problems; len(p) != 1 || p[0].Error() != "reg.csv!4:4: 1 row (4) is empty: skipped" {
+		t.Errorf("empty row note: %v", p)
 	}
 	for _, tt := range tests {
 		a := as[tt.i]
@@ -329,7 +330,7 @@ func TestRowProblems(t *testing.T) {
 		}
 	}
 	// The short row still reads what it has.
-	if v := as[4].Get("site"); v.Text != "D" {
+	if v := as[3].Get("site"); v.Text != "D" {
 		t.Errorf("short row site %+v", v)
 	}
 }
@@ -370,7 +371,11 @@ func TestHeaderProblems(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			r := csvString(t, tt.header+"\n"+tt.row+"\n")
+			// The header row is given: a header without an asset id is not found.
+			r, err := NewCSVOptions(strings.NewReader(tt.header+"\n"+tt.row+"\n"), "reg.csv", Options{HeaderRow: 1})
+			if err != nil {
+				t.Fatal(err)
+			}
 			var got []string
 			for _, p := range r.Header().Problems {
 				got = append(got, p.Error())
@@ -474,8 +479,9 @@ func TestCSVFileErrors(t *testing.T) {
 	tests := []struct {
 		name, in, want string
 	}{
-		{"empty", "", "reg.csv: the file is empty: the first row must hold the column titles"},
-		{"blank header", ",,\nH-1,2,3\n", "reg.csv: row 1, the header row, is empty: the first row must hold the column titles"},
+		{"empty", "", "reg.csv: the file is empty: no row holds the column titles"},
+		{"blank lines", "\n,,\n,\n", "reg.csv: the file is empty: no row holds the column titles"},
+		{"blank header", ",,\nH-1,2,3\n", "reg.csv: no header row found in rows 1 to 2: looked for a row of column titles naming the asset id (Asset ID, asset, asset no, asset number, hoist id, equipment id, …) and at least one other column of the register (Rated load, Rope diameter, Motor power, … : 'hoistfleet help columns' lists them); no row names any of them. Give the header's row with --header-row N, or rename the columns"},
 		{"zip", "PK\x03\x04rest", "reg.csv: this is a zip file (an XLSX workbook?), not a CSV file: read it as XLSX"},
 		{"nul", "A\x00s\x00s\x00", "reg.csv: the file holds NUL bytes: it is not a text CSV file (UTF-16 without a byte-order mark?): save it as CSV UTF-8"},
 		{"bad header", "Asset \"ID,Site\n", `reg.csv: the header row cannot be read: CSV syntax error at line 1, column 7: bare " in non-quoted-field: a field holding a double quote must itself be quoted, with the quote doubled ("24"" drum")`},
@@ -508,7 +514,7 @@ func TestSeparatorDetection(t *testing.T) {
 }
 
 func TestNextHonoursContext(t *testing.T) {
-	r := csvString(t, "Asset ID\nH-1\n")
+	r := csvString(t, "Asset ID,Site\nH-1,A\n")
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
 	if _, err := r.Next(ctx); !errors.Is(err, context.Canceled) {

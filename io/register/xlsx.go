@@ -47,6 +47,15 @@ func NewXLSX(r io.Reader, name, sheet string) (*Reader, error) {
 
 // NewXLSXLimits is NewXLSX with explicit limits.
 func NewXLSXLimits(r io.Reader, name, sheet string, lim Limits) (*Reader, error) {
+	return newXLSX(r, name, sheet, lim, Options{})
+}
+
+// NewXLSXOptions is NewXLSX with Options.
+func NewXLSXOptions(r io.Reader, name, sheet string, opt Options) (*Reader, error) {
+	return newXLSX(r, name, sheet, DefaultLimits, opt)
+}
+
+func newXLSX(r io.Reader, name, sheet string, lim Limits, opt Options) (*Reader, error) {
 	file := displayName(name)
 	b, err := io.ReadAll(io.LimitReader(r, lim.MaxUnzipped+1))
 	if err != nil {
@@ -55,14 +64,14 @@ func NewXLSXLimits(r io.Reader, name, sheet string, lim Limits) (*Reader, error)
 	if err := sniffXLSX(b, lim); err != nil {
 		return nil, fileError(file, err)
 	}
-	return openWorkbook(bytes.NewReader(b), int64(len(b)), file, sheet, lim,
+	return openWorkbook(bytes.NewReader(b), int64(len(b)), file, sheet, lim, opt,
 		func(o excelize.Options) (*excelize.File, error) { return excelize.OpenReader(bytes.NewReader(b), o) })
 }
 
 // openWorkbook checks the zip's parts against the limits, opens the workbook with open
 // and the register sheet in it. ra and size give the zip for the checks and the scan of
 // the sheet's merged and formula cells.
-func openWorkbook(ra io.ReaderAt, size int64, file, sheet string, lim Limits,
+func openWorkbook(ra io.ReaderAt, size int64, file, sheet string, lim Limits, opt Options,
 	open func(excelize.Options) (*excelize.File, error)) (*Reader, error) {
 	zr, err := zip.NewReader(ra, size)
 	if err != nil {
@@ -79,7 +88,7 @@ func openWorkbook(ra io.ReaderAt, size int64, file, sheet string, lim Limits,
 		}
 		return nil, fileError(file, fmt.Errorf("not a readable XLSX workbook: %w", err))
 	}
-	rd, err := openSheet(f, zr, file, sheet)
+	rd, err := openSheet(f, zr, file, sheet, opt)
 	if err != nil {
 		_ = f.Close()
 		return nil, fileError(file, err)
@@ -92,6 +101,11 @@ func openWorkbook(ra io.ReaderAt, size int64, file, sheet string, lim Limits,
 // register of a million rows saves hundreds of megabytes. The file is opened read-only and
 // closed before NewXLSXFile returns; what is not a zip archive gets NewXLSX's diagnosis.
 func NewXLSXFile(path, sheet string) (*Reader, error) {
+	return NewXLSXFileOptions(path, sheet, Options{})
+}
+
+// NewXLSXFileOptions is NewXLSXFile with Options.
+func NewXLSXFileOptions(path, sheet string, opt Options) (*Reader, error) {
 	lim := DefaultLimits
 	file := displayName(path)
 	fh, err := os.Open(path)
@@ -109,9 +123,9 @@ func NewXLSXFile(path, sheet string) (*Reader, error) {
 		if _, err := fh.Seek(0, io.SeekStart); err != nil {
 			return nil, fileError(file, err)
 		}
-		return NewXLSXLimits(fh, path, sheet, lim)
+		return newXLSX(fh, path, sheet, lim, opt)
 	}
-	return openWorkbook(fh, fi.Size(), file, sheet, lim,
+	return openWorkbook(fh, fi.Size(), file, sheet, lim, opt,
 		func(o excelize.Options) (*excelize.File, error) { return excelize.OpenFile(path, o) })
 }
 
@@ -174,7 +188,7 @@ func checkParts(zr *zip.Reader, lim Limits) error {
 }
 
 // openSheet selects the sheet, reads the header row and returns the Reader.
-func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string) (*Reader, error) {
+func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string, opt Options) (*Reader, error) {
 	sheets := f.GetSheetList()
 	if len(sheets) == 0 {
 		return nil, errors.New("the workbook has no sheets")
@@ -211,11 +225,6 @@ func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string) (*Reader, e
 	if err != nil {
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
 	}
-	for _, m := range merges {
-		if m.r1 == 1 && (m.c2 > m.c1 || m.r2 > 1) {
-			return nil, fmt.Errorf("sheet %q: the header row has merged cells (%s): unmerge them and give every column its own title in row 1", name, m.ref)
-		}
-	}
 	rows, err := f.Rows(name)
 	if err != nil {
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
@@ -223,18 +232,15 @@ func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string) (*Reader, e
 	src := &xlsxSource{f: f, rows: rows, sheet: name, merges: merges}
 	rd := &Reader{sheet: name, src: src, dropTrailingBlank: true,
 		d: dialect{xlsx: true, date1904: props.Date1904 != nil && *props.Date1904}}
-	titles, row, err := src.read()
-	if err == io.EOF {
-		_ = src.close()
-		return nil, fmt.Errorf("sheet %q is empty: the first row must hold the column titles", name)
-	}
-	if err != nil {
-		_ = src.close()
-		return nil, err
-	}
-	if err := rd.buildHeader(file, titles, row); err != nil {
+	if err := rd.findHeader(file, opt); err != nil {
 		_ = src.close()
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
+	}
+	for _, m := range merges {
+		if m.r1 <= rd.headerRow && m.r2 >= rd.headerRow && (m.c2 > m.c1 || m.r2 > m.r1) {
+			_ = src.close()
+			return nil, fmt.Errorf("sheet %q: the header row %d has merged cells (%s): unmerge them and give every column its own title in row %d", name, rd.headerRow, m.ref, rd.headerRow)
+		}
 	}
 	rd.header.File = file
 	if formulas.n > 0 {
