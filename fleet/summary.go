@@ -12,6 +12,7 @@ import (
 type Summary struct {
 	TopN     int
 	Total    int
+	Hidden   int // hoists on rows hidden or filtered out in the register (checked all the same)
 	ByStatus [5]int // indexed by Status (pass … fail)
 	Sites    []SiteCount
 	Checks   []CheckCount
@@ -101,6 +102,9 @@ func brief(r *Result) Brief {
 // Add counts one result. Results must be added in register order for stable lists.
 func (s *Summary) Add(r *Result) {
 	s.Total++
+	if r.Asset != nil && r.Asset.Hidden {
+		s.Hidden++
+	}
 	b := brief(r)
 	if int(r.Status) < len(s.ByStatus) {
 		s.ByStatus[r.Status]++

@@ -218,6 +218,7 @@ type Asset struct {
 	// Problems are row-level messages: a duplicated id, a short or long row, an empty row.
 	Problems []*Error
 	Blank    bool // the row has no values at all (kept and reported, not checked)
+	Hidden   bool // the register row is hidden or filtered out (checked all the same)
 }
 
 // Get returns a field's value (Empty when absent).

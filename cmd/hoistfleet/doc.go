@@ -7,7 +7,7 @@
 //	hoistfleet check REGISTER [-o OUT.xlsx] [--rules iso|us|FILE] [--as-of DATE]
 //	                          [--format xlsx|csv|jsonl] [--workers N] [--sheet NAME]
 //	                          [--marginal 0.10] [--fail-on fail|marginal|never] [--quiet]
-//	                          [--rated-load-factor F]
+//	                          [--rated-load-factor F] [--header-row N]
 //	hoistfleet explain REGISTER --asset ID [--format text|md]   one hoist's calculation record
 //	hoistfleet explain REGISTER --all -o DIR                     every hoist's record, one file each
 //	hoistfleet template [-o FILE] [--units si|us]                a blank register
@@ -60,12 +60,21 @@ every hoist and writes the results: an XLSX workbook (Register, Checks, Summary,
 sheets), or long-form CSV, or JSON lines. The input is never modified; the output is
 written to a temporary file and renamed when complete.
 
+The header is found in the first 30 rows: the row naming the most register columns,
+with at least the asset id and one other (title blocks, "prepared by" lines and blank
+rows above it are skipped and noted); --header-row N gives it. A units row under the
+header gives units to the columns whose title has none. Blank rows, totals rows and
+repeated header rows are left out and noted once; blank markers (-, n/a, TBC, ?,
+unknown, none) read as empty. Hidden or filtered-out rows are checked and marked
+hidden. A file with no recognisable header, or no hoist under it, exits 3.
+
 Examples:
   hoistfleet check hoists.xlsx
   hoistfleet check hoists.xlsx --sheet "Site B" -o site-b-results.xlsx
   hoistfleet check hoists.csv --rules us --as-of 2026-12-01 --fail-on marginal
   hoistfleet check hoists.csv --rated-load-factor 1.2        re-rate every hoist by +20 %
   hoistfleet check hoists.csv --rules iso --rules insurer.csv --format jsonl -o results.jsonl
+  hoistfleet check export.csv --header-row 5
 `,
 	"explain": `hoistfleet explain REGISTER --asset ID [flags]
 

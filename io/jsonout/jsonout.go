@@ -14,7 +14,8 @@
 // "rated_load_kg" (the load the checks were run at), "rating_note",
 // "mechanism_capacity_kg" (the smallest limit over the mechanism's load-dependent checks:
 // what the mechanism would allow, which max_rated_load_kg never exceeds without a
-// Component WLL; design.md Revision 2), "derived", and on
+// Component WLL; design.md Revision 2), "derived", "hidden" (true when the register row
+// is hidden or filtered out: design.md Revision 2), and on
 // each check "margin", "message", "required_capacity" (what a failing load-dependent
 // check would need to pass, in the unit of its capacity; null otherwise) and "review"
 // ({utilisation, rule, source} where a review limit applies: design.md Revision 2;
@@ -195,6 +196,11 @@ func (e *encoder) appendHoist(b []byte, r *fleet.Result) []byte {
 	b = e.nums.appendNumber(b, r.MechanismCapacityKg)
 	b = append(b, `,"derived":`...)
 	b = appendStrings(b, r.Derived, &hm.derived)
+	if r.Asset.Hidden {
+		b = append(b, `,"hidden":true`...)
+	} else {
+		b = append(b, `,"hidden":false`...)
+	}
 	if p := r.Proposed; p != nil {
 		b = append(b, `,"proposed":{"rated_load_kg":`...)
 		b = e.nums.appendNumber(b, p.RatedLoadKg)

@@ -75,7 +75,7 @@ func matchTitle(index *schemaIdx, raw string) string {
 func (r *Reader) findHeader(file string, opt Options) error {
 	limit := HeaderScanRows
 	if opt.HeaderRow > 0 {
-		limit = opt.HeaderRow
+		limit = opt.HeaderRow + 1 // and the row under it: a units row?
 	}
 	var rows []rawRow
 	for {

@@ -53,6 +53,7 @@ type rawRow struct {
 	syntax *csvSyntaxError // CSV: the record could not be read past field len(cells)
 	merged []*fleet.Error  // XLSX: the row's cells hidden by merged cells above them
 	short  bool            // CSV: any other number of fields than the header's is a shape problem
+	hidden bool            // XLSX: the row is hidden or filtered out
 }
 
 // rowSource gives the rows after the header. next returns io.EOF after the last row.
@@ -87,9 +88,10 @@ type Reader struct {
 	finished bool               // the notes of the end are written
 	headRows int                // rows read up to the header (and its units row)
 
-	replay    []rawRow     // rows read with the header search, after the header: returned first
-	sumRows   map[int]bool // XLSX: rows holding a formula that sums a column (totals rows)
-	headerRow int          // the header's spreadsheet row
+	replay     []rawRow     // rows read with the header search, after the header: returned first
+	sumRows    map[int]bool // XLSX: rows holding a formula that sums a column (totals rows)
+	hiddenCols map[int]bool // XLSX: hidden columns (1-based)
+	headerRow  int          // the header's spreadsheet row
 }
 
 var (
@@ -176,6 +178,12 @@ func (r *Reader) nextData(ctx context.Context) (rawRow, error) {
 				return rawRow{}, err
 			}
 		}
+		if r.sumRows != nil && r.sumRows[rr.row] {
+			// A column sum: a totals row, even when its formulas were never calculated.
+			r.flushBlank()
+			r.skipped[skipTotals] = r.skipped[skipTotals].add(rr.row, rr.row, firstText(rr.cells))
+			continue
+		}
 		if rr.syntax == nil && isBlank(rr.cells) {
 			if r.pendN == 0 {
 				r.pendStart = rr.row
@@ -183,10 +191,7 @@ func (r *Reader) nextData(ctx context.Context) (rawRow, error) {
 			r.pendN++
 			continue
 		}
-		if r.pendN > 0 {
-			r.skipped[skipBlank] = r.skipped[skipBlank].add(r.pendStart, r.pendStart+r.pendN-1, "")
-			r.pendN = 0
-		}
+		r.flushBlank()
 		if rr.syntax == nil {
 			if why := r.notHoist(rr); why != skipNone {
 				r.skipped[why] = r.skipped[why].add(rr.row, rr.row, firstText(rr.cells))
@@ -194,6 +199,14 @@ func (r *Reader) nextData(ctx context.Context) (rawRow, error) {
 			}
 		}
 		return rr, nil
+	}
+}
+
+// flushBlank notes the blank rows pending as inside the table: a row follows them.
+func (r *Reader) flushBlank() {
+	if r.pendN > 0 {
+		r.skipped[skipBlank] = r.skipped[skipBlank].add(r.pendStart, r.pendStart+r.pendN-1, "")
+		r.pendN = 0
 	}
 }
 
@@ -283,6 +296,11 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 		p.Asset = a.ID
 		a.Problems = append(a.Problems, p)
 	}
+	if rr.hidden {
+		a.Hidden = true
+		a.Problems = append(a.Problems, &fleet.Error{Kind: fleet.Other, Asset: a.ID, Cell: rowRef,
+			Err: fmt.Errorf("row %d is hidden or filtered out in the register: checked all the same, and marked hidden", rr.row)})
+	}
 	// Shape: a CSV record with another number of fields than the header; an XLSX row
 	// with values beyond the header's last column.
 	if rr.syntax == nil {
@@ -337,6 +355,16 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	}
 	index := schemaIndex()
 	firstAt := map[string]int{} // key → column index
+	// A hidden column never wins over a visible one that names the same column: the
+	// visible one is what the register's keeper sees and maintains.
+	visibleAt := map[string]int{} // key → first visible column naming it
+	if len(r.hiddenCols) > 0 {
+		for i, raw := range titles {
+			if k := matchTitle(index, raw); k != "" && !r.hiddenCols[i+1] && visibleAt[k] == 0 {
+				visibleAt[k] = i + 1
+			}
+		}
+	}
 	var numeric, nonEmpty, matched int
 	for i, raw := range titles {
 		ref := fleet.CellRef{Sheet: r.sheet, Row: row, Col: i + 1}
@@ -361,11 +389,16 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 			r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: k, Cell: ref, Field: field,
 				Err: fmt.Errorf(format, args...)})
 		}
+		hidden := r.hiddenCols[i+1]
 		switch {
 		case ambiguous != "":
 			problem(fleet.Invalid, "", "%q matches more than one column (%s): it is passed through unread; use the column's own title", raw, ambiguous)
 		case key == "":
 			// Unknown: passed through.
+		case hidden && visibleAt[key] > 0:
+			sc, _ := index.col(key)
+			vis := fleet.CellRef{Sheet: r.sheet, Row: row, Col: visibleAt[key]}
+			problem(fleet.Other, key, "%q is a hidden %s column; the visible one, %s, is read and this hidden copy is passed through unread", raw, sc.Header, vis)
 		case firstAt[key] > 0:
 			sc, _ := index.col(key)
 			first := fleet.CellRef{Sheet: r.sheet, Row: row, Col: firstAt[key]}
@@ -388,6 +421,9 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 			}
 			if key == "asset_id" {
 				r.idCol = i
+			}
+			if hidden {
+				problem(fleet.Other, key, "%q is a hidden column: read all the same", raw)
 			}
 		}
 		r.header.Columns = append(r.header.Columns, col)

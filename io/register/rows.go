@@ -20,12 +20,12 @@ const (
 	skipKinds           // the number of kinds
 )
 
-// skipWhat says, for the note, what the rows of each kind are.
-var skipWhat = [skipKinds]string{
-	skipBlank:  "empty: skipped",
-	skipTotals: "totals rows, not hoists: left out",
-	skipHeader: "the header repeated, not hoists: left out",
-	skipUnits:  "the units row repeated, not hoists: left out",
+// skipWhat says, for the note, what the rows of each kind are: one row, several.
+var skipWhat = [skipKinds][2]string{
+	skipBlank:  {"is empty: skipped", "are empty: skipped"},
+	skipTotals: {"is a totals row, not a hoist: left out", "are totals rows, not hoists: left out"},
+	skipHeader: {"is the header repeated, not a hoist: left out", "are the header repeated, not hoists: left out"},
+	skipUnits:  {"is the units row repeated, not a hoist: left out", "are the units row repeated, not hoists: left out"},
 }
 
 // maxListed is how many rows (or runs of rows) a note names.
@@ -126,9 +126,6 @@ func (r *Reader) notHoist(rr rawRow) skipKind {
 	if c := first[0]; (c|0x20 == 't' || c|0x20 == 's' || c|0x20 == 'g' || c|0x20 == 'i' || c|0x20 == 'z') && isTotalLabel(first) {
 		return skipTotals
 	}
-	if r.sumRows[rr.row] {
-		return skipTotals
-	}
 	if r.idCol >= 0 {
 		id := ""
 		if r.idCol < len(rr.cells) {
@@ -202,13 +199,13 @@ func (r *Reader) finish() {
 		if l.n == 0 {
 			continue
 		}
-		word := "rows"
+		word, what := "rows", skipWhat[k][1]
 		if l.n == 1 {
-			word = "row"
+			word, what = "row", skipWhat[k][0]
 		}
 		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other,
 			Cell: fleet.CellRef{Sheet: r.sheet, Row: l.runs[0][0]},
-			Err:  fmt.Errorf("%d %s (%s) %s %s", l.n, word, l.String(), isAre(l.n), skipWhat[k])})
+			Err:  fmt.Errorf("%d %s (%s) %s", l.n, word, l.String(), what)})
 	}
 	for i := range r.specs {
 		s := &r.specs[i]
@@ -222,13 +219,6 @@ func (r *Reader) finish() {
 		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: s.blankAt, Field: s.col.Key,
 			Err: fmt.Errorf("%s: %d %s a blank marker (%s first, at %s): read as empty", s.col.Header, s.blankN, cells, strconv.Quote(s.blankText), s.blankAt)})
 	}
-}
-
-func isAre(n int) string {
-	if n == 1 {
-		return "is"
-	}
-	return "are"
 }
 
 // isBlankMarker reports whether a cell's text is what registers write for "no value":

@@ -9,6 +9,7 @@ import (
 	"io"
 	"path"
 	"regexp"
+	"strconv"
 	"strings"
 
 	"github.com/xuri/excelize/v2"
@@ -19,6 +20,121 @@ import (
 type formulaCells struct {
 	n     int
 	first []string
+	// hiddenCols are the sheet's hidden columns (1-based), from its <cols> element.
+	hiddenCols map[int]bool
+	colsSeen   bool // the part of the XML before <sheetData> has been looked at
+	// sumRows are the rows holding a formula that adds up a column (SUM over a range of
+	// several rows, SUBTOTAL, AGGREGATE): a totals row, not a hoist.
+	sumRows map[int]bool
+}
+
+// maxSumRows bounds the totals rows remembered.
+const maxSumRows = 4096
+
+var (
+	fnSum       = []byte("SUM(")
+	fnSubtotal  = []byte("SUBTOTAL(")
+	fnAggregate = []byte("AGGREGATE(")
+	tagFormEnd  = []byte("</f>")
+)
+
+// sums notes the rows of win whose formulas add up a column; the first tail bytes of win
+// are the previous window's end, whose whole matches were seen with it.
+func (fc *formulaCells) sums(win []byte, tail int) {
+	for _, fn := range [][]byte{fnSum, fnSubtotal, fnAggregate} {
+		from := max(tail-len(fn)+1, 0)
+		for i := 0; ; {
+			j := bytes.Index(win[i:], fn)
+			if j < 0 {
+				break
+			}
+			at := i + j
+			i = at + len(fn)
+			if at < from || len(fc.sumRows) >= maxSumRows {
+				continue
+			}
+			// Inside a formula element: a "<f" before it with no "</f>" in between.
+			f := bytes.LastIndex(win[:at], tagFormula)
+			if f < 0 || bytes.Contains(win[f:at], tagFormEnd) {
+				continue
+			}
+			if len(fn) == len(fnSum) && !spansRows(win[i:]) {
+				continue // SUM(B4:D4), SUM(B4,C4): a sum within the row
+			}
+			k := bytes.LastIndex(win[:f], attrCellRef)
+			if k < 0 {
+				continue
+			}
+			ref := win[k+len(attrCellRef):]
+			e := bytes.IndexByte(ref, '"')
+			if e <= 0 || e > 12 {
+				continue
+			}
+			if _, row, err := excelize.CellNameToCoordinates(string(ref[:e])); err == nil {
+				if fc.sumRows == nil {
+					fc.sumRows = map[int]bool{}
+				}
+				fc.sumRows[row] = true
+			}
+		}
+	}
+}
+
+var (
+	tagSheetData = []byte("<sheetData")
+	colHidden    = regexp.MustCompile(`<(?:\w+:)?col\b[^>]*>`)
+	attrMin      = regexp.MustCompile(`\bmin="(\d+)"`)
+	attrMax      = regexp.MustCompile(`\bmax="(\d+)"`)
+	attrHidden   = regexp.MustCompile(`\bhidden="(1|true)"`)
+)
+
+// cols reads the hidden columns from the <col> elements before <sheetData> (they come
+// first in a worksheet).
+func (fc *formulaCells) cols(win []byte) {
+	end := bytes.Index(win, tagSheetData)
+	if end < 0 {
+		if len(win) < scanChunk {
+			return // not yet: wait for the start of the data (a huge <cols> is not read)
+		}
+		end = len(win)
+	}
+	fc.colsSeen = true
+	for _, m := range colHidden.FindAll(win[:end], -1) {
+		if !attrHidden.Match(m) {
+			continue
+		}
+		lo, hi := attrMin.FindSubmatch(m), attrMax.FindSubmatch(m)
+		if lo == nil || hi == nil {
+			continue
+		}
+		a, _ := strconv.Atoi(string(lo[1]))
+		b, _ := strconv.Atoi(string(hi[1]))
+		for c := max(a, 1); c <= min(b, 16384, a+1024); c++ {
+			if fc.hiddenCols == nil {
+				fc.hiddenCols = map[int]bool{}
+			}
+			fc.hiddenCols[c] = true
+		}
+	}
+}
+
+// spansRows reports whether a SUM's first argument is a range over several rows:
+// "E2:E40)" yes, "B4:D4)" and "B4,C4)" no.
+func spansRows(args []byte) bool {
+	end := bytes.IndexAny(args, ",;)")
+	if end < 0 {
+		end = min(len(args), 32)
+	}
+	a, b, ok := strings.Cut(strings.ReplaceAll(string(args[:end]), "$", ""), ":")
+	if !ok {
+		return false
+	}
+	if i := strings.LastIndexByte(a, '!'); i >= 0 {
+		a = a[i+1:]
+	}
+	_, r1, err1 := excelize.CellNameToCoordinates(a)
+	_, r2, err2 := excelize.CellNameToCoordinates(b)
+	return err1 == nil && err2 == nil && r1 != r2
 }
 
 // maxFormulaRefs is how many formula cells a message names.
@@ -105,6 +221,10 @@ func (s *sheetScan) window(win []byte, tail int) int {
 		from = tail - len(tagFormulaAttr) + 1
 	}
 	s.fc.scan(win, from)
+	s.fc.sums(win, tail)
+	if !s.fc.colsSeen {
+		s.fc.cols(win)
+	}
 	return bytes.Index(win, tagMergeCell)
 }
 

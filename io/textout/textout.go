@@ -111,6 +111,9 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 			return fmt.Errorf("textout: %w", err)
 		}
 	}
+	if s.Hidden > 0 {
+		p("\nHidden rows\t%d (hidden or filtered out in the register: checked all the same, marked hidden)\n", s.Hidden)
+	}
 	p("\nOverdue inspections\t%d\n", s.OverdueCount)
 	if len(s.FlagCounts) > 0 {
 		keys := make([]string, 0, len(s.FlagCounts))

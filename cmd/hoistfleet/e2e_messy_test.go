@@ -1,0 +1,75 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestMessyRegisters: the registers of testdata/ kept the way people keep them
+// (testdata/README.md has their ground truth) run end to end.
+func TestMessyRegisters(t *testing.T) {
+	dir := t.TempDir()
+
+	// A file that is not a register is refused, exit 3, saying what was looked for.
+	bad := copyTestdata(t, dir, "not-a-register.csv")
+	res := runCmd(t, "", "check", bad, "-o", filepath.Join(dir, "bad.jsonl"))
+	res.mustExit(t, exitIO, "check not-a-register.csv")
+	if !strings.Contains(res.err, "not-a-register.csv: no header row found in rows 1 to 3: looked for a row of column titles naming the asset id") {
+		t.Errorf("refusal: %s", res.err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "bad.jsonl")); err == nil {
+		t.Errorf("a refused register left a results file")
+	}
+
+	// A header with nothing under it: no hoist read, never exit 0, no results.
+	empty := filepath.Join(dir, "empty.csv")
+	if err := os.WriteFile(empty, []byte("Asset ID,Rated load [t]\n,\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	res = runCmd(t, "", "check", empty, "-o", filepath.Join(dir, "empty.jsonl"), "--fail-on", "never")
+	res.mustExit(t, exitIO, "check empty.csv")
+	if !strings.Contains(res.err, "no hoist was read") {
+		t.Errorf("no-hoist run: %s", res.err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "empty.jsonl")); err == nil {
+		t.Errorf("a run without hoists left a results file")
+	}
+
+	// The title-block CSV: four hoists, found under the header in row 4.
+	csv := copyTestdata(t, dir, "messy-title-block.csv")
+	res = runCmd(t, "", "check", csv, "--format", "jsonl", "-o", "-", "--as-of", "2026-12-01", "-q")
+	hs := parseJSONL(t, res.out)
+	var ids []string
+	for _, h := range hs {
+		ids = append(ids, h.str("asset_id"))
+	}
+	if strings.Join(ids, " ") != "H-101 H-102 H-103 H-104" {
+		t.Errorf("hoists %q, want H-101 to H-104 (title, units, blank, repeated header and totals rows left out)", ids)
+	}
+	// --header-row gives the same reading.
+	res2 := runCmd(t, "", "check", csv, "--format", "jsonl", "-o", "-", "--as-of", "2026-12-01", "-q", "--header-row", "4")
+	if res2.out != res.out {
+		t.Errorf("--header-row 4 reads differently from the header found")
+	}
+	runCmd(t, "", "check", csv, "--header-row", "-1").mustExit(t, exitUsage, "--header-row -1")
+
+	// The workbook: the hidden, scrapped BQ-99 is checked and marked hidden.
+	book := copyTestdata(t, dir, "messy-hidden.xlsx")
+	res = runCmd(t, "", "check", book, "--format", "jsonl", "-o", "-", "--as-of", "2026-12-01", "-q")
+	hs = parseJSONL(t, res.out)
+	if len(hs) != 4 {
+		t.Fatalf("%d hoists, want 4", len(hs))
+	}
+	for _, h := range hs {
+		want := h.str("asset_id") == "BQ-99"
+		if got, ok := h["hidden"].(bool); !ok || got != want {
+			t.Errorf("%s: hidden %v, want %v", h.str("asset_id"), h["hidden"], want)
+		}
+	}
+	res = runCmd(t, "", "check", book, "-o", filepath.Join(dir, "out.xlsx"), "--as-of", "2026-12-01")
+	if !strings.Contains(res.out, "Hidden rows  1") {
+		t.Errorf("the summary does not count the hidden row:\n%s", res.out)
+	}
+}
