@@ -12,7 +12,7 @@ import (
 type Summary struct {
 	TopN     int
 	Total    int
-	Hidden   int // hoists on rows hidden or filtered out in the register (checked all the same)
+	Hidden   int    // hoists on rows hidden or filtered out in the register (checked all the same)
 	ByStatus [5]int // indexed by Status (pass … fail)
 	Sites    []SiteCount
 	Checks   []CheckCount

@@ -246,13 +246,13 @@ func TestTotalLabels(t *testing.T) {
 // does not.
 func TestSumRows(t *testing.T) {
 	for xml, want := range map[string]bool{
-		`<c r="C9"><f>SUM(C5:C8)</f><v>1</v></c>`:          true,
-		`<c r="C9"><f>SUM($C$5:$C$8)</f></c>`:              true,
-		`<c r="C9"><f>SUBTOTAL(9,C5:C8)</f></c>`:           true,
-		`<c r="C9"><f>AGGREGATE(9,4,C5:C8)</f></c>`:        true,
-		`<c r="C9"><f>Sheet2!SUM(C5:C8)</f></c>`:           true,
-		`<c r="C9"><f>SUM(A9:B9)</f></c>`:                  false,
-		`<c r="C9"><f>SUM(A9,B9)</f></c>`:                  false,
+		`<c r="C9"><f>SUM(C5:C8)</f><v>1</v></c>`:           true,
+		`<c r="C9"><f>SUM($C$5:$C$8)</f></c>`:               true,
+		`<c r="C9"><f>SUBTOTAL(9,C5:C8)</f></c>`:            true,
+		`<c r="C9"><f>AGGREGATE(9,4,C5:C8)</f></c>`:         true,
+		`<c r="C9"><f>Sheet2!SUM(C5:C8)</f></c>`:            true,
+		`<c r="C9"><f>SUM(A9:B9)</f></c>`:                   false,
+		`<c r="C9"><f>SUM(A9,B9)</f></c>`:                   false,
 		`<c r="C9"><v>1</v></c><c r="D9"><t>SUM(C5:C8)</t>`: false,
 	} {
 		var fc formulaCells
