@@ -38,6 +38,7 @@ type checkConfig struct {
 	workers         int
 	ratedLoadFactor float64
 	headerRow       int
+	dateOrder       string
 }
 
 func (c *checkConfig) register(fs *pflag.FlagSet) {
@@ -46,14 +47,22 @@ func (c *checkConfig) register(fs *pflag.FlagSet) {
 	fs.StringVar(&c.asOf, "as-of", "", "the run's date for inspections and ages, YYYY-MM-DD (default today)")
 	fs.StringVar(&c.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
 	fs.IntVar(&c.headerRow, "header-row", 0, "the register's header row (default: found in the first 30 rows)")
+	fs.StringVar(&c.dateOrder, "date-order", "", "dmy, mdy or ymd: the order of dates written with numbers (25/03/2026) (default: each date column's own unambiguous dates)")
 	fs.Float64Var(&c.marginal, "marginal", 0.10, "marginal band: utilisation above 1 − band and up to 1 is marginal")
 	fs.IntVar(&c.workers, "workers", 0, "checking workers, at least 1 (default the number of cores)")
 	fs.Float64Var(&c.ratedLoadFactor, "rated-load-factor", 0, "re-rate every hoist to F × its rated load and check it there too; F from 0.5 to 3 (1.25 for +25 %)")
 }
 
 // readOptions are the register reader's options from the flags.
-func (c *checkConfig) readOptions() register.Options {
-	return register.Options{HeaderRow: c.headerRow}
+func (c *checkConfig) readOptions() (register.Options, error) {
+	if c.headerRow < 0 {
+		return register.Options{}, usagef("--header-row %d: want a row number, 1 or more", c.headerRow)
+	}
+	order, err := register.ParseDateOrder(c.dateOrder)
+	if err != nil {
+		return register.Options{}, usagef("--date-order: %v", err)
+	}
+	return register.Options{HeaderRow: c.headerRow, DateOrder: order}, nil
 }
 
 // loadRules builds the rule table in force from --rules values (sheet: --rules-sheet).
@@ -450,10 +459,11 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 	if err != nil {
 		return nil, err
 	}
-	if c.cfg.headerRow < 0 {
-		return nil, usagef("--header-row %d: want a row number, 1 or more", c.cfg.headerRow)
+	opt, err := c.cfg.readOptions()
+	if err != nil {
+		return nil, err
 	}
-	in, err := openRegister(c.register, c.cfg.sheet, c.cfg.readOptions(), st)
+	in, err := openRegister(c.register, c.cfg.sheet, opt, st)
 	if err != nil {
 		return nil, err
 	}

@@ -7,7 +7,7 @@
 //	hoistfleet check REGISTER [-o OUT.xlsx] [--rules iso|us|FILE] [--as-of DATE]
 //	                          [--format xlsx|csv|jsonl] [--workers N] [--sheet NAME]
 //	                          [--marginal 0.10] [--fail-on fail|marginal|never] [--quiet]
-//	                          [--rated-load-factor F] [--header-row N]
+//	                          [--rated-load-factor F] [--header-row N] [--date-order dmy|mdy|ymd]
 //	hoistfleet explain REGISTER --asset ID [--format text|md]   one hoist's calculation record
 //	hoistfleet explain REGISTER --all -o DIR                     every hoist's record, one file each
 //	hoistfleet template [-o FILE] [--units si|us]                a blank register
@@ -68,13 +68,19 @@ repeated header rows are left out and noted once; blank markers (-, n/a, TBC, ?,
 unknown, none) read as empty. Hidden or filtered-out rows are checked and marked
 hidden. A file with no recognisable header, or no hoist under it, exits 3.
 
+Dates: ISO 8601 (2026-03-25), spreadsheet date cells, and dates as spreadsheets write
+them: 25/03/2026, 25.03.2026, 25-Mar-26, March 25, 2026, Mar 2026 (the first of the
+month). Which of day and month comes first is --date-order, else what each column's own
+unambiguous dates show (25/03/2026 can only be day first), said in the summary; a date
+that reads both ways (03/04/2026) in a column with no such evidence is refused.
+
 Examples:
   hoistfleet check hoists.xlsx
   hoistfleet check hoists.xlsx --sheet "Site B" -o site-b-results.xlsx
   hoistfleet check hoists.csv --rules us --as-of 2026-12-01 --fail-on marginal
   hoistfleet check hoists.csv --rated-load-factor 1.2        re-rate every hoist by +20 %
   hoistfleet check hoists.csv --rules iso --rules insurer.csv --format jsonl -o results.jsonl
-  hoistfleet check export.csv --header-row 5
+  hoistfleet check export.csv --header-row 5 --date-order dmy
 `,
 	"explain": `hoistfleet explain REGISTER --asset ID [flags]
 

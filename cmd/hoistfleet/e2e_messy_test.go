@@ -54,6 +54,8 @@ func TestMessyRegisters(t *testing.T) {
 		t.Errorf("--header-row 4 reads differently from the header found")
 	}
 	runCmd(t, "", "check", csv, "--header-row", "-1").mustExit(t, exitUsage, "--header-row -1")
+	runCmd(t, "", "check", csv, "--date-order", "dym").mustExit(t, exitUsage, "--date-order dym")
+	runCmd(t, "", "explain", csv, "--all", "-o", filepath.Join(dir, "rec"), "--date-order", "dmy", "--as-of", "2026-12-01").mustExit(t, exitOK, "explain --date-order dmy")
 
 	// The workbook: the hidden, scrapped BQ-99 is checked and marked hidden.
 	book := copyTestdata(t, dir, "messy-hidden.xlsx")

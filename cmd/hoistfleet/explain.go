@@ -62,10 +62,11 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	if err != nil {
 		return err
 	}
-	if cfg.headerRow < 0 {
-		return usagef("--header-row %d: want a row number, 1 or more", cfg.headerRow)
+	opt, err := cfg.readOptions()
+	if err != nil {
+		return err
 	}
-	in, err := openRegister(fs.Arg(0), cfg.sheet, cfg.readOptions(), st)
+	in, err := openRegister(fs.Arg(0), cfg.sheet, opt, st)
 	if err != nil {
 		return err
 	}

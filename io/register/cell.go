@@ -61,6 +61,8 @@ type colSpec struct {
 	blankText string
 	blankAt   fleet.CellRef
 
+	dates dateNotes // a date column's order of day and month, and what it read
+
 	// Set by prepare from the above, for the per-cell conversion.
 	kind   cellKind // col.Kind
 	lo, hi float64  // an SI value outside [lo, hi] fails checkRange (±Inf: no bound)
@@ -152,6 +154,9 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 		v.State = fleet.OK
 	case kindDate:
 		t, msg := parseDate(text, d)
+		if msg != "" {
+			t, msg = s.textDateOr(text, d, ref, msg)
+		}
 		if msg != "" {
 			bad(fleet.Invalid, ErrNotDate, "%q is not a date: %s", text, msg)
 			return

@@ -16,6 +16,9 @@ import (
 type Options struct {
 	// HeaderRow is the spreadsheet row (1-based) that holds the column titles; 0 finds it.
 	HeaderRow int
+	// DateOrder is the order of day and month in dates written with numbers only
+	// (25/03/2026); "" infers it for each column from its own unambiguous dates.
+	DateOrder DateOrder
 }
 
 // HeaderScanRows is how many rows from the top of a sheet (or CSV file) are searched for
@@ -144,6 +147,9 @@ func (r *Reader) findHeader(file string, opt Options) error {
 	}
 	if err := r.buildHeader(file, hdr.cells, hdr.row); err != nil {
 		return err
+	}
+	for _, i := range r.dateCols {
+		r.specs[i].dates.order = opt.DateOrder
 	}
 	if at > 0 {
 		r.noteAbove(rows[:at], hdr.row)

@@ -71,6 +71,9 @@ func (s *colSpec) refParse(raw string, d dialect, ref fleet.CellRef, asset strin
 		v.State = fleet.OK
 	case schema.Date:
 		t, msg := refParseDate(text, d)
+		if msg != "" { // issue 14: dates in other layouts, shared with the reader
+			t, msg = s.textDateOr(text, d, ref, msg)
+		}
 		if msg != "" {
 			return bad(fleet.Invalid, ErrNotDate, "%q is not a date: %s", text, msg)
 		}

@@ -91,7 +91,10 @@ type Reader struct {
 	replay     []rawRow     // rows read with the header search, after the header: returned first
 	sumRows    map[int]bool // XLSX: rows holding a formula that sums a column (totals rows)
 	hiddenCols map[int]bool // XLSX: hidden columns (1-based)
-	headerRow  int          // the header's spreadsheet row
+	dateCols   []int        // the columns of dates (their order of day and month is looked for)
+	srcDone    bool         // the source has ended (looking ahead), with srcErr
+	srcErr     error
+	headerRow  int // the header's spreadsheet row
 }
 
 var (
@@ -198,6 +201,9 @@ func (r *Reader) nextData(ctx context.Context) (rawRow, error) {
 				continue
 			}
 		}
+		if r.dateCols != nil {
+			r.scanDates(rr)
+		}
 		return rr, nil
 	}
 }
@@ -215,8 +221,12 @@ func (r *Reader) flushBlank() {
 func (r *Reader) nextRow() (rawRow, error) {
 	if len(r.replay) > 0 {
 		rr := r.replay[0]
+		r.replay[0] = rawRow{}
 		r.replay = r.replay[1:]
 		return rr, nil
+	}
+	if r.srcDone {
+		return rawRow{}, r.srcErr
 	}
 	return r.src.next()
 }
@@ -421,6 +431,9 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 			}
 			if key == "asset_id" {
 				r.idCol = i
+			}
+			if spec.kind == kindDate {
+				r.dateCols = append(r.dateCols, i)
 			}
 			if hidden {
 				problem(fleet.Other, key, "%q is a hidden column: read all the same", raw)

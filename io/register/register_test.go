@@ -198,7 +198,7 @@ func TestUSUnitsMatchSI(t *testing.T) {
 func TestBadCellsKeepEveryRow(t *testing.T) {
 	const reg = `Asset ID,Rated load [t],Parts of line,Duty group,Load spectrum,Drum grooved,Last inspection,Sheave efficiency,Rope diameter [mm],Notes
 H-1,twelve,4,M5,L2,yes,2024-01-31,0.98,16,ok
-H-2,"1,250",2.5,M9,0.5,maybe,31/01/2024,1.2,130,
+H-2,"1,250",2.5,M9,0.5,maybe,03/04/2024,1.2,130,
 H-3,12 t,0,m5,l3,Y,2024-02-30,95%,16,
 H-4,#DIV/0!,4,FEM 1Am,L1,0,2024-01-31T08:30:00,0.97,0.5,
 `
@@ -223,7 +223,7 @@ H-4,#DIV/0!,4,FEM 1Am,L1,0,2024-01-31T08:30:00,0.97,0.5,
 		{1, "duty_group", fleet.Bad, fleet.Invalid, `reg.csv!D3: asset H-2: "M9" is not one of M1, M2, M3, M4, M5, M6, M7, M8, 1Dm, 1Cm, 1Bm, 1Am, 2m, 3m, 4m, 5m`},
 		{1, "load_spectrum", fleet.Bad, fleet.Invalid, `reg.csv!E3: asset H-2: "0.5" is a number: the load spectrum is a class L1 to L4; for a factor km use the Spectrum factor column`},
 		{1, "drum_grooved", fleet.Bad, fleet.Invalid, `reg.csv!F3: asset H-2: "maybe" is not yes or no`},
-		{1, "last_inspection", fleet.Bad, fleet.Invalid, `reg.csv!G3: asset H-2: "31/01/2024" is not a date: write it as YYYY-MM-DD (ISO 8601)`},
+		{1, "last_inspection", fleet.Bad, fleet.Invalid, `reg.csv!G3: asset H-2: "03/04/2024" is not a date: it reads as 3 April 2024 (day first) or March 4, 2024 (month first), and the column has no date that settles which (a day above 12): give --date-order dmy or mdy, or write it as YYYY-MM-DD`},
 		{2, "last_inspection", fleet.Bad, fleet.Invalid, `reg.csv!G4: asset H-3: "2024-02-30" is not a date: write it as YYYY-MM-DD (ISO 8601)`},
 		{1, "sheave_efficiency", fleet.Bad, fleet.OutOfRange, `reg.csv!H3: asset H-2: "1.2" is out of range: Sheave efficiency must be 0.5 to 1`},
 		// Schema range of rope diameter: 1 to 120 mm (templates/columns.csv).

@@ -207,6 +207,14 @@ func (r *Reader) finish() {
 			Cell: fleet.CellRef{Sheet: r.sheet, Row: l.runs[0][0]},
 			Err:  fmt.Errorf("%d %s (%s) %s", l.n, word, l.String(), what)})
 	}
+	for _, i := range r.dateCols {
+		s := &r.specs[i]
+		for _, n := range s.dateNoteList() {
+			r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other,
+				Cell: fleet.CellRef{Sheet: r.sheet, Row: r.headerRow, Col: i + 1}, Field: s.col.Key,
+				Err: fmt.Errorf("%s: %s", s.col.Header, n)})
+		}
+	}
 	for i := range r.specs {
 		s := &r.specs[i]
 		if s.blankN == 0 {
@@ -224,15 +232,24 @@ func (r *Reader) finish() {
 // isBlankMarker reports whether a cell's text is what registers write for "no value":
 // "-", "–", "n/a", "TBC", "?", "unknown", "none", … (case ignored).
 func isBlankMarker(text string) bool {
-	if len(text) > 9 {
+	if len(text) == 0 || len(text) > 9 {
 		return false
 	}
-	switch strings.ToLower(text) {
-	case "-", "--", "–", "—", "n/a", "n.a.", "na", "tbc", "tba", "tbd", "?", "??", "unknown", "none", "nil", "not known":
-		return true
+	switch text[0] { // most cells start otherwise: no comparison at all
+	case '-', '?', 0xE2, 'n', 'N', 't', 'T', 'u', 'U':
+	default:
+		return false
+	}
+	for _, m := range blankMarkers {
+		if len(m) == len(text) && strings.EqualFold(text, m) {
+			return true
+		}
 	}
 	return false
 }
+
+// blankMarkers are what registers write for "no value".
+var blankMarkers = [...]string{"-", "--", "–", "—", "n/a", "n.a.", "na", "tbc", "tba", "tbd", "?", "??", "unknown", "none", "nil", "not known"}
 
 // blankMarker reports whether a known column's cell is a blank marker that is not a
 // legal value of the column ("none" is one of Control braking's values). The asset id
