@@ -273,6 +273,16 @@ type preparedCheck struct {
 	reviewRule, reviewSource, reviewMsg string
 }
 
+// badStatus is the status of a check that needs an unreadable value: error, except for
+// a value the register gives without a unit, which is data missing (unchecked), not
+// data wrong.
+func badStatus(e *Error) Status {
+	if e.Kind == Unitless {
+		return StatusUnchecked
+	}
+	return StatusError
+}
+
 func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 	p := preparedCheck{spec: s}
 	if s.applicable != nil {
@@ -287,14 +297,14 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 	}
 	for _, i := range s.usesAt {
 		if e := d.bad[i]; e != nil {
-			p.status, p.message = StatusError, e.Error()
+			p.status, p.message = badStatus(e), e.Error()
 			return p
 		}
 	}
 	var missing []string
 	for _, i := range needs {
 		if e := d.bad[i]; e != nil {
-			p.status, p.message = StatusError, e.Error()
+			p.status, p.message = badStatus(e), e.Error()
 			return p
 		}
 		if d.missing[i] {

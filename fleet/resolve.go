@@ -220,7 +220,7 @@ func (c *Checker) resolve(a *Asset, d *hoistData) {
 				e = &Error{Kind: Invalid, Cell: v.Cell, Field: col.Key, Asset: a.ID, Err: fmt.Errorf("unreadable value %q", v.Raw)}
 			}
 			d.bad[i] = e
-			if e.Kind != HeaderProblem { // said once, with the header, not on every row
+			if e.Kind != HeaderProblem && e.Kind != Unitless { // said once, with the header, not on every row
 				d.messages = append(d.messages, e.Error())
 			}
 		}

@@ -80,9 +80,10 @@ const (
 	Shape              // a row of a different shape, an empty row
 	HeaderProblem      // a cell unusable because its column's header is (an unknown unit, say)
 	Implausible        // a value implausible beside the hoist's others: a unit slip, most likely
+	Unitless           // a number in a column whose unit is written nowhere: not read, the checks needing it unchecked
 )
 
-var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape", "header problem", "implausible value"}
+var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape", "header problem", "implausible value", "no unit"}
 
 func (k Kind) String() string {
 	if int(k) < len(kindNames) {

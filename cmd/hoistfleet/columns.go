@@ -10,8 +10,10 @@ import (
 // columnsHelp is "hoistfleet help columns", generated from the column schema.
 func columnsHelp() string {
 	var b strings.Builder
-	b.WriteString("The register: one header row, then one hoist per row. Headers match ignoring case,\n")
-	b.WriteString("spaces and punctuation; units go in brackets: Rated load [t], Rope diameter (in).\n")
+	b.WriteString("The register: one header row (found in the first 30 rows, or --header-row N), then one\n")
+	b.WriteString("hoist per row. Headers match ignoring case, spaces and punctuation; units go in brackets,\n")
+	b.WriteString("Rated load [t], Rope diameter (in), or in a units row under the header. A column of a\n")
+	b.WriteString("physical quantity without a unit anywhere is not read (a cell may carry its own: 5 t).\n")
 	b.WriteString("Unknown columns are passed through untouched.\n\n")
 	for _, c := range schema.Columns() {
 		fmt.Fprintf(&b, "%s\n", c.HeaderWithUnit(""))

@@ -44,7 +44,7 @@ var badCellsWant = []struct {
 	{17, "B-15", [][]string{{"bad-cells.csv!X17", `"0.5"`, "Spectrum factor"}}},
 	{18, "B-16", [][]string{
 		{"bad-cells.csv!Q18", `"approx 95"`, "not a number"},
-		{"bad-cells.csv!R18", `"11 kW"`, "not a number", "header"}}},
+		{"bad-cells.csv!R18", `"11 kW (derated)"`, "comment", "Notes"}}},
 	{19, "B-17", [][]string{
 		{"bad-cells.csv!K19", `"NaN"`, "[kN]"},
 		{"bad-cells.csv!U19", `"inf"`, "[N m]"}}},
@@ -200,7 +200,7 @@ func TestBadCells(t *testing.T) {
 		{15, "drum-ratio", "bad-cells.csv!C15", "M9"},
 		{16, "inspection-due", "bad-cells.csv!D16", "extreme"},
 		{16, "brake-holding", "bad-cells.csv!V16", "gearbox"},
-		{18, "motor-power", "bad-cells.csv!R18", "11 kW"},
+		{18, "motor-power", "bad-cells.csv!R18", "11 kW (derated)"},
 	} {
 		ch := byRow[c.row].check(c.check)
 		if ch == nil {

@@ -74,4 +74,20 @@ func TestMessyRegisters(t *testing.T) {
 	if !strings.Contains(res.out, "Hidden rows  1") {
 		t.Errorf("the summary does not count the hidden row:\n%s", res.out)
 	}
+
+	// A column without a unit anywhere: the checks that need it are unchecked, citing
+	// the header, never read in an assumed unit.
+	units := copyTestdata(t, dir, "messy-units.csv")
+	res = runCmd(t, "", "check", units, "--format", "jsonl", "-o", "-", "--as-of", "2026-12-01", "-q")
+	ub := byAsset(parseJSONL(t, res.out))
+	for _, id := range []string{"rope-design-factor", "motor-power", "brake-holding"} {
+		c := ub["S-02"].check(id)
+		m, _ := c["message"].(string)
+		if c["status"] != "unchecked" || !strings.Contains(m, "the Rated load column gives no unit (header messy-units.csv!G1)") {
+			t.Errorf("S-02 %s: %v %q, want unchecked citing the header without a unit", id, c["status"], m)
+		}
+	}
+	if st := ub["S-01"].str("status"); st != "pass" {
+		t.Errorf("S-01 (rated load \"5 t\" in the cell): %s, want pass as small-si.csv", st)
+	}
 }

@@ -63,6 +63,10 @@ type colSpec struct {
 
 	dates dateNotes // a date column's order of day and month, and what it read
 
+	noUnit    bool          // a physical quantity whose unit is written nowhere: plain numbers are not read
+	headerRow int           // the header's row, for messages
+	cellUnits cellUnitNotes // cells read in the unit they carry
+
 	// Set by prepare from the above, for the per-cell conversion.
 	kind   cellKind // col.Kind
 	lo, hi float64  // an SI value outside [lo, hi] fails checkRange (±Inf: no bound)
@@ -133,8 +137,24 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 			x, hint, ok = parseNumber(strings.TrimSpace(strings.TrimSuffix(text, "%")), d)
 			factor = 0.01
 		}
+		ownUnit := false
+		if !ok {
+			if cx, cf, msg, handled := s.cellUnit(text, d); handled {
+				if msg != "" {
+					bad(fleet.Invalid, ErrUnit, "%q %s", text, msg)
+					return
+				}
+				x, factor, ok, ownUnit = cx, cf, true, true
+			}
+		}
 		if !ok {
 			bad(fleet.Invalid, ErrNotNumber, "%q is not a number%s%s", text, s.in(), hint)
+			return
+		}
+		if s.noUnit && !ownUnit {
+			v.State = fleet.Bad
+			v.Err = &fleet.Error{Kind: fleet.Unitless, Asset: asset, Cell: ref, Field: s.col.Key,
+				Err: &cellError{msg: fmt.Sprintf("%q is not read: the %s column gives no unit (header %s)", text, s.col.Header, fleet.CellRef{Sheet: ref.Sheet, Row: s.headerRow, Col: ref.Col}), kind: ErrUnit}}
 			return
 		}
 		if kind == kindInteger && x != math.Trunc(x) {
@@ -147,6 +167,9 @@ func (s *colSpec) fill(raw string, d dialect, ref fleet.CellRef, asset string, v
 			return
 		}
 		v.Num = si
+		if ownUnit {
+			s.noteCellUnit(ref, text, si)
+		}
 		if msg := s.checkRange(si); msg != "" {
 			bad(fleet.OutOfRange, ErrOutOfRange, "%q is out of range%s: %s", text, s.in(), msg) // keeps its Num
 			return
@@ -241,7 +264,7 @@ func readNumber(text string, d dialect) numberCell {
 
 // in is the " in [t]" part of a message, "" for a column without a unit.
 func (s *colSpec) in() string {
-	if s.unitLabel == "" {
+	if s.unitLabel == "" || s.noUnit {
 		return ""
 	}
 	return " in [" + s.unitLabel + "]"

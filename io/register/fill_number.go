@@ -53,6 +53,11 @@ func (s *colSpec) prepare() {
 	if s.col.HasMax {
 		s.hi = s.maxSI + tol*math.Abs(s.maxSI)
 	}
+	if s.noUnit {
+		// No unit: no plain number is read (fill's general path says why); an empty
+		// range sends every cell there.
+		s.lo, s.hi = math.Inf(1), math.Inf(-1)
+	}
 }
 
 // fillNumber is fill's common case for a number column: a decimal number that

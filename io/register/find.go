@@ -162,6 +162,12 @@ func (r *Reader) findHeader(file string, opt Options) error {
 		rest = rest[1:]
 	}
 	r.replay = rest
+	for i := range r.specs {
+		if s := &r.specs[i]; s.noUnit {
+			r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Unitless, Field: s.col.Key,
+				Cell: fleet.CellRef{Sheet: r.sheet, Row: hdr.row, Col: i + 1}, Err: errors.New(s.unitlessProblem(r.header.Columns[i]))})
+		}
+	}
 	return nil
 }
 

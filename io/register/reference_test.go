@@ -54,8 +54,23 @@ func (s *colSpec) refParse(raw string, d dialect, ref fleet.CellRef, asset strin
 			x, hint, ok = refParseNumber(strings.TrimSpace(strings.TrimSuffix(text, "%")), d)
 			factor = 0.01
 		}
+		ownUnit := false
+		if !ok { // issue 14: a value with its unit in the cell, shared with the reader
+			if cx, cf, msg, handled := s.cellUnit(text, d); handled {
+				if msg != "" {
+					return bad(fleet.Invalid, ErrUnit, "%q %s", text, msg)
+				}
+				x, factor, ok, ownUnit = cx, cf, true, true
+			}
+		}
 		if !ok {
 			return bad(fleet.Invalid, ErrNotNumber, "%q is not a number%s%s", text, s.in(), hint)
+		}
+		if s.noUnit && !ownUnit { // issue 14: no unit anywhere, no number read
+			v.State = fleet.Bad
+			v.Err = &fleet.Error{Kind: fleet.Unitless, Asset: asset, Cell: ref, Field: s.col.Key,
+				Err: &cellError{msg: fmt.Sprintf("%q is not read: the %s column gives no unit (header %s)", text, s.col.Header, fleet.CellRef{Sheet: ref.Sheet, Row: s.headerRow, Col: ref.Col}), kind: ErrUnit}}
+			return v, c
 		}
 		if kind == schema.Integer && x != math.Trunc(x) {
 			return bad(fleet.Invalid, ErrNotWhole, "%q is not a whole number%s", text, s.in())

@@ -2,11 +2,15 @@
 // with one header row and one hoist a row, and yields its rows as fleet.Assets with every
 // known column converted to SI. It implements fleet.Source.
 //
-// The header is the first row. Each header cell is matched to the column schema
-// (schema.Columns) by its title, ignoring case, spaces and punctuation, against the
-// schema's key, header and synonyms; the unit in brackets at its end is converted with
-// package units, and a column without a unit takes the schema's default unit. For
-// example, with the header
+// The header is found in the first rows (HeaderScanRows; find.go): the row whose cells
+// name the most schema columns, with at least the asset id and one other; Options give
+// it instead. Each header cell is matched to the column schema (schema.Columns) by its
+// title, ignoring case, spaces and punctuation, against the schema's key, header and
+// synonyms; the unit in brackets at its end, or in a units row under the header, is
+// converted with package units. A column of a physical quantity whose unit is written
+// nowhere is not read in an assumed unit (cellunit.go). Rows that are not hoists (blank,
+// totals, repeated header rows) are left out and noted (rows.go); dates are read as
+// spreadsheets write them (dates.go). For example, with the header
 //
 //	Asset ID,Rated load [lb],Rope diameter (in),Maintenance contractor
 //
@@ -379,7 +383,7 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	for i, raw := range titles {
 		ref := fleet.CellRef{Sheet: r.sheet, Row: row, Col: i + 1}
 		col := fleet.Column{Index: i, Title: raw, Factor: 1}
-		spec := colSpec{factor: 1}
+		spec := colSpec{factor: 1, headerRow: row}
 		trimmed := strings.TrimSpace(raw)
 		if trimmed != "" {
 			nonEmpty++
@@ -457,10 +461,13 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	return nil
 }
 
-// setUnit resolves the column's unit: the header's, or the schema's default.
+// setUnit resolves the column's unit: the header's. A column of a physical quantity
+// whose header gives none is read in no unit (noUnit): only cells that carry their own
+// unit are read; its range is still the schema's, in the schema's unit.
 func (s *colSpec) setUnit(raw, unit string, splitErr error, col *fleet.Column) {
 	sc := s.col
 	col.Unit = unit
+	s.noUnit = false
 	if splitErr != nil {
 		s.headerErr = fmt.Sprintf("%q: %v", raw, strings.TrimPrefix(splitErr.Error(), "header: "+strconv.Quote(strings.TrimSpace(raw))+": "))
 		return
@@ -473,6 +480,20 @@ func (s *colSpec) setUnit(raw, unit string, splitErr error, col *fleet.Column) {
 	if u == "" {
 		u = sc.Unit
 	}
+	def, err := units.Factor(sc.Quantity, sc.Unit)
+	if err != nil {
+		def = math.NaN() // a schema unit this package does not know: no range check
+	}
+	if unit == "" && sc.Quantity != "ratio" {
+		s.noUnit = true
+		s.factor, col.Factor = def, 1
+		s.unitLabel = sc.Unit
+		s.minSI, s.maxSI = sc.Min*def, sc.Max*def
+		if math.IsNaN(def) {
+			s.col.HasMin, s.col.HasMax = false, false
+		}
+		return
+	}
 	f, err := units.Factor(sc.Quantity, u)
 	if err != nil {
 		s.headerErr = fmt.Sprintf("%q: %v", raw, err)
@@ -482,10 +503,6 @@ func (s *colSpec) setUnit(raw, unit string, splitErr error, col *fleet.Column) {
 	s.factor, col.Factor = f, f
 	if u != "1" {
 		s.unitLabel = u
-	}
-	def, err := units.Factor(sc.Quantity, sc.Unit)
-	if err != nil {
-		def = math.NaN() // a schema unit this package does not know: no range check
 	}
 	s.minSI, s.maxSI = sc.Min*def, sc.Max*def
 	if math.IsNaN(def) {

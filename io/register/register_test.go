@@ -199,7 +199,7 @@ func TestBadCellsKeepEveryRow(t *testing.T) {
 	const reg = `Asset ID,Rated load [t],Parts of line,Duty group,Load spectrum,Drum grooved,Last inspection,Sheave efficiency,Rope diameter [mm],Notes
 H-1,twelve,4,M5,L2,yes,2024-01-31,0.98,16,ok
 H-2,"1,250",2.5,M9,0.5,maybe,03/04/2024,1.2,130,
-H-3,12 t,0,m5,l3,Y,2024-02-30,95%,16,
+H-3,12 m,0,m5,l3,Y,2024-02-30,95%,16,
 H-4,#DIV/0!,4,FEM 1Am,L1,0,2024-01-31T08:30:00,0.97,0.5,
 `
 	r := csvString(t, reg)
@@ -216,7 +216,7 @@ H-4,#DIV/0!,4,FEM 1Am,L1,0,2024-01-31T08:30:00,0.97,0.5,
 	}{
 		{0, "rated_load", fleet.Bad, fleet.Invalid, `reg.csv!B2: asset H-1: "twelve" is not a number in [t]`},
 		{1, "rated_load", fleet.Bad, fleet.Invalid, `reg.csv!B3: asset H-2: "1,250" is not a number in [t]: write it without thousands separators`},
-		{2, "rated_load", fleet.Bad, fleet.Invalid, `reg.csv!B4: asset H-3: "12 t" is not a number in [t]: write the number only; the unit belongs in the header`},
+		{2, "rated_load", fleet.Bad, fleet.Invalid, `reg.csv!B4: asset H-3: "12 m" carries the unit "m": m is a unit of length, not of mass: write one of kg, g, t, tonne, lb, short ton or long ton`},
 		{3, "rated_load", fleet.Bad, fleet.Invalid, `reg.csv!B5: asset H-4: "#DIV/0!" is not a number in [t]: the cell holds a spreadsheet error`},
 		{1, "parts_of_line", fleet.Bad, fleet.Invalid, `reg.csv!C3: asset H-2: "2.5" is not a whole number`},
 		{2, "parts_of_line", fleet.Bad, fleet.OutOfRange, `reg.csv!C4: asset H-3: "0" is out of range: Parts of line must be 1 to 24`},

@@ -1,6 +1,7 @@
 package register
 
 import (
+	"errors"
 	"fmt"
 	"strconv"
 	"strings"
@@ -213,6 +214,12 @@ func (r *Reader) finish() {
 			r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other,
 				Cell: fleet.CellRef{Sheet: r.sheet, Row: r.headerRow, Col: i + 1}, Field: s.col.Key,
 				Err: fmt.Errorf("%s: %s", s.col.Header, n)})
+		}
+	}
+	for i := range r.specs {
+		s := &r.specs[i]
+		if n := s.cellUnitNote(); n != "" {
+			r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: s.cellUnits.at, Field: s.col.Key, Err: errors.New(n)})
 		}
 	}
 	for i := range r.specs {
