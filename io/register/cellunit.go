@@ -49,6 +49,21 @@ func leadingNumber(text string, d dialect) (x float64, rest string, ok bool) {
 	if digits == 0 {
 		return 0, "", false
 	}
+	if i < len(text) && (text[i] == 'e' || text[i] == 'E') {
+		// An exponent ("1e3 kg"), whole, or no number at all ("3.5e", "1e400").
+		j := i + 1
+		if j < len(text) && (text[j] == '+' || text[j] == '-') {
+			j++
+		}
+		k := j
+		for k < len(text) && text[k] >= '0' && text[k] <= '9' {
+			k++
+		}
+		if k == j {
+			return 0, "", false
+		}
+		i = k
+	}
 	num := strings.Replace(text[:i], ",", ".", 1)
 	x, err := strconv.ParseFloat(num, 64)
 	if err != nil || math.IsInf(x, 0) {

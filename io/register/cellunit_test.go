@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 )
 
@@ -55,7 +56,7 @@ func TestCellUnits(t *testing.T) {
 			}
 			continue
 		}
-		if v.State != fleet.OK || !approxEqual(v.Num, tt.si, 0, 1e-15) {
+		if v.State != fleet.OK || !approx.Equal(v.Num, tt.si, 0, 1e-15) {
 			t.Errorf("%s %q: %+v (%s), want %v", tt.key, tt.cell, v, errText(v), tt.si)
 		}
 	}
@@ -80,7 +81,7 @@ func TestNoUnitAnywhere(t *testing.T) {
 		errText(v) != `messy-units.csv!G3: asset S-02: "10" is not read: the Rated load column gives no unit (header messy-units.csv!G1)` {
 		t.Errorf("S-02 bare 10 without a unit: %+v", v)
 	}
-	if v := as[1].Get("motor_power"); !approxEqual(v.Num, 15*745.69987158227022, 0, 1e-15) {
+	if v := as[1].Get("motor_power"); !approx.Equal(v.Num, 15*745.69987158227022, 0, 1e-15) {
 		t.Errorf("S-02 15 hp: %+v", v)
 	}
 	for _, c := range []struct {

@@ -12,6 +12,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"hoistfleet/calc/approx"
 	"hoistfleet/fleet"
 )
 
@@ -84,7 +85,7 @@ func TestMessyTitleBlockCSV(t *testing.T) {
 	if v := as[0].Get("motor_power"); v.State != fleet.OK || v.Num != 1500 {
 		t.Errorf("H-101 motor power %+v, want 1500 W", v)
 	}
-	if v := as[0].Get("rope_diameter"); v.State != fleet.OK || !approxEqual(v.Num, 0.008, 0, 1e-15) {
+	if v := as[0].Get("rope_diameter"); v.State != fleet.OK || !approx.Equal(v.Num, 0.008, 0, 1e-15) {
 		t.Errorf("H-101 rope diameter %+v, want 0.008 m", v)
 	}
 	// Blank markers are empty, not errors.
