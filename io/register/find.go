@@ -151,6 +151,7 @@ func (r *Reader) findHeader(file string, opt Options) error {
 	for _, i := range r.dateCols {
 		r.specs[i].dates.order = opt.DateOrder
 	}
+
 	if at > 0 {
 		r.noteAbove(rows[:at], hdr.row)
 	}

@@ -263,3 +263,64 @@ func TestSumRows(t *testing.T) {
 		}
 	}
 }
+
+// TestTradeHeaders: testdata/messy-trade-headers.csv, headers in the trade's
+// abbreviations, reeving written parts/ends (README.md there has the ground truth).
+func TestTradeHeaders(t *testing.T) {
+	r := openCSV(t, filepath.Join("..", "..", "..", "testdata", "messy-trade-headers.csv"))
+	as := readAll(t, r)
+	want := "asset_id,location,rated_load,rope_diameter,rope_reference_diameter,rope_measured_diameter,parts_of_line,motor_power,gear_efficiency,drum_diameter,hoist_speed,last_inspection,"
+	if keys := strings.Join(columnKeys(r.Header()), ","); keys != want {
+		t.Errorf("columns\n%s\nwant\n%s", keys, want)
+	}
+	hasProblem(t, r, `messy-trade-headers.csv!M1: "Rope Ø (mm)" is a second Rope diameter column (the first is messy-trade-headers.csv!D1): this copy is passed through unread`)
+	hasProblem(t, r, `messy-trade-headers.csv!G2: Parts of line: 3 cells written as parts/rope ends read as both ("4/1" at messy-trade-headers.csv!G2: 4 parts of line on 1 rope ends)`)
+	if len(as) != 4 {
+		t.Fatalf("%d hoists", len(as))
+	}
+	for i, w := range []struct {
+		parts, ends float64
+		endsState   fleet.ValueState
+	}{{4, 1, fleet.OK}, {4, 2, fleet.OK}, {2, 0, fleet.Empty}, {8, 3, fleet.Bad}} {
+		p, e := as[i].Get("parts_of_line"), as[i].Get("rope_ends")
+		if p.State != fleet.OK || p.Num != w.parts || e.State != w.endsState || e.Num != w.ends {
+			t.Errorf("%s: parts %+v, ends %+v; want %v on %v (%v)", as[i].ID, p, e, w.parts, w.ends, w.endsState)
+		}
+	}
+	if got := errText(as[3].Get("rope_ends")); got != `messy-trade-headers.csv!G5: asset T-04: "3" is out of range: Rope ends on drum must be 1 to 2` {
+		t.Errorf("T-04 8/3: %s", got)
+	}
+	if c := as[0].Cells[6]; c.Text != "4/1" || c.IsNumber {
+		t.Errorf("the reeving cell passes through as written: %+v", c)
+	}
+	for i, w := range []time.Time{day(2026, 3, 25), day(2026, 4, 1), day(2026, 3, 1), day(2026, 5, 4)} {
+		if v := as[i].Get("last_inspection"); !v.Date.Equal(w) {
+			t.Errorf("%s last TE %+v, want %v", as[i].ID, v, w)
+		}
+	}
+	if v := as[0].Get("gear_efficiency"); v.Num != 0.92 {
+		t.Errorf("Gearbox eff. %+v", v)
+	}
+	if v := as[0].Get("rope_measured_diameter"); !approx.Equal(v.Num, 0.0094, 0, 1e-15) {
+		t.Errorf("Rope meas. dia %+v", v)
+	}
+}
+
+// TestAbbreviations: the short forms registers write.
+func TestAbbreviations(t *testing.T) {
+	for in, want := range map[string]string{
+		"Rope Ø":          "Rope diameter",
+		"Rope⌀":           "Rope diameter",
+		"No. of falls":    "number of falls",
+		"Gearbox eff.":    "Gearbox efficiency",
+		"Rope meas. dia":  "Rope measured diameter",
+		"Drum PCD":        "Drum pitch circle diameter",
+		"SWL":             "safe working load",
+		"Last TE":         "Last thorough examination",
+		"Notes (no unit)": "Notes number unit",
+	} {
+		if got := expandAbbreviations(in); got != want {
+			t.Errorf("expandAbbreviations(%q) = %q, want %q", in, got, want)
+		}
+	}
+}

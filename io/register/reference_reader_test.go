@@ -152,6 +152,9 @@ func (r *refReader) refAsset(rr rawRow) *fleet.Asset {
 			}
 			continue
 		}
+		if i == r.reeve.partsCol && strings.IndexByte(raw, '/') >= 0 && r.fillReeving(raw, ref, a) {
+			continue // issue 14: reeving "4/1", shared with the reader
+		}
 		v, c := s.refParse(raw, r.d, ref, a.ID)
 		a.Cells[i] = c
 		if s.known {

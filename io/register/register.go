@@ -91,6 +91,7 @@ type Reader struct {
 	unitsRow []string           // the units row under the header, to know its repeats
 	finished bool               // the notes of the end are written
 	headRows int                // rows read up to the header (and its units row)
+	reeve    reeving            // the parts-of-line and rope-ends columns ("4/1")
 
 	replay     []rawRow     // rows read with the header search, after the header: returned first
 	sumRows    map[int]bool // XLSX: rows holding a formula that sums a column (totals rows)
@@ -304,6 +305,9 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 				Err: &cellError{msg: "not read: " + rr.syntax.message(), kind: ErrSyntax}}}
 			continue
 		}
+		if i == r.reeve.partsCol && strings.IndexByte(raw, '/') >= 0 && r.fillReeving(raw, ref, a) {
+			continue
+		}
 		s.fill(raw, r.d, ref, a.ID, &a.Values[s.field], &a.Cells[i])
 	}
 	for _, p := range rr.merged {
@@ -446,6 +450,7 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 		r.header.Columns = append(r.header.Columns, col)
 		r.specs = append(r.specs, spec)
 	}
+	r.setupReeving()
 	rowRef := fleet.CellRef{Sheet: r.sheet, Row: row}
 	if nonEmpty > 0 && (2*numeric > nonEmpty || (matched == 0 && numeric > 0)) {
 		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Invalid, Cell: rowRef,

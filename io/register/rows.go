@@ -208,6 +208,9 @@ func (r *Reader) finish() {
 			Cell: fleet.CellRef{Sheet: r.sheet, Row: l.runs[0][0]},
 			Err:  fmt.Errorf("%d %s (%s) %s", l.n, word, l.String(), what)})
 	}
+	if n := r.reevingNote(); n != "" {
+		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: r.reeve.at, Field: "parts_of_line", Err: errors.New(n)})
+	}
 	for _, i := range r.dateCols {
 		s := &r.specs[i]
 		for _, n := range s.dateNoteList() {
