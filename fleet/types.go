@@ -191,9 +191,12 @@ type Column struct {
 type Header struct {
 	File    string // input name as given (base name for display)
 	Sheet   string // sheet name, or the CSV file's base name
+	Row     int    // the header's spreadsheet row (1 unless title rows are above it)
 	Columns []Column
 	// Problems are header-level messages (an unknown unit, a duplicated column): they
-	// make the affected fields Bad in every row.
+	// make the affected fields Bad in every row. Notes of kind Other say how the register
+	// was read (rows left out, a units row, blank markers, date orders); a Source may
+	// add them while it reads, until the end.
 	Problems []*Error
 }
 

@@ -10,6 +10,7 @@
 //	                          [--rated-load-factor F] [--header-row N] [--date-order dmy|mdy|ymd]
 //	hoistfleet explain REGISTER --asset ID [--format text|md]   one hoist's calculation record
 //	hoistfleet explain REGISTER --all -o DIR                     every hoist's record, one file each
+//	hoistfleet columns REGISTER [--format text|json]             how the register's columns are read
 //	hoistfleet template [-o FILE] [--units si|us]                a blank register
 //	hoistfleet rules [--rules iso|us|FILE] [--format text|md|csv] the rule table in force
 //	hoistfleet demo [-o DIR]                                     writes the invented demo registers and checks them
@@ -32,6 +33,7 @@ const usageText = `hoistfleet checks a register of powered drum hoists and write
 Usage:
   hoistfleet check REGISTER [flags]       check every hoist; write REGISTER-results.xlsx
   hoistfleet explain REGISTER --asset ID  one hoist's calculation record (--all -o DIR: every hoist)
+  hoistfleet columns REGISTER             how its columns are read, which are missing and what they unlock
   hoistfleet template [-o FILE]           a blank register to fill in (--units us for US customary)
   hoistfleet rules [--rules iso|us|FILE]  the rule table in force, with every source
   hoistfleet demo [-o DIR]                write the invented demo registers and check them

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -93,4 +94,48 @@ func TestMessyRegisters(t *testing.T) {
 	if got := ub["S-01"]; got.str("status") != want.str("status") || got["max_rated_load_kg"] != want["max_rated_load_kg"] {
 		t.Errorf("S-01 (rated load \"5 t\" in the cell): %s %v, small-si.csv's S-01 %s %v", got.str("status"), got["max_rated_load_kg"], want.str("status"), want["max_rated_load_kg"])
 	}
+}
+
+// TestColumnsCommand: 'hoistfleet columns REGISTER' reports how the columns were read, as
+// text and as JSON.
+func TestColumnsCommand(t *testing.T) {
+	dir := t.TempDir()
+	book := copyTestdata(t, dir, "messy-hidden.xlsx")
+	res := runCmd(t, "", "columns", book, "--format", "json")
+	res.mustExit(t, exitOK, "columns --format json")
+	var rep struct {
+		HeaderRow int `json:"header_row"`
+		Columns   []struct {
+			Column, Title, Status, Key, Unit, Reason string
+			UnitFrom                                 string `json:"unit_from"`
+		} `json:"columns"`
+		Missing []struct {
+			Key     string   `json:"key"`
+			Unlocks []string `json:"unlocks"`
+		} `json:"missing"`
+		Notes []string `json:"notes"`
+	}
+	if err := json.Unmarshal([]byte(res.out), &rep); err != nil {
+		t.Fatalf("not JSON: %v\n%s", err, res.out)
+	}
+	if rep.HeaderRow != 4 || len(rep.Columns) != 6 {
+		t.Fatalf("header row %d, %d columns", rep.HeaderRow, len(rep.Columns))
+	}
+	if b := rep.Columns[1]; b.Status != "refused" || !strings.Contains(b.Reason, "hidden Rated load column") {
+		t.Errorf("hidden stale SWL (t): %+v", b)
+	}
+	if c := rep.Columns[2]; c.Status != "read" || c.Key != "rated_load" || c.Unit != "kg" || c.UnitFrom != "header" {
+		t.Errorf("visible SWL [kg]: %+v", c)
+	}
+	if len(rep.Missing) == 0 || !strings.Contains(strings.Join(rep.Notes, "\n"), "totals rows") {
+		t.Errorf("missing %d, notes %q", len(rep.Missing), rep.Notes)
+	}
+	text := runCmd(t, "", "columns", book)
+	text.mustExit(t, exitOK, "columns")
+	if !strings.Contains(text.out, "Missing columns the checks need") || !strings.Contains(text.out, "REFUSED") {
+		t.Errorf("text report:\n%s", text.out)
+	}
+	runCmd(t, "", "columns").mustExit(t, exitUsage, "columns without a register")
+	runCmd(t, "", "columns", book, "--format", "xml").mustExit(t, exitUsage, "columns --format xml")
+	runCmd(t, "", "columns", copyTestdata(t, dir, "not-a-register.csv")).mustExit(t, exitIO, "columns not-a-register.csv")
 }

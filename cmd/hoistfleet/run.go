@@ -56,6 +56,8 @@ func run(ctx context.Context, args []string, st Streams) exitCode {
 		err = runRules(rest, st)
 	case "demo":
 		err = runDemo(ctx, rest, st)
+	case "columns":
+		err = runColumns(ctx, rest, st)
 	case "version", "--version":
 		fmt.Fprintln(st.Out, "hoistfleet", version)
 	case "help", "-h", "--help":
@@ -74,7 +76,7 @@ func run(ctx context.Context, args []string, st Streams) exitCode {
 		}
 		fmt.Fprint(st.Out, usageText)
 	default:
-		err = usagef("unknown command %q: want check, explain, template, rules or demo (hoistfleet help)", cmd)
+		err = usagef("unknown command %q: want check, explain, columns, template, rules or demo (hoistfleet help)", cmd)
 	}
 	return report(err, st, cmd)
 }

@@ -363,7 +363,7 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 
 // header builds the Header and the column specs from the header row's cells.
 func (r *Reader) buildHeader(file string, titles []string, row int) error {
-	r.header = &fleet.Header{File: file, Sheet: r.sheet}
+	r.header = &fleet.Header{File: file, Sheet: r.sheet, Row: row}
 	r.headerRow = row
 	r.idCol = -1
 	r.ids = newIDSet()

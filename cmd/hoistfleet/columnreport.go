@@ -1,0 +1,55 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"io"
+
+	"hoistfleet/io/colreport"
+)
+
+// runColumns is 'hoistfleet columns REGISTER': how each column of the register is read,
+// which of ours it lacks and what they would unlock, and how its rows were read.
+func runColumns(ctx context.Context, args []string, st Streams) error {
+	var cfg checkConfig
+	var format string
+	fs := newFlagSet("columns", st)
+	fs.StringVar(&format, "format", "text", "text or json")
+	fs.StringVar(&cfg.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
+	fs.IntVar(&cfg.headerRow, "header-row", 0, "the register's header row (default: found in the first 30 rows)")
+	fs.StringVar(&cfg.dateOrder, "date-order", "", "dmy, mdy or ymd: the order of dates written with numbers")
+	if err := parseFlags(fs, args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		return usagef("columns needs one register file (or - for CSV on standard input), got %d arguments", fs.NArg())
+	}
+	if format != "text" && format != "json" {
+		return usagef("--format %q: want text or json", format)
+	}
+	opt, err := cfg.readOptions()
+	if err != nil {
+		return err
+	}
+	in, err := openRegister(fs.Arg(0), cfg.sheet, opt, st)
+	if err != nil {
+		return err
+	}
+	defer in.Close()
+	// Read every row: the notes of the rows left out, blank markers and date orders
+	// come at the end.
+	for {
+		_, err := in.src.Next(ctx)
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			return err
+		}
+	}
+	rep := colreport.Build(in.src.Header())
+	if format == "json" {
+		return colreport.WriteJSON(st.Out, rep)
+	}
+	return colreport.WriteText(st.Out, rep)
+}
