@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"flag"
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
@@ -257,7 +258,7 @@ func TestSumRows(t *testing.T) {
 		`<c r="C9"><v>1</v></c><c r="D9"><t>SUM(C5:C8)</t>`: false,
 	} {
 		var fc formulaCells
-		fc.sums([]byte(xml), 0)
+		fc.scan([]byte(xml), 0)
 		if got := fc.sumRows[9]; got != want {
 			t.Errorf("%s: totals row %v, want %v", xml, got, want)
 		}
@@ -322,5 +323,21 @@ func TestAbbreviations(t *testing.T) {
 		if got := expandAbbreviations(in); got != want {
 			t.Errorf("expandAbbreviations(%q) = %q, want %q", in, got, want)
 		}
+	}
+}
+
+// TestSumRowsAfterFirstRefs: totals rows are found on the counting path too (after the
+// first maxFormulaRefs formula references are kept).
+func TestSumRowsAfterFirstRefs(t *testing.T) {
+	var b strings.Builder
+	for r := 2; r < 2+maxFormulaRefs+2; r++ {
+		fmt.Fprintf(&b, `<row r="%d"><c r="B%d"><f>A%d*2</f></c></row>`, r, r, r)
+	}
+	b.WriteString(`<row r="40"><c r="B40"><f>SUM(B2:B39)</f></c></row>`)
+	var fc formulaCells
+	fc.scan([]byte(b.String()), 0)
+	fc.scan([]byte(b.String()), 0) // the second window: the counting path
+	if !fc.sumRows[40] || len(fc.sumRows) != 1 {
+		t.Errorf("totals rows %v, want row 40", fc.sumRows)
 	}
 }

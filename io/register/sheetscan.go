@@ -38,47 +38,50 @@ var (
 	tagFormEnd  = []byte("</f>")
 )
 
-// sums notes the rows of win whose formulas add up a column; the first tail bytes of win
-// are the previous window's end, whose whole matches were seen with it.
-func (fc *formulaCells) sums(win []byte, tail int) {
-	for _, fn := range [][]byte{fnSum, fnSubtotal, fnAggregate} {
-		from := max(tail-len(fn)+1, 0)
-		for i := 0; ; {
-			j := bytes.Index(win[i:], fn)
-			if j < 0 {
-				break
-			}
-			at := i + j
-			i = at + len(fn)
-			if at < from || len(fc.sumRows) >= maxSumRows {
-				continue
-			}
-			// Inside a formula element: a "<f" before it with no "</f>" in between.
-			f := bytes.LastIndex(win[:at], tagFormula)
-			if f < 0 || bytes.Contains(win[f:at], tagFormEnd) {
-				continue
-			}
-			if len(fn) == len(fnSum) && !spansRows(win[i:]) {
-				continue // SUM(B4:D4), SUM(B4,C4): a sum within the row
-			}
-			k := bytes.LastIndex(win[:f], attrCellRef)
-			if k < 0 {
-				continue
-			}
-			ref := win[k+len(attrCellRef):]
-			e := bytes.IndexByte(ref, '"')
-			if e <= 0 || e > 12 {
-				continue
-			}
-			if _, row, err := excelize.CellNameToCoordinates(string(ref[:e])); err == nil {
-				if fc.sumRows == nil {
-					fc.sumRows = map[int]bool{}
-				}
-				fc.sumRows[row] = true
-			}
+// sumAt notes the row of the formula element starting at win[at] when the formula adds
+// up a column: SUM over a range of several rows, SUBTOTAL or AGGREGATE (the first
+// function of the formula, or one inside it). A formula whose text runs past the window
+// is not looked at (the window is 256 KiB; a totals row has several such cells).
+func (fc *formulaCells) sumAt(win []byte, at int) {
+	if len(fc.sumRows) >= maxSumRows {
+		return
+	}
+	gt := bytes.IndexByte(win[at:min(len(win), at+256)], '>')
+	if gt < 0 || win[at+gt-1] == '/' { // <f …/>: a shared formula's other cells
+		return
+	}
+	body := win[at+gt+1:]
+	end := bytes.Index(body[:min(len(body), 1024)], tagFormEnd)
+	if end < 0 {
+		return
+	}
+	body = body[:end]
+	sum := false
+	if i := bytes.Index(body, fnSum); i >= 0 && (i == 0 || !isLetter(body[i-1])) && spansRows(body[i+len(fnSum):]) {
+		sum = true
+	}
+	sum = sum || bytes.Contains(body, fnSubtotal) || bytes.Contains(body, fnAggregate)
+	if !sum {
+		return
+	}
+	k := bytes.LastIndex(win[:at], attrCellRef)
+	if k < 0 {
+		return
+	}
+	ref := win[k+len(attrCellRef):]
+	e := bytes.IndexByte(ref, '"')
+	if e <= 0 || e > 12 {
+		return
+	}
+	if _, row, err := excelize.CellNameToCoordinates(string(ref[:e])); err == nil {
+		if fc.sumRows == nil {
+			fc.sumRows = map[int]bool{}
 		}
+		fc.sumRows[row] = true
 	}
 }
+
+func isLetter(c byte) bool { return c|0x20 >= 'a' && c|0x20 <= 'z' }
 
 var (
 	tagSheetData = []byte("<sheetData")
@@ -178,6 +181,7 @@ func (fc *formulaCells) scan(win []byte, from int) {
 				continue
 			}
 			fc.n++
+			fc.sumAt(win, at)
 			if len(fc.first) < maxFormulaRefs {
 				if k := bytes.LastIndex(win[:at], attrCellRef); k >= 0 {
 					ref := win[k+len(attrCellRef):]
@@ -201,6 +205,7 @@ func (fc *formulaCells) count(win []byte, from int) {
 		i = at + len(tagFormula)
 		if at >= from && i < len(win) && (win[i] == '>' || win[i] == ' ') {
 			fc.n++
+			fc.sumAt(win, at)
 		}
 	}
 }
@@ -221,7 +226,6 @@ func (s *sheetScan) window(win []byte, tail int) int {
 		from = tail - len(tagFormulaAttr) + 1
 	}
 	s.fc.scan(win, from)
-	s.fc.sums(win, tail)
 	if !s.fc.colsSeen {
 		s.fc.cols(win)
 	}
