@@ -281,6 +281,7 @@ type dateNotes struct {
 	serialAt         fleet.CellRef
 	textDates        int // dates read from text other than ISO 8601
 	textAt           fleet.CellRef
+	lookedAhead      bool // the reader has looked ahead for evidence once (rows later come by anyway)
 }
 
 // inferred is the column's order: the option, else the one its evidence shows.
@@ -415,7 +416,8 @@ func (r *Reader) scanDates(rr rawRow) {
 		td, _ := readTextDate(t, DateOrderAuto, !r.d.xlsx)
 		ref := fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: i + 1}
 		s.dates.evidence(td.shape, ref, t)
-		if td.shape == shapeEither && s.dates.inferred() == DateOrderAuto {
+		if td.shape == shapeEither && s.dates.inferred() == DateOrderAuto && !s.dates.lookedAhead {
+			s.dates.lookedAhead = true
 			r.lookAhead(i)
 		}
 	}

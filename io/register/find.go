@@ -33,10 +33,18 @@ type headerScore struct {
 	nonText int // cells that are numbers or dates: a header has few
 }
 
+// maxHeaderCells is how many cells of a row are matched when looking for the header: a
+// register has a few dozen columns, and a row of thousands (a cut file, a binary) is no
+// header worth the time.
+const maxHeaderCells = 512
+
 // scoreHeader matches the cells of one row against the schema as buildHeader would.
 func scoreHeader(index *schemaIdx, cells []string, row int) headerScore {
 	sc := headerScore{row: row}
 	seen := map[string]bool{}
+	if len(cells) > maxHeaderCells {
+		cells = cells[:maxHeaderCells]
+	}
 	for _, raw := range cells {
 		trimmed := strings.TrimSpace(raw)
 		if trimmed == "" {

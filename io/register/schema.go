@@ -3,6 +3,7 @@ package register
 import (
 	"sort"
 	"strings"
+	"sync"
 	"unicode"
 
 	"hoistfleet/fleet/schema"
@@ -16,8 +17,19 @@ type schemaIdx struct {
 	cols      map[string]schema.Column
 }
 
-// schemaIndex indexes schema.Columns by the normalized key, header and synonyms.
+// schemaIndex returns the index of schema.Columns by the normalized key, header and
+// synonyms (and their abbreviations written out), built once: it is never changed.
 func schemaIndex() *schemaIdx {
+	schemaIndexOnce.Do(func() { theSchemaIndex = buildSchemaIndex() })
+	return theSchemaIndex
+}
+
+var (
+	schemaIndexOnce sync.Once
+	theSchemaIndex  *schemaIdx // read only once built
+)
+
+func buildSchemaIndex() *schemaIdx {
 	x := &schemaIdx{byName: map[string]string{}, ambiguous: map[string][]string{}, cols: map[string]schema.Column{}}
 	for _, c := range schema.Columns() {
 		x.cols[c.Key] = c
