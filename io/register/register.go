@@ -83,9 +83,8 @@ type Reader struct {
 
 	// Blank rows are left out: a run of them is noted only when a non-blank row shows
 	// it is inside the data, not the sheet's trailing rows.
-	dropTrailingBlank bool
-	pendStart, pendN  int
-	err               error // sticky: io.EOF or a read error
+	pendStart, pendN int
+	err              error // sticky: io.EOF or a read error
 
 	skipped  [skipKinds]rowList // rows left out, by why
 	unitsRow []string           // the units row under the header, to know its repeats

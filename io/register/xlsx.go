@@ -230,7 +230,7 @@ func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string, opt Options
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
 	}
 	src := &xlsxSource{f: f, rows: rows, sheet: name, merges: merges}
-	rd := &Reader{sheet: name, src: src, dropTrailingBlank: true, sumRows: formulas.sumRows, hiddenCols: formulas.hiddenCols,
+	rd := &Reader{sheet: name, src: src, sumRows: formulas.sumRows, hiddenCols: formulas.hiddenCols,
 		d: dialect{xlsx: true, date1904: props.Date1904 != nil && *props.Date1904}}
 	if err := rd.findHeader(file, opt); err != nil {
 		_ = src.close()
