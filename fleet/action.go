@@ -161,6 +161,11 @@ func overLimit(what, remedy, unit string, scale float64) func(in adviceInput) ad
 		if in.cr.Status == StatusMarginal {
 			return nearLimit(what, in)
 		}
+		if !(in.cr.Utilisation > 1) {
+			// Failed on a rule, not on its capacity (no control braking means, say):
+			// more capacity would not help, the rule's own words say what would.
+			return say(ruleFailure(in.cr))
+		}
 		return orDerate(remedy + " " + up3(RequiredCapacity(in.cr)/scale) + " " + unit + " (has " + num3(in.cr.Capacity/scale) + " " + unit + ")")
 	}
 }
@@ -198,3 +203,16 @@ func up3(v float64) string {
 
 // percent is a fraction as a percentage to three significant figures.
 func percent(f float64) string { return num3(f*100) + " %" }
+
+// ruleFailure is a check's failure in its own words, for a fail that no capacity cures:
+// the part of its message after "FAIL: ", or the whole message.
+func ruleFailure(cr *CheckResult) string {
+	msg := cr.Message
+	if i := strings.Index(msg, "FAIL: "); i >= 0 {
+		msg = msg[i+len("FAIL: "):]
+	}
+	if msg == "" {
+		return cr.ID + " fails"
+	}
+	return cr.ID + ": " + msg
+}

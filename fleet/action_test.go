@@ -2,11 +2,14 @@ package fleet
 
 import (
 	"math"
+
 	"regexp"
 	"strconv"
 	"strings"
 	"testing"
 	"time"
+
+	"hoistfleet/fleet/rules"
 )
 
 // TestActionRemediesWork: an action's numbers are not decoration. For each kind of
@@ -127,5 +130,27 @@ func TestTonnesRoundsDown(t *testing.T) {
 	}
 	if !math.IsNaN(RequiredCapacity(&CheckResult{Utilisation: math.NaN(), Capacity: 1})) {
 		t.Error("RequiredCapacity without a utilisation is not NaN")
+	}
+}
+
+// TestActionForARuleFailure: a check that fails on a rule while its capacity suffices
+// (US profile, no control braking on a gear train that is not self-locking: 29 CFR
+// 1910.179(f)(1)(ii)) gets the rule's words, not a capacity it already has.
+func TestActionForARuleFailure(t *testing.T) {
+	us, err := rules.Profile("us")
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := NewChecker(Options{Rules: us, MarginalBand: 0.10, AsOf: asOf})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := c.Check(winchA(t).text("control_braking", "none").asset())
+	cr := mustCheck(t, r, "brake-holding")
+	if cr.Status != StatusFail || cr.Utilisation > 1 {
+		t.Fatalf("brake-holding %s at u %g: the test hoist no longer fails on the rule alone", cr.Status, cr.Utilisation)
+	}
+	if strings.Contains(r.Action, "at least") || !strings.Contains(r.Action, "control braking") {
+		t.Errorf("action %q: want the control-braking rule, not a brake torque", r.Action)
 	}
 }
