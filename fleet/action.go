@@ -91,10 +91,21 @@ func (c *Checker) action(e *Evaluation, rating float64) string {
 		}
 		return cmp.Compare(x.margin, y.margin)
 	})
-	var parts, remedies []string
-	derateAt := -1
+	var parts, remedies, add []string
+	derateAt, addAt := -1, -1
 	for _, it := range items {
 		switch {
+		case strings.HasPrefix(it.text, addPrefix):
+			// The columns unchecked checks need, gathered into one list.
+			if addAt < 0 {
+				addAt = len(parts)
+				parts = append(parts, "")
+			}
+			for _, col := range strings.Split(strings.TrimPrefix(it.text, addPrefix), ", ") {
+				if !slices.Contains(add, col) {
+					add = append(add, col)
+				}
+			}
 		case it.remedy != "":
 			if derateAt < 0 {
 				derateAt = len(parts)
@@ -106,6 +117,9 @@ func (c *Checker) action(e *Evaluation, rating float64) string {
 		case !slices.Contains(parts, it.text):
 			parts = append(parts, it.text)
 		}
+	}
+	if addAt >= 0 {
+		parts[addAt] = addPrefix + strings.Join(add, ", ")
 	}
 	if derateAt >= 0 {
 		d := strings.Join(remedies, ", and ")
@@ -121,6 +135,9 @@ func (c *Checker) action(e *Evaluation, rating float64) string {
 	return s
 }
 
+// addPrefix starts the advice of an unchecked check: the columns to add to the register.
+const addPrefix = "add to the register: "
+
 // advice is one check's share of the action: the definition's words for a fail or a
 // marginal, the cell to fix for an error, the columns to add for an unchecked check.
 func (c *Checker) advice(i int, cr *CheckResult) advice {
@@ -128,7 +145,7 @@ func (c *Checker) advice(i int, cr *CheckResult) advice {
 	case StatusError:
 		return say("fix the register: " + cr.Message)
 	case StatusUnchecked:
-		return say("add to the register for " + cr.ID + ": " + strings.TrimPrefix(cr.Message, "needs "))
+		return say(addPrefix + strings.TrimPrefix(cr.Message, "needs "))
 	case StatusFail, StatusMarginal:
 		if advise := c.specs[i].advise; advise != nil {
 			return advise(adviceInput{cr})

@@ -81,7 +81,7 @@ func TestActionKinds(t *testing.T) {
 			StatusFail, []string{"Examine now: periodic inspection 151 days overdue"}},
 		{"limiter missing", winchA(t).text("limiter_fitted", "no").asset(), StatusFail, []string{"Fit an overload limiter (required from 1 t)"}},
 		{"unreadable cell", winchA(t).bad("lift_height", "twelve", "not a number").asset(), StatusError, []string{"Fix the register: "}},
-		{"missing column", winchA(t).drop("operating_hours").asset(), StatusUnchecked, []string{"Add to the register for design-life: "}},
+		{"missing column", winchA(t).drop("operating_hours").asset(), StatusUnchecked, []string{"Add to the register: Operating hours"}},
 		{"rope worn", winchA(t).num("rope_measured_diameter", 12.5*mm).asset(), StatusFail, []string{"Discard the rope: diameter down 10.7 % (limit 7.5 %)"}},
 		{"D/d too small", winchA(t).num("drum_diameter", 200*mm).asset(), StatusFail, []string{"drum too small for the rope: D/d 14.3 against 18 required"}},
 	}

@@ -151,12 +151,10 @@ func (s *colSpec) cellUnitNote() string {
 // unitlessProblem says once that a column's unit is written nowhere.
 func (s *colSpec) unitlessProblem(col fleet.Column) string {
 	title := strings.TrimSpace(col.Title)
-	var eg []string
-	for _, u := range units.Accepted(s.col.Quantity) {
-		if len(eg) == 2 {
-			break
-		}
-		eg = append(eg, strconv.Quote(title+" ["+u+"]"))
+	// The schema's unit and its US customary counterpart, as the templates write them.
+	eg := []string{strconv.Quote(title + " [" + s.col.Unit + "]")}
+	if us, ok := units.USCustomary(s.col.Quantity, s.col.Unit); ok && us != s.col.Unit {
+		eg = append(eg, strconv.Quote(title+" ["+us+"]"))
 	}
 	return fmt.Sprintf("%q gives no unit, and no units row under the header does: a %s is not read in an assumed unit, so its cells are not read (unless a cell carries its own unit, e.g. \"5 %s\") and the checks that need %s are unchecked; write the unit in the header, e.g. %s",
 		title, strings.ReplaceAll(s.col.Quantity, "_", " "), s.col.Unit, s.col.Header, strings.Join(eg, " or "))

@@ -67,7 +67,7 @@ func TestCellUnits(t *testing.T) {
 func TestNoUnitAnywhere(t *testing.T) {
 	r := openCSV(t, filepath.Join("..", "..", "..", "testdata", "messy-units.csv"))
 	as := readAll(t, r)
-	hasProblem(t, r, `messy-units.csv!G1: "SWL" gives no unit, and no units row under the header does: a mass is not read in an assumed unit, so its cells are not read (unless a cell carries its own unit, e.g. "5 t") and the checks that need Rated load are unchecked; write the unit in the header, e.g. "SWL [kg]" or "SWL [g]"`)
+	hasProblem(t, r, `messy-units.csv!G1: "SWL" gives no unit, and no units row under the header does: a mass is not read in an assumed unit, so its cells are not read (unless a cell carries its own unit, e.g. "5 t") and the checks that need Rated load are unchecked; write the unit in the header, e.g. "SWL [t]" or "SWL [lb]"`)
 	hasProblem(t, r, `messy-units.csv!G2: Rated load: 1 cell carries its own unit, read in it ("5 t" at messy-units.csv!G2 is 5000 kg)`)
 	hasProblem(t, r, `messy-units.csv!AG2: Motor power: 2 cells carry their own unit, read in it ("11kW" at messy-units.csv!AG2 is 11000 W)`)
 	if len(as) != 4 {
