@@ -43,7 +43,25 @@ func InspectionDueNumbers(last, asOf time.Time, intervalMonths int, figs *Figure
 }
 
 func inspectionDue(last, asOf time.Time, intervalMonths int, record bool, figs *FigureBuf) (Outcome, error) {
-	return dueCheck(periodicInspection, last, asOf, intervalMonths, record, figs)
+	return dueCheck(periodicInspection, last, time.Time{}, asOf, intervalMonths, record, figs)
+}
+
+// InspectionDueRegister is InspectionDue where the register also gives its own next due
+// date (a schedule shorter than the rules', six-monthly examinations say): the earlier
+// of last + interval and the register's date governs, so the register can make the
+// inspection fall due sooner, never later. A register date later than the rules allow is
+// not used, and the note says so. The note names which date governs; the figure
+// register_next_due is added. skipRecord leaves out the calculation record; figs as
+// InspectionDueNumbers. It returns a *RangeError as InspectionDue does, and when the
+// register's date is not after the last inspection.
+func InspectionDueRegister(last, registerDue, asOf time.Time, intervalMonths int, skipRecord bool, figs *FigureBuf) (Outcome, error) {
+	if registerDue.IsZero() {
+		return inspectionDue(last, asOf, intervalMonths, !skipRecord, figs)
+	}
+	if !last.IsZero() && !lifeDay(registerDue).After(lifeDay(last)) {
+		return Outcome{}, &RangeError{Field: "next_inspection", Msg: fmt.Sprintf("next inspection due %s is not after the last inspection %s", lifeISO(lifeDay(registerDue)), lifeISO(lifeDay(last)))}
+	}
+	return dueCheck(periodicInspection, last, registerDue, asOf, intervalMonths, !skipRecord, figs)
 }
 
 // dueTexts names what a due-date check is about, for its notes and errors.
@@ -56,7 +74,9 @@ var periodicInspection = dueTexts{field: "last_inspection", intervalField: "serv
 
 // dueCheck is a check that something done periodically is current: the last date plus
 // an interval of calendar months against the as-of date (InspectionDue's definitions).
-func dueCheck(t dueTexts, last, asOf time.Time, intervalMonths int, record bool, figs *FigureBuf) (Outcome, error) {
+// registerDue, when not zero, is the register's own next due date: the earlier of it and
+// last + interval governs (InspectionDueRegister).
+func dueCheck(t dueTexts, last, registerDue, asOf time.Time, intervalMonths int, record bool, figs *FigureBuf) (Outcome, error) {
 	switch {
 	case last.IsZero():
 		return Outcome{}, &RangeError{Field: t.field, Msg: "no last " + t.short + " date"}
@@ -70,6 +90,16 @@ func dueCheck(t dueTexts, last, asOf time.Time, intervalMonths int, record bool,
 		return Outcome{}, &RangeError{Field: t.field, Msg: fmt.Sprintf("last %s %s is after the as-of date %s", t.short, lifeISO(l), lifeISO(a))}
 	}
 	next := addMonthsClamped(l, intervalMonths)
+	ruleNext, governs := next, ""
+	if !registerDue.IsZero() {
+		rd := lifeDay(registerDue)
+		if rd.Before(next) {
+			next = rd
+			governs = "; the register's next due date governs (earlier than the rules' " + lifeISO(ruleNext) + ")"
+		} else if rd.After(next) {
+			governs = "; the register's next due date " + lifeISO(rd) + " is later than the rules' interval allows: the rules' date is used, check the register"
+		}
+	}
 	since := lifeDaysBetween(l, a)
 	interval := lifeDaysBetween(l, next)
 	overdue := max(0, lifeDaysBetween(next, a))
@@ -83,26 +113,33 @@ func dueCheck(t dueTexts, last, asOf time.Time, intervalMonths int, record bool,
 		Unit:        "d",
 		Utilisation: u,
 		Verdict:     ByUtilisation,
-		Figures: figs.take([]Figure{
-			{Name: "next_due", Value: math.NaN(), Text: nextISO},
-			{Name: "days_overdue", Value: float64(overdue), Unit: "d"},
-			{Name: "days_to_due", Value: float64(toDue), Unit: "d"},
-			{Name: "days_since_last", Value: float64(since), Unit: "d"},
-			{Name: "interval_days", Value: float64(interval), Unit: "d"},
-		}),
 	}
+	figures := []Figure{
+		{Name: "next_due", Value: math.NaN(), Text: nextISO},
+		{Name: "days_overdue", Value: float64(overdue), Unit: "d"},
+		{Name: "days_to_due", Value: float64(toDue), Unit: "d"},
+		{Name: "days_since_last", Value: float64(since), Unit: "d"},
+		{Name: "interval_days", Value: float64(interval), Unit: "d"},
+	}
+	if !registerDue.IsZero() {
+		figures = append(figures, Figure{Name: "register_next_due", Value: math.NaN(), Text: lifeISO(lifeDay(registerDue))})
+	}
+	o.Figures = figs.take(figures)
 	if record {
 		o.Steps = []Step{
-			{Symbol: "next due", Formula: "last + interval (calendar months)", Numbers: fmt.Sprintf("%s + %d months = %s", lifeISO(l), intervalMonths, lifeISO(next)), Value: math.NaN(), Unit: "date"},
+			{Symbol: "next due", Formula: "last + interval (calendar months)", Numbers: fmt.Sprintf("%s + %d months = %s", lifeISO(l), intervalMonths, lifeISO(ruleNext)), Value: math.NaN(), Unit: "date"},
 			{Symbol: "days since", Formula: "as-of − last", Numbers: fmt.Sprintf("%s − %s", lifeISO(a), lifeISO(l)), Value: float64(since), Unit: "d"},
 			{Symbol: "interval", Formula: "next due − last", Numbers: fmt.Sprintf("%s − %s", lifeISO(next), lifeISO(l)), Value: float64(interval), Unit: "d"},
 			{Symbol: "u", Formula: "days since / interval", Numbers: fmt.Sprintf("%d / %d", since, interval), Value: u, Unit: "1"},
 		}
 	}
+	if governs != "" && record && next != ruleNext {
+		o.Steps = append(o.Steps[:1], append([]Step{{Symbol: "next due", Formula: "the register's next due date, earlier", Numbers: lifeISO(next), Value: math.NaN(), Unit: "date"}}, o.Steps[1:]...)...)
+	}
 	if overdue > 0 {
-		o.Note = t.what + " overdue by " + strconv.Itoa(overdue) + " days (due " + nextISO + ")"
+		o.Note = t.what + " overdue by " + strconv.Itoa(overdue) + " days (due " + nextISO + ")" + governs
 	} else {
-		o.Note = "next " + t.what + " due " + nextISO
+		o.Note = "next " + t.what + " due " + nextISO + governs
 	}
 	return o, nil
 }

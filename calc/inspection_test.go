@@ -238,3 +238,36 @@ func TestComponentRating(t *testing.T) {
 		t.Error("no Component WLL: want a range error")
 	}
 }
+
+// TestInspectionDueRegister: the register's own next due date governs when it is earlier
+// than the rules' (a six-monthly schedule against a 12-month rule), never when it is
+// later. Dates counted by hand on the Gregorian calendar: last 2026-03-01; the rules'
+// 12 months give 2027-03-01; a register date of 2026-09-01 is 184 days after the last
+// (Mar 31 + Apr 30 + May 31 + Jun 30 + Jul 31 + Aug 31 = 184), and as of 2026-12-01 the
+// inspection is 91 days overdue (Sep 30 + Oct 31 + Nov 30), 275 days after the last.
+func TestInspectionDueRegister(t *testing.T) {
+	last, asOf := date(2026, 3, 1), date(2026, 12, 1)
+	o, err := calc.InspectionDueRegister(last, date(2026, 9, 1), asOf, 12, false, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if o.Demand != 275 || o.Capacity != 184 || o.Figure("days_overdue") != 91 || !(o.Utilisation > 1) {
+		t.Errorf("register earlier: demand %g capacity %g overdue %g u %g, want 275, 184, 91, > 1", o.Demand, o.Capacity, o.Figure("days_overdue"), o.Utilisation)
+	}
+	if !strings.Contains(o.Note, "register's next due date governs") || !strings.Contains(o.Note, "2027-03-01") {
+		t.Errorf("note %q does not say the register's date governs over 2027-03-01", o.Note)
+	}
+	// A later register date is not used: the rules' 12 months stand (as of 2026-12-01:
+	// 275 of 365 days).
+	later, err := calc.InspectionDueRegister(last, date(2027, 6, 1), asOf, 12, true, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain, _ := calc.InspectionDue(last, asOf, 12)
+	if later.Demand != plain.Demand || later.Capacity != plain.Capacity || !strings.Contains(later.Note, "later than the rules' interval allows") {
+		t.Errorf("register later: %g/%g %q, want the rules' %g/%g and a note", later.Demand, later.Capacity, later.Note, plain.Demand, plain.Capacity)
+	}
+	if _, err := calc.InspectionDueRegister(last, date(2026, 2, 1), asOf, 12, true, nil); err == nil {
+		t.Error("a next due date before the last inspection was accepted")
+	}
+}

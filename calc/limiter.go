@@ -67,7 +67,7 @@ func OverloadLimiter(in LimiterInput) (Outcome, error) {
 		}
 		return o, nil
 	}
-	o, err := dueCheck(limiterTest, in.LastTest, in.AsOf, in.IntervalMonths, !in.SkipRecord, nil)
+	o, err := dueCheck(limiterTest, in.LastTest, time.Time{}, in.AsOf, in.IntervalMonths, !in.SkipRecord, nil)
 	if err != nil {
 		return Outcome{}, err
 	}

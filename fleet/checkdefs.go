@@ -388,7 +388,7 @@ func checkDefinitions() []Definition {
 				}
 				return say("examine now: periodic inspection " + num3(in.fig("days_overdue")) + " days overdue")
 			},
-			Needs: []string{"last_inspection"}, Uses: []string{"service"},
+			Needs: []string{"last_inspection"}, Uses: []string{"service", "next_inspection"},
 			Rules:     []string{"inspection.interval_months"},
 			Reference: []string{"TestInspectionDueCalendar"},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -399,6 +399,12 @@ func checkDefinitions() []Definition {
 				last := d.a.Get("last_inspection").Date
 				asOf := d.c.opts.AsOf
 				interval := int(math.Round(months))
+				if due := d.a.Get("next_inspection").Date; !due.IsZero() {
+					skip := !d.c.opts.Record
+					return func(h calc.Hoist) (calc.Outcome, error) {
+						return calc.InspectionDueRegister(last, due, asOf, interval, skip, h.Figs)
+					}, d.usedRows(r), nil
+				}
 				if d.c.opts.Record {
 					return func(calc.Hoist) (calc.Outcome, error) {
 						return calc.InspectionDue(last, asOf, interval)

@@ -9,6 +9,7 @@ import (
 	"slices"
 	"strings"
 	"testing"
+	"time"
 
 	"hoistfleet/fleet/rules"
 )
@@ -219,5 +220,22 @@ func TestOverloadLimiterPaths(t *testing.T) {
 		if cr.Status != tc.want || !strings.Contains(cr.Message, tc.message) {
 			t.Errorf("%s: %s %q, want %s with %q", tc.name, cr.Status, cr.Message, tc.want, tc.message)
 		}
+	}
+}
+
+// TestNextInspectionColumnGoverns: a register keeping six-monthly examinations (its own
+// Next inspection due column) makes a hoist overdue that the rules' 12 months would pass
+// (the silent misread of issue 14). Winch A: last inspection 2026-03-01, as of
+// 2026-06-01; register due 2026-05-01 → 31 days overdue (May has 31 days).
+func TestNextInspectionColumnGoverns(t *testing.T) {
+	c := isoChecker(t)
+	plain := mustCheck(t, c.Check(winchA(t).asset()), "inspection-due")
+	if plain.Status != StatusPass {
+		t.Fatalf("without the column: %s, want pass", plain.Status)
+	}
+	r := c.Check(winchA(t).date("next_inspection", time.Date(2026, 5, 1, 0, 0, 0, 0, time.UTC)).asset())
+	cr := mustCheck(t, r, "inspection-due")
+	if cr.Status != StatusFail || !strings.Contains(cr.Message, "overdue by 31 days") || !strings.Contains(r.Action, "31 days overdue") {
+		t.Errorf("with the register's 6-monthly date: %s %q, action %q; want fail, 31 days overdue", cr.Status, cr.Message, r.Action)
 	}
 }
