@@ -418,7 +418,18 @@ func stCheckHoisting(h Hoist) error {
 // Source: steady hoisting power P = m g v / η (standards.md, textbook identity);
 // design.md "Exact definitions".
 func MotorPower(h Hoist) (Outcome, error) {
-	if err := stCheckHoisting(h); err != nil {
+	// The power needs the load, the reeving, the drum's radii and the gear efficiency;
+	// not the gear ratio, which the power does not depend on.
+	if err := stCheckLoad(h); err != nil {
+		return Outcome{}, err
+	}
+	if err := h.CheckReeving(); err != nil {
+		return Outcome{}, err
+	}
+	if err := stCheckDrum(h); err != nil {
+		return Outcome{}, err
+	}
+	if err := stEfficiency("gear_efficiency", "gear efficiency", h.GearEff); err != nil {
 		return Outcome{}, err
 	}
 	if err := stPositive("motor_power", "motor rated power", "W", h.MotorPowerW); err != nil {

@@ -707,3 +707,22 @@ func TestOutcomesConsistent(t *testing.T) {
 		}
 	}
 }
+
+// TestMotorPowerWithoutGearRatio: the steady hoisting power P = W v / η_h (textbook) does
+// not depend on the gear ratio, so a register without one still gets the power check, with
+// the same numbers.
+func TestMotorPowerWithoutGearRatio(t *testing.T) {
+	h := hoistA()
+	want, err := calc.MotorPower(h)
+	if err != nil {
+		t.Fatal(err)
+	}
+	h.GearRatio = 0
+	got, err := calc.MotorPower(h)
+	if err != nil {
+		t.Fatalf("without a gear ratio: %v", err)
+	}
+	if got.Demand != want.Demand || got.Utilisation != want.Utilisation {
+		t.Errorf("without a gear ratio: demand %g u %g, want %g %g", got.Demand, got.Utilisation, want.Demand, want.Utilisation)
+	}
+}

@@ -271,7 +271,7 @@ func checkDefinitions() []Definition {
 			prepare:   noRule(calc.MotorTorque)},
 		{ID: "motor-power", Kind: Mechanical, LoadDependent: true, Linear: true, NeedsOuterLayer: true,
 			advise: overLimit("steady motor power", "fit a motor rated at least", "kW", 1000),
-			Needs:  join(loadNeeds, []string{"hoist_speed", "motor_power"}), Uses: driveUses,
+			Needs:  join(loadNeeds, []string{"hoist_speed", "motor_power", "drum_diameter"}), Uses: driveUses,
 			Rule: "steady hoisting power ≤ rated motor power P", Source: "motor rating from the register; P = m g v / η (textbook identity)",
 			Reference: []string{"TestMotorPower"},
 			prepare:   noRule(calc.MotorPower)},

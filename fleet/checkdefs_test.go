@@ -239,3 +239,21 @@ func TestNextInspectionColumnGoverns(t *testing.T) {
 		t.Errorf("with the register's 6-monthly date: %s %q, action %q; want fail, 31 days overdue", cr.Status, cr.Message, r.Action)
 	}
 }
+
+// TestMissingDataIsUncheckedNotError: a column left blank (n/a) makes the checks that
+// need it unchecked, naming it, never an error with a calculation's internal message.
+func TestMissingDataIsUncheckedNotError(t *testing.T) {
+	c := isoChecker(t)
+	for _, key := range []string{"gear_ratio", "drum_diameter"} {
+		r := c.Check(winchA(t).drop(key).asset())
+		for _, cr := range r.Checks {
+			if cr.Status == StatusError {
+				t.Errorf("%s blank: %s is an error: %s", key, cr.ID, cr.Message)
+			}
+		}
+	}
+	mp := mustCheck(t, c.Check(winchA(t).drop("gear_ratio").asset()), "motor-power")
+	if mp.Status != StatusPass {
+		t.Errorf("gear ratio blank: motor-power %s %q, want it checked (the power does not need the ratio)", mp.Status, mp.Message)
+	}
+}
