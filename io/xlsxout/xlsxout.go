@@ -277,7 +277,7 @@ func (w *Writer) beginRegister() error {
 	w.reg = sw
 	sw.startRow(1, 45)
 	for i, c := range w.h.Columns {
-		sw.str(i+1, c.Title, w.st.hdrIn)
+		sw.str(i+1, inputHeader(c), w.st.hdrIn)
 	}
 	for i, hd := range res {
 		sw.str(w.nIn+i+1, hd, w.st.hdrOut)
@@ -706,4 +706,14 @@ func (w *Writer) Abort() {
 	if w.err == nil {
 		w.err = fmt.Errorf("xlsxout: aborted")
 	}
+}
+
+// inputHeader is a register column's header as the Register sheet shows it: as written,
+// with the unit added in brackets when the register gave it elsewhere (a units row under
+// the header), so that no value in the sheet stands without its unit.
+func inputHeader(c fleet.Column) string {
+	if c.Unit == "" || c.Unit == "1" || strings.Contains(c.Title, "["+c.Unit+"]") || strings.Contains(c.Title, "("+c.Unit+")") {
+		return c.Title
+	}
+	return c.Title + " [" + c.Unit + "]"
 }
