@@ -480,7 +480,7 @@ func checkDefinitions() []Definition {
 				if !d.isMissing("limiter_fitted") {
 					return true, ""
 				}
-				if from, _, ok, err := d.limiterRequiredFrom(); err == nil && ok && d.h.RatedLoadKg >= from {
+				if from, _, ok, err := d.peekRule("limiter.required_from"); err == nil && ok && d.h.RatedLoadKg >= from {
 					return true, ""
 				}
 				return false, "the rules in force require no overload limiter at this rated load, and the register does not say whether one is fitted"
@@ -501,17 +501,6 @@ func checkDefinitions() []Definition {
 			Reference: []string{"TestComponentRating"},
 			prepare:   noRule(calc.ComponentRating)},
 	}
-}
-
-// limiterRequiredFrom is the rated load from which the rules require an overload limiter.
-func (d *hoistData) limiterRequiredFrom() (kg float64, row int, ok bool, err error) {
-	t := d.c.opts.Rules
-	i := t.LookupIndex("limiter.required_from", d.scope)
-	if i < 0 {
-		return math.NaN(), -1, false, nil
-	}
-	v, err := t.ValueAt(i)
-	return v, i, err == nil, err
 }
 
 func prepareOverloadLimiter(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {

@@ -103,15 +103,23 @@ func (d *hoistData) lookupRule(id string) int {
 // optionalRule looks up a rule that the rules in force may leave out: its value and
 // row, or ok false (and no error) when no row applies.
 func (d *hoistData) optionalRule(id string) (v float64, row int, ok bool, err error) {
+	v, row, ok, err = d.peekRule(id)
+	if ok {
+		d.rules = append(d.rules, row)
+	}
+	return v, row, ok, err
+}
+
+// peekRule is optionalRule without recording the use (a check deciding whether it
+// applies at all).
+func (d *hoistData) peekRule(id string) (v float64, row int, ok bool, err error) {
 	i := d.lookupRule(id)
 	if i < 0 {
 		return 0, -1, false, nil
 	}
-	v, err = d.c.opts.Rules.ValueAt(i)
-	if err != nil {
+	if v, err = d.c.opts.Rules.ValueAt(i); err != nil {
 		return 0, -1, false, err
 	}
-	d.rules = append(d.rules, i)
 	return v, i, true, nil
 }
 

@@ -174,6 +174,15 @@ func (in *input) sha256() string { return hex.EncodeToString(in.hash.Sum(nil)) }
 
 // openRegister opens a register file read-only ("-" is standard input, CSV). XLSX is
 // told from CSV by the zip signature, not the name.
+// open opens the register name with the configuration's sheet and reading options.
+func (c *checkConfig) open(name string, st Streams) (*input, error) {
+	opt, err := c.readOptions()
+	if err != nil {
+		return nil, err
+	}
+	return openRegister(name, c.sheet, opt, st)
+}
+
 func openRegister(name, sheet string, opt register.Options, st Streams) (*input, error) {
 	in := &input{hash: sha256.New()}
 	var r io.Reader
@@ -459,11 +468,7 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 	if err != nil {
 		return nil, err
 	}
-	opt, err := c.cfg.readOptions()
-	if err != nil {
-		return nil, err
-	}
-	in, err := openRegister(c.register, c.cfg.sheet, opt, st)
+	in, err := c.cfg.open(c.register, st)
 	if err != nil {
 		return nil, err
 	}

@@ -27,11 +27,7 @@ func runColumns(ctx context.Context, args []string, st Streams) error {
 	if format != "text" && format != "json" {
 		return usagef("--format %q: want text or json", format)
 	}
-	opt, err := cfg.readOptions()
-	if err != nil {
-		return err
-	}
-	in, err := openRegister(fs.Arg(0), cfg.sheet, opt, st)
+	in, err := cfg.open(fs.Arg(0), st)
 	if err != nil {
 		return err
 	}

@@ -62,11 +62,7 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	if err != nil {
 		return err
 	}
-	opt, err := cfg.readOptions()
-	if err != nil {
-		return err
-	}
-	in, err := openRegister(fs.Arg(0), cfg.sheet, opt, st)
+	in, err := cfg.open(fs.Arg(0), st)
 	if err != nil {
 		return err
 	}

@@ -273,15 +273,11 @@ type dateNotes struct {
 	order            DateOrder // --date-order, "" to infer
 	dmyAt, mdyAt     fleet.CellRef
 	dmyText, mdyText string
-	twoDigit         int
-	twoDigitAt       fleet.CellRef
-	monthOnly        int
-	monthOnlyAt      fleet.CellRef
-	serial           int
-	serialAt         fleet.CellRef
-	textDates        int // dates read from text other than ISO 8601
-	textAt           fleet.CellRef
-	lookedAhead      bool // the reader has looked ahead for evidence once (rows later come by anyway)
+	twoDigit         counted // two-digit years
+	monthOnly        counted // dates without a day
+	serial           counted // spreadsheet date serials in a CSV file
+	textDates        counted // dates read from text other than ISO 8601
+	lookedAhead      bool    // the reader has looked ahead for evidence once (rows later come by anyway)
 }
 
 // inferred is the column's order: the option, else the one its evidence shows.
@@ -328,29 +324,28 @@ func (s *colSpec) fillTextDate(text string, d dialect, ref fleet.CellRef) (time.
 		}
 		return time.Time{}, msg
 	}
-	if n.textDates == 0 {
-		n.textAt = ref
-	}
-	n.textDates++
-	if td.twoDigit {
-		if n.twoDigit == 0 {
-			n.twoDigitAt = ref
-		}
-		n.twoDigit++
-	}
-	if td.monthOnly {
-		if n.monthOnly == 0 {
-			n.monthOnlyAt = ref
-		}
-		n.monthOnly++
-	}
-	if td.serial {
-		if n.serial == 0 {
-			n.serialAt = ref
-		}
-		n.serial++
-	}
+	n.textDates.add(true, ref)
+	n.twoDigit.add(td.twoDigit, ref)
+	n.monthOnly.add(td.monthOnly, ref)
+	n.serial.add(td.serial, ref)
 	return td.t, ""
+}
+
+// counted is how many cells of a column had something to say once, and where the first was.
+type counted struct {
+	n     int
+	first fleet.CellRef
+}
+
+// add counts the cell at ref when it has the reading.
+func (c *counted) add(has bool, ref fleet.CellRef) {
+	if !has {
+		return
+	}
+	if c.n == 0 {
+		c.first = ref
+	}
+	c.n++
 }
 
 // textDateOr is a date cell parseDate refused with msg, read as text in another layout
@@ -370,7 +365,7 @@ func (s *colSpec) textDateOr(text string, d dialect, ref fleet.CellRef, msg stri
 func (s *colSpec) dateNoteList() []string {
 	n := &s.dates
 	var out []string
-	if n.textDates > 0 {
+	if n.textDates.n > 0 {
 		switch {
 		case n.order != DateOrderAuto:
 			out = append(out, fmt.Sprintf("dates written with numbers read in the order %s (--date-order)", n.order))
@@ -380,14 +375,14 @@ func (s *colSpec) dateNoteList() []string {
 			out = append(out, fmt.Sprintf("dates read with the month first, as the column's own dates show (%q at %s)", n.mdyText, n.mdyAt))
 		}
 	}
-	if n.twoDigit > 0 {
-		out = append(out, fmt.Sprintf("%d two-digit years (first at %s) read as spreadsheet programs read them: 00–29 as 2000–2029, 30–99 as 1930–1999", n.twoDigit, n.twoDigitAt))
+	if n.twoDigit.n > 0 {
+		out = append(out, fmt.Sprintf("%d two-digit years (first at %s) read as spreadsheet programs read them: 00–29 as 2000–2029, 30–99 as 1930–1999", n.twoDigit.n, n.twoDigit.first))
 	}
-	if n.monthOnly > 0 {
-		out = append(out, fmt.Sprintf("%d dates without a day (first at %s) read as the first of the month, the stricter reading for a date something was last done", n.monthOnly, n.monthOnlyAt))
+	if n.monthOnly.n > 0 {
+		out = append(out, fmt.Sprintf("%d dates without a day (first at %s) read as the first of the month, the stricter reading for a date something was last done", n.monthOnly.n, n.monthOnly.first))
 	}
-	if n.serial > 0 {
-		out = append(out, fmt.Sprintf("%d whole numbers (first at %s) read as spreadsheet date serials (1900 date system)", n.serial, n.serialAt))
+	if n.serial.n > 0 {
+		out = append(out, fmt.Sprintf("%d whole numbers (first at %s) read as spreadsheet date serials (1900 date system)", n.serial.n, n.serial.first))
 	}
 	return out
 }
