@@ -219,6 +219,9 @@ func (c *Checker) Check(a *Asset) *Result {
 		r.spare = e
 		r.Proposed = &r.spare
 	}
+	if len(d.gaps) > 0 {
+		r.Gaps = slices.Clone(d.gaps)
+	}
 	r.Messages = append(r.Messages, d.messages...)
 	r.DefaultsUsed = d.defaults
 	r.Derived = d.derived
@@ -295,6 +298,15 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 	if d.h.Layers > 1 {
 		needs = s.needsLayeredAt
 	}
+	gapsFrom := len(d.gaps)
+	defer func() {
+		if p.run != nil || p.status != StatusUnchecked {
+			d.gaps = d.gaps[:gapsFrom] // the check runs, or fails on a bad value
+		} else if len(d.gaps) == gapsFrom+1 {
+			d.gaps[gapsFrom].Alone = true
+		}
+	}()
+	d.noteGaps(s, needs)
 	for _, i := range s.usesAt {
 		if e := d.bad[i]; e != nil {
 			p.status, p.message = badStatus(e), e.Error()
@@ -321,6 +333,9 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 		var fe *Error
 		if errors.As(err, &fe) && fe.Kind == Missing {
 			p.status, p.message = StatusUnchecked, fe.Err.Error()
+			if _, ok := c.keys.lookup(fe.Field); ok && len(d.gaps) == gapsFrom {
+				d.gaps = append(d.gaps, Gap{Key: fe.Field, Check: s.ID})
+			}
 		} else {
 			p.status, p.message = StatusUnchecked, err.Error()
 		}
@@ -336,6 +351,43 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 		c.prepareReview(d, s, &p)
 	}
 	return p
+}
+
+// noteGaps notes the columns check s lacks on this hoist: the needed ones that are blank
+// and the needed or used ones given without a unit (each unchecks the check). A column
+// that is unreadable for another reason makes the check an error, not a gap: then none
+// is noted.
+func (d *hoistData) noteGaps(s *checkSpec, needs []int) {
+	from := len(d.gaps)
+	add := func(i int, unitless bool) {
+		key := d.c.columns[i].Key
+		for _, g := range d.gaps[from:] {
+			if g.Key == key {
+				return
+			}
+		}
+		d.gaps = append(d.gaps, Gap{Key: key, Check: s.ID, Unitless: unitless})
+	}
+	for _, i := range s.usesAt {
+		if e := d.bad[i]; e != nil {
+			if e.Kind != Unitless {
+				d.gaps = d.gaps[:from]
+				return
+			}
+			add(i, true)
+		}
+	}
+	for _, i := range needs {
+		switch e := d.bad[i]; {
+		case e != nil && e.Kind != Unitless:
+			d.gaps = d.gaps[:from]
+			return
+		case e != nil:
+			add(i, true)
+		case d.missing[i]:
+			add(i, false)
+		}
+	}
 }
 
 // prepareReview readies the review of a check whose rules have review rows (provenance
@@ -478,6 +530,12 @@ func (c *Checker) evaluate(d *hoistData, h calc.Hoist, prepared []preparedCheck,
 				strconv.FormatFloat(d.h.RatedLoadKg, 'f', 1, 64) + " kg and the register gives no Component WLL: hook, block, trolley and structure must be rated for it"
 		}
 		e.Checks = append(e.Checks, cr)
+		if p.run != nil || p.status != StatusInfo { // not "not applicable"
+			e.Coverage.Possible++
+			if p.run != nil && cr.Status != StatusError && cr.Status != StatusUnchecked {
+				e.Coverage.Run++
+			}
+		}
 		if cr.Status.Worse(e.Status) && !(p.spec.Optional && cr.Status == StatusUnchecked) {
 			e.Status = cr.Status
 		}

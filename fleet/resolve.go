@@ -65,6 +65,7 @@ type hoistData struct {
 	defaults []string
 	derived  []string
 	messages []string
+	gaps     []Gap // the columns the checks lack (Result.Gaps)
 	rules    []int // rows of the rule table used (indices into Rules.Rules, for the audit counts)
 	rowBuf   []int // the rows one check's prepare used, read before the next check's prepare
 	// closedLimit is handed from a check's prepare to its preparedCheck: the limiting

@@ -50,10 +50,12 @@ const RatedLoadCap = "rated-load-cap"
 // Evaluation is the set of checks of one hoist at one rated load, with its verdict.
 type Evaluation struct {
 	RatedLoadKg float64
-	Status      Status
-	WorstCheck  string  // the check with the smallest margin
-	MinMargin   float64 // over pass / marginal / fail checks, NaN when none
-	Checks      []CheckResult
+	// Coverage is how many of the hoist's checks its data let run.
+	Coverage   Coverage
+	Status     Status
+	WorstCheck string  // the check with the smallest margin
+	MinMargin  float64 // over pass / marginal / fail checks, NaN when none
+	Checks     []CheckResult
 	// Action is what to do, in plain words with the numbers ("Derate to 10.4 t, or fit
 	// holding brakes of at least 452 N m"); "" when the hoist passes.
 	Action string
@@ -64,6 +66,9 @@ type Result struct {
 	Asset *Asset
 	Evaluation
 	Rating
+	// Gaps are the columns the hoist lacks that its checks need, one per column and
+	// check, in check order (nil when it lacks none).
+	Gaps         []Gap
 	Messages     []string // located problems and notes, in the order found
 	DefaultsUsed []string // e.g. "hook block mass 0 kg"
 	Derived      []string // values derived rather than given, e.g. "duty group M5 derived from T5 L2"
@@ -90,4 +95,25 @@ func (e *Evaluation) Check(id string) *CheckResult {
 		}
 	}
 	return nil
+}
+
+// Coverage is how many of a hoist's checks could be run on its data (issue 14: a sparse
+// register's verdict rests on few checks, and every output says how few).
+type Coverage struct {
+	// Run counts the checks evaluated: pass, marginal, fail, or an information result.
+	Run int `json:"run"`
+	// Possible counts the checks that apply to the hoist: all but "not applicable".
+	Possible int `json:"possible"`
+}
+
+// Gap is one register column a hoist lacks (blank, or given without a unit) that one of
+// its checks needs: the check is unchecked for want of it.
+type Gap struct {
+	Key   string // the schema column
+	Check string // the check it would let run
+	// Alone is set when this is the only column the check lacks: filling it in runs
+	// the check.
+	Alone bool
+	// Unitless is set when the column is in the register but gives no unit.
+	Unitless bool
 }

@@ -44,6 +44,6 @@ func (d *hoistData) reset(c *Checker, a *Asset) {
 	clear(d.scope.Nums)
 	d.scope.Group = 0 // resolveDuty looks rules up before the group is known
 	*d = hoistData{a: a, c: c, missing: d.missing, bad: d.bad, scope: d.scope,
-		messages: d.messages[:0], rules: d.rules[:0], rowBuf: d.rowBuf[:0],
+		messages: d.messages[:0], gaps: d.gaps[:0], rules: d.rules[:0], rowBuf: d.rowBuf[:0],
 		reviewRows: d.reviewRows[:0]}
 }

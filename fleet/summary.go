@@ -39,6 +39,9 @@ type Summary struct {
 	// short rows), "asset: message"; ProblemCount counts them all.
 	Problems     []string
 	ProblemCount int
+	// Coverage is what the verdict rests on: checks run of checks possible, and the
+	// columns that would let more run.
+	Coverage FleetCoverage
 
 	siteIndex  map[string]int
 	checkIndex map[string]int
@@ -151,6 +154,7 @@ func (s *Summary) Add(r *Result) {
 			}
 		}
 	}
+	s.Coverage.add(r)
 	if r.GoverningCheck != "" {
 		s.Governing[r.GoverningCheck]++
 	}

@@ -15,7 +15,8 @@
 // "mechanism_capacity_kg" (the smallest limit over the mechanism's load-dependent checks:
 // what the mechanism would allow, which max_rated_load_kg never exceeds without a
 // Component WLL; design.md Revision 2), "derived", "hidden" (true when the register row
-// is hidden or filtered out: design.md Revision 2), and on
+// is hidden or filtered out: design.md Revision 2), "coverage" ({"run": k, "possible": n}:
+// the checks the hoist's data let run of those that apply; design.md Revision 2), and on
 // each check "margin", "message", "required_capacity" (what a failing load-dependent
 // check would need to pass, in the unit of its capacity; null otherwise) and "review"
 // ({utilisation, rule, source} where a review limit applies: design.md Revision 2;
@@ -201,6 +202,11 @@ func (e *encoder) appendHoist(b []byte, r *fleet.Result) []byte {
 	} else {
 		b = append(b, `,"hidden":false`...)
 	}
+	b = append(b, `,"coverage":{"run":`...)
+	b = strconv.AppendInt(b, int64(r.Coverage.Run), 10)
+	b = append(b, `,"possible":`...)
+	b = strconv.AppendInt(b, int64(r.Coverage.Possible), 10)
+	b = append(b, '}')
 	if p := r.Proposed; p != nil {
 		b = append(b, `,"proposed":{"rated_load_kg":`...)
 		b = e.nums.appendNumber(b, p.RatedLoadKg)

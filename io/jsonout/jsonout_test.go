@@ -96,7 +96,7 @@ func TestKeyOrder(t *testing.T) {
 	lines := run(t, fixture())
 	want := []string{`"asset_id"`, `"row"`, `"status"`, `"governing_check"`, `"worst_check"`, `"min_margin"`,
 		`"max_rated_load_kg"`, `"messages"`, `"defaults_used"`, `"checks"`, `"site"`, `"rated_load_kg"`,
-		`"rating_note"`, `"derived"`, `"hidden"`, `"proposed"`}
+		`"rating_note"`, `"derived"`, `"hidden"`, `"coverage"`, `"proposed"`}
 	l := lines[1]
 	// look for the top-level keys only: strip the nested check arrays first
 	top := l
@@ -246,6 +246,7 @@ func ExampleWriter() {
 	w := New(&buf, Options{})
 	r := &fleet.Result{Asset: &fleet.Asset{Row: 2, ID: "H-07"},
 		Evaluation: fleet.Evaluation{RatedLoadKg: 1000, Status: fleet.StatusMarginal, WorstCheck: "drum-ratio", MinMargin: 0.05,
+			Coverage: fleet.Coverage{Run: 1, Possible: 1},
 			Action: "No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification",
 			Checks: []fleet.CheckResult{{ID: "drum-ratio", Status: fleet.StatusMarginal, Demand: 19, Capacity: 20, Unit: "1",
 				Utilisation: 0.95, Margin: 0.05, LimitRatedLoadKg: math.NaN(), Rule: "h1 ≥ 19 (M5)", Source: "ISO 4308-1"}}},
@@ -255,5 +256,5 @@ func ExampleWriter() {
 	_ = w.End(fleet.NewSummary(10), &fleet.RunInfo{})
 	buf.WriteTo(os.Stdout)
 	// Output:
-	// {"asset_id":"H-07","row":2,"status":"marginal","governing_check":"motor-torque","worst_check":"drum-ratio","min_margin":0.05,"max_rated_load_kg":1200.5,"action":"No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification","messages":[],"defaults_used":[],"checks":[{"id":"drum-ratio","status":"marginal","demand":19,"capacity":20,"unit":"1","utilisation":0.95,"limit_rated_load_kg":null,"rule":"h1 ≥ 19 (M5)","source":"ISO 4308-1","figures":{},"margin":0.05,"message":null,"required_capacity":null,"review":null}],"site":null,"rated_load_kg":1000,"rating_note":null,"mechanism_capacity_kg":1200.5,"derived":[],"hidden":false}
+	// {"asset_id":"H-07","row":2,"status":"marginal","governing_check":"motor-torque","worst_check":"drum-ratio","min_margin":0.05,"max_rated_load_kg":1200.5,"action":"No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification","messages":[],"defaults_used":[],"checks":[{"id":"drum-ratio","status":"marginal","demand":19,"capacity":20,"unit":"1","utilisation":0.95,"limit_rated_load_kg":null,"rule":"h1 ≥ 19 (M5)","source":"ISO 4308-1","figures":{},"margin":0.05,"message":null,"required_capacity":null,"review":null}],"site":null,"rated_load_kg":1000,"rating_note":null,"mechanism_capacity_kg":1200.5,"derived":[],"hidden":false,"coverage":{"run":1,"possible":1}}
 }

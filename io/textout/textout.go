@@ -15,10 +15,14 @@ import (
 	"text/tabwriter"
 
 	"hoistfleet/fleet"
+	"hoistfleet/fleet/schema"
 )
 
 // MaxWorst is the most hoists the worst list prints.
 const MaxWorst = 10
+
+// MaxGaps is the most missing columns the "data to collect first" list prints.
+const MaxGaps = 5
 
 // Summary writes the fleet summary s of the run info to w. info may be nil.
 func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
@@ -57,6 +61,13 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		} else {
 			p("  %s\t%d\n", st, s.ByStatus[st])
 		}
+	}
+
+	if s.Coverage.Possible > 0 {
+		if err := tw.Flush(); err != nil { // a sentence, not a table row
+			return fmt.Errorf("textout: %w", err)
+		}
+		p("%s\n", s.Coverage.Sentence())
 	}
 
 	if len(s.Sites) > 0 {
@@ -109,6 +120,21 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		}
 		if err := tw.Flush(); err != nil {
 			return fmt.Errorf("textout: %w", err)
+		}
+	}
+	if gaps := s.Coverage.Sorted(); len(gaps) > 0 {
+		p("\nData to collect first (register columns the checks lacked; the Data sheet lists them all)\n")
+		p("  column\thoists lacking it\tcheck results waiting on it\tof them on it alone\tchecks\n")
+		n := min(len(gaps), MaxGaps)
+		for _, g := range gaps[:n] {
+			name := g.Key
+			if c, ok := schema.ColumnByKey(g.Key); ok {
+				name = c.Header
+			}
+			p("  %s\t%d\t%d\t%d\t%s\n", name, g.Hoists, g.Waiting, g.Unlocks, strings.Join(g.Checks, ", "))
+		}
+		if len(gaps) > n {
+			p("  … %d more columns\n", len(gaps)-n)
 		}
 	}
 	if s.Hidden > 0 {

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"os"
+	"strings"
 	"testing"
 	"time"
 
@@ -130,4 +131,37 @@ func ExampleSummary() {
 	// Overdue inspections  0
 	//
 	// Screening calculation on the data given: it does not replace examination by a competent person.
+}
+
+// TestCoverageLines: the summary says what the verdicts rest on (checks run of those
+// that apply, worked by hand from the fixture: 3 + 1 of 4 + 4 = 4 of 8, 50 %, one hoist
+// with under half run) and lists the columns to collect, the one that alone lets the most
+// checks run first.
+func TestCoverageLines(t *testing.T) {
+	s := fleet.NewSummary(10)
+	a := res(2, "H-01", "North", fleet.StatusPass, 0.4, 1000, "")
+	a.Coverage = fleet.Coverage{Run: 3, Possible: 4}
+	a.Gaps = []fleet.Gap{{Key: "operating_hours", Check: "design-life", Alone: true}}
+	b := res(3, "H-02", "North", fleet.StatusUnchecked, math.NaN(), math.NaN(), "")
+	b.Coverage = fleet.Coverage{Run: 1, Possible: 4}
+	b.Gaps = []fleet.Gap{{Key: "rope_mbf", Check: "rope-design-factor", Alone: true}, {Key: "rope_mbf", Check: "brake-stop", Alone: true},
+		{Key: "drum_diameter", Check: "drum-ratio"}}
+	s.Add(a)
+	s.Add(b)
+	var buf bytes.Buffer
+	if err := Summary(&buf, s, nil); err != nil {
+		t.Fatal(err)
+	}
+	out := buf.String()
+	for _, want := range []string{
+		"The verdicts rest on 4 of the 8 checks that apply (50 %); 1 hoist had fewer than half of its checks run.\n",
+		"  column           hoists lacking it  check results waiting on it  of them on it alone  checks\n" +
+			"  Rope MBF         1                  2                            2                    rope-design-factor, brake-stop\n" +
+			"  Operating hours  1                  1                            1                    design-life\n" +
+			"  Drum diameter    1                  1                            0                    drum-ratio\n",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("summary lacks\n%s\ngot\n%s", want, out)
+		}
+	}
 }

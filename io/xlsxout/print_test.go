@@ -19,7 +19,7 @@ func TestPrintSetup(t *testing.T) {
 			info := runInfo()
 			info.Input = "site & yard.xlsx"
 			b := writeNew(t, header("t", 1000), info, fixture(), Options{Paper: tc.paper}, 0)
-			for _, sheet := range []string{SheetSummary, SheetRegister, SheetChecks, SheetAudit} {
+			for _, sheet := range []string{SheetSummary, SheetRegister, SheetChecks, SheetData, SheetAudit} {
 				x := sheetXML(t, b, sheet)
 				ps := regexp.MustCompile(`<pageSetup [^>]*>`).FindString(x)
 				if !strings.Contains(ps, `paperSize="`+tc.code+`"`) {

@@ -199,6 +199,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	sw.str(1, 3, fleet.Caution, st.caution)
 	sw.merge(1, 3, tableCols, 3)
 	sw.height(3, 48)
+	sw.str(1, 4, s.Coverage.Sentence()+" What would let more run: the Data sheet.", st.subtitle)
 
 	// Status tiles: label, count, share.
 	r := 5

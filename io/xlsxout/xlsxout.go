@@ -7,11 +7,13 @@
 //     re-rating changes and the status legend.
 //   - Register: every column and row of the register exactly as given, then the results:
 //     Status, Action, Governing check, Max rated load [the register's rated-load unit], Min margin,
-//     Worst check, Messages, Defaults used, a link to the hoist's first row in Checks, and
-//     per check (fleet.CheckIDs) its status and utilisation; with a proposed rated load
+//     Worst check, Messages, Defaults used, a link to the hoist's first row in Checks,
+//     Checks run ("3 of 18": the checks its data let run of those that apply), and per check (fleet.CheckIDs) its status and utilisation; with a proposed rated load
 //     also Proposed status, Verdict changes and Proposed action. Status cells are filled with Palette,
 //     the header is frozen and the sheet has an auto-filter.
 //   - Checks: long form, one row per hoist, load case and check, for pivot tables.
+//   - Data: data completeness — what the verdicts rest on, and per register column the
+//     hoists lack, how many lack it and which checks it would let run, most useful first.
 //   - Audit: the cautions first, then the run (tool, version, command, input and its
 //     SHA-256, as-of date, times, rules, marginal band, workers, rows) and every rule in
 //     force with its value, groups, condition, source, provenance, origin and uses.
@@ -217,7 +219,7 @@ func ratedUnit(h *fleet.Header) (string, float64) {
 // registerResultHeaders are the Register's result columns, after the register's own.
 func (w *Writer) registerResultHeaders() []string {
 	hs := []string{"Status", "Action", "Governing check", "Max rated load [" + w.unit + "]", "Min margin", "Worst check",
-		"Messages", "Defaults used", "Checks"}
+		"Messages", "Defaults used", "Checks", "Checks run"}
 	for _, id := range fleet.CheckIDs {
 		hs = append(hs, id+" status", id+" utilisation")
 	}
@@ -231,7 +233,7 @@ func (w *Writer) registerResultHeaders() []string {
 // their header.
 var keyWidths = map[string]float64{"asset_id": 14, "site": 18, "location": 18, "description": 30}
 
-var resultWidths = []float64{11, 50, 20, 14, 10, 20, 40, 30, 10}
+var resultWidths = []float64{11, 50, 20, 14, 10, 20, 40, 30, 10, 11}
 
 func (w *Writer) beginRegister() error {
 	w.nIn = len(w.h.Columns)
@@ -463,7 +465,10 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 	if firstCheck > 0 {
 		sw.formula(col+9, `HYPERLINK("#'`+w.chkSheet+`'!A`+strconv.Itoa(firstCheck)+`","details")`, "details", st.link)
 	}
-	col += 9
+	if r.Coverage.Possible > 0 {
+		sw.str(col+10, strconv.Itoa(r.Coverage.Run)+" of "+strconv.Itoa(r.Coverage.Possible), 0)
+	}
+	col += 10
 	for _, id := range fleet.CheckIDs {
 		if c := r.Check(id); c != nil {
 			ci := statusIndex(c.Status)
@@ -621,14 +626,19 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if err := w.finishChecks(); err != nil {
 		return err
 	}
-	if _, err := f.NewSheet(SheetAudit); err != nil { // after every Checks sheet
-		return w.fail("sheet %s: %w", SheetAudit, err)
+	for _, sheet := range []string{SheetData, SheetAudit} { // after every Checks sheet
+		if _, err := f.NewSheet(sheet); err != nil {
+			return w.fail("sheet %s: %w", sheet, err)
+		}
 	}
 	if err := w.setPrintTitles(); err != nil {
 		return w.fail("print titles: %w", err)
 	}
 	if err := w.writeSummary(s, info); err != nil {
 		return w.fail("summary: %w", err)
+	}
+	if err := w.writeData(s); err != nil {
+		return w.fail("data: %w", err)
 	}
 	if err := w.writeAudit(info); err != nil {
 		return w.fail("audit: %w", err)

@@ -8,6 +8,7 @@ import (
 	"math"
 	"regexp"
 	"strconv"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -135,7 +136,7 @@ func cellName(c, r int) string { n, _ := excelize.CoordinatesToCellName(c, r); r
 
 func TestSheets(t *testing.T) {
 	f := open(t, build(t, header("t", 1000), fixture(), Options{}))
-	if got := strings.Join(f.GetSheetList(), ","); got != "Summary,Register,Checks,Audit" {
+	if got := strings.Join(f.GetSheetList(), ","); got != "Summary,Register,Checks,Data,Audit" {
 		t.Errorf("sheets %s", got)
 	}
 	if f.GetActiveSheetIndex() != 0 {
@@ -580,5 +581,45 @@ func BenchmarkFloorStreamWrite(b *testing.B) {
 			b.Fatal(err)
 		}
 		f.Close()
+	}
+}
+
+// TestDataSheet: the Data sheet lists the columns the fleet lacks as the summary ranks
+// them, with the hoists lacking each and the checks it alone would let run, and the
+// Register says how many checks ran on each hoist.
+func TestDataSheet(t *testing.T) {
+	rs := fixture()
+	rs[0].Coverage = fleet.Coverage{Run: 3, Possible: 4}
+	rs[0].Gaps = []fleet.Gap{{Key: "rope_mbf", Check: "rope-design-factor", Alone: true}}
+	rs[1].Coverage = fleet.Coverage{Run: 1, Possible: 4}
+	rs[1].Gaps = []fleet.Gap{{Key: "operating_hours", Check: "design-life", Alone: true},
+		{Key: "rope_mbf", Check: "rope-design-factor", Alone: true}, {Key: "drum_diameter", Check: "drum-ratio", Unitless: true},
+		{Key: "rope_mbf", Check: "brake-stop"}}
+	f := open(t, build(t, header("t", 1000), rs, Options{}))
+	rows, err := f.GetRows(SheetData)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := [][]string{
+		{"Rope MBF", "kN", "2", "0", "3", "2", "rope-design-factor, brake-stop"},
+		{"Operating hours", "h", "1", "0", "1", "1", "design-life"},
+		{"Drum diameter", "mm", "1", "1", "1", "0", "drum-ratio"},
+	}
+	if len(rows) < 5+len(want) {
+		t.Fatalf("Data has %d rows: %q", len(rows), rows)
+	}
+	if !strings.Contains(rows[1][0], "4 of the 8 checks that apply (50 %); 1 hoist had fewer than half") {
+		t.Errorf("Data sentence %q", rows[1][0])
+	}
+	for i, w := range want {
+		if got := rows[5+i]; !slices.Equal(got, w) {
+			t.Errorf("Data row %d: %q, want %q", 6+i, got, w)
+		}
+	}
+	col := headerCol(t, f, SheetRegister, "Checks run")
+	for i, w := range []string{"3 of 4", "1 of 4"} {
+		if got, _ := f.GetCellValue(SheetRegister, cellName(col, 2+i)); got != w {
+			t.Errorf("Register row %d Checks run %q, want %q", 2+i, got, w)
+		}
 	}
 }
