@@ -247,7 +247,7 @@ func ExampleWriter() {
 	r := &fleet.Result{Asset: &fleet.Asset{Row: 2, ID: "H-07"},
 		Evaluation: fleet.Evaluation{RatedLoadKg: 1000, Status: fleet.StatusMarginal, WorstCheck: "drum-ratio", MinMargin: 0.05,
 			Coverage: fleet.Coverage{Run: 1, Possible: 1},
-			Action: "No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification",
+			Action:   "No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification",
 			Checks: []fleet.CheckResult{{ID: "drum-ratio", Status: fleet.StatusMarginal, Demand: 19, Capacity: 20, Unit: "1",
 				Utilisation: 0.95, Margin: 0.05, LimitRatedLoadKg: math.NaN(), Rule: "h1 ≥ 19 (M5)", Source: "ISO 4308-1"}}},
 		Rating: fleet.Rating{MaxRatedLoadKg: 1200.5, MechanismCapacityKg: 1200.5, GoverningCheck: "motor-torque"}}
