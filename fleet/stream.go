@@ -73,6 +73,7 @@ type RunInfo struct {
 	Sheet           string
 	Profile         string // rule profile
 	RulesFile       string // user rule file, "" for none
+	ColumnsFile     string // columns file (--columns), "" for none
 	Rules           []RuleUse
 	AsOf            time.Time // the run's date for inspection and age checks
 	Started         time.Time

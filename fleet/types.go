@@ -185,6 +185,12 @@ type Column struct {
 	// Factor converts the column's unit to the SI value in Value.Num (SI = cell × Factor);
 	// 1 when there is no unit. Writers use it to show results in the register's own units.
 	Factor float64
+	// UnitFrom is "columns file" when Unit came from a columns file (--columns), ""
+	// when it came from the header or a units row under it.
+	UnitFrom string
+	// Mapped is where a columns file names the column ("map.csv line 3"), "" when the
+	// header was matched by the synonyms.
+	Mapped string
 }
 
 // Header is the register's header row as read.

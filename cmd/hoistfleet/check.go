@@ -39,6 +39,7 @@ type checkConfig struct {
 	ratedLoadFactor float64
 	headerRow       int
 	dateOrder       string
+	columns         string
 }
 
 func (c *checkConfig) register(fs *pflag.FlagSet) {
@@ -48,6 +49,7 @@ func (c *checkConfig) register(fs *pflag.FlagSet) {
 	fs.StringVar(&c.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
 	fs.IntVar(&c.headerRow, "header-row", 0, "the register's header row (default: found in the first 30 rows)")
 	fs.StringVar(&c.dateOrder, "date-order", "", "dmy, mdy or ymd: the order of dates written with numbers (25/03/2026) (default: each date column's own unambiguous dates)")
+	fs.StringVar(&c.columns, "columns", "", "a columns file (CSV: register column,column,unit,date order) saying which register column is which of ours, for headers the synonyms do not cover")
 	fs.Float64Var(&c.marginal, "marginal", 0.10, "marginal band: utilisation above 1 − band and up to 1 is marginal")
 	fs.IntVar(&c.workers, "workers", 0, "checking workers, at least 1 (default the number of cores)")
 	fs.Float64Var(&c.ratedLoadFactor, "rated-load-factor", 0, "re-rate every hoist to F × its rated load and check it there too; F from 0.5 to 3 (1.25 for +25 %)")
@@ -62,7 +64,18 @@ func (c *checkConfig) readOptions() (register.Options, error) {
 	if err != nil {
 		return register.Options{}, usagef("--date-order: %v", err)
 	}
-	return register.Options{HeaderRow: c.headerRow, DateOrder: order}, nil
+	opt := register.Options{HeaderRow: c.headerRow, DateOrder: order}
+	if c.columns != "" {
+		f, err := os.Open(c.columns)
+		if err != nil {
+			return register.Options{}, usagef("--columns: %v", err)
+		}
+		defer f.Close()
+		if opt.Columns, err = register.ReadColumnMap(c.columns, f); err != nil {
+			return register.Options{}, usagef("--columns: %v", err)
+		}
+	}
+	return opt, nil
 }
 
 // loadRules builds the rule table in force from --rules values (sheet: --rules-sheet).
@@ -478,7 +491,7 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 		return nil, err
 	}
 	info := &fleet.RunInfo{Tool: "hoistfleet", Version: version, Command: "hoistfleet check " + c.register,
-		Input: c.register, Sheet: in.src.Header().Sheet, Profile: rules.Profile, RulesFile: userFiles,
+		Input: c.register, Sheet: in.src.Header().Sheet, ColumnsFile: c.cfg.columns, Profile: rules.Profile, RulesFile: userFiles,
 		AsOf: asOf, Started: time.Now(), MarginalBand: c.cfg.marginal, RatedLoadFactor: c.cfg.ratedLoadFactor,
 		Cautions: []string{fleet.Caution}}
 	sink := &hashingSink{Sink: newSink(c.format, out.w, paper), in: in, info: info}

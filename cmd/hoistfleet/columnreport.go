@@ -18,6 +18,7 @@ func runColumns(ctx context.Context, args []string, st Streams) error {
 	fs.StringVar(&cfg.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
 	fs.IntVar(&cfg.headerRow, "header-row", 0, "the register's header row (default: found in the first 30 rows)")
 	fs.StringVar(&cfg.dateOrder, "date-order", "", "dmy, mdy or ymd: the order of dates written with numbers")
+	fs.StringVar(&cfg.columns, "columns", "", "a columns file (CSV: register column,column,unit,date order) for headers the synonyms do not cover")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}

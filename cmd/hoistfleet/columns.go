@@ -10,7 +10,7 @@ import (
 // columnsHelp is "hoistfleet help columns", generated from the column schema.
 func columnsHelp() string {
 	var b strings.Builder
-	b.WriteString("hoistfleet columns REGISTER [--format text|json] [--sheet NAME] [--header-row N] [--date-order dmy|mdy|ymd]\n")
+	b.WriteString("hoistfleet columns REGISTER [--format text|json] [--sheet NAME] [--header-row N] [--date-order dmy|mdy|ymd] [--columns FILE]\n")
 	b.WriteString("prints how a register's columns are read (as which of ours, in which unit; passed through;\n")
 	b.WriteString("refused and why), which of ours it lacks with the checks each would unlock, and how its\n")
 	b.WriteString("rows were read. Below: the columns hoistfleet reads.\n\n")

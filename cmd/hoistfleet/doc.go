@@ -8,6 +8,7 @@
 //	                          [--format xlsx|csv|jsonl] [--workers N] [--sheet NAME]
 //	                          [--marginal 0.10] [--fail-on fail|marginal|never] [--quiet]
 //	                          [--rated-load-factor F] [--header-row N] [--date-order dmy|mdy|ymd]
+//	                          [--columns FILE]
 //	hoistfleet explain REGISTER --asset ID [--format text|md]   one hoist's calculation record
 //	hoistfleet explain REGISTER --all -o DIR                     every hoist's record, one file each
 //	hoistfleet columns REGISTER [--format text|json]             how the register's columns are read
@@ -58,8 +59,8 @@ var commandHelp = map[string]string{
 	"check": `hoistfleet check REGISTER [flags]
 
 Reads the register (XLSX or CSV; - reads CSV from standard input), runs every check on
-every hoist and writes the results: an XLSX workbook (Register, Checks, Summary, Audit
-sheets), or long-form CSV, or JSON lines. The input is never modified; the output is
+every hoist and writes the results: an XLSX workbook (Summary, Register, Checks, Data,
+Audit sheets), or long-form CSV, or JSON lines. The input is never modified; the output is
 written to a temporary file and renamed when complete.
 
 The header is found in the first 30 rows: the row naming the most register columns,
@@ -69,6 +70,15 @@ header gives units to the columns whose title has none. Blank rows, totals rows 
 repeated header rows are left out and noted once; blank markers (-, n/a, TBC, ?,
 unknown, none) read as empty. Hidden or filtered-out rows are checked and marked
 hidden. A file with no recognisable header, or no hoist under it, exits 3.
+
+--columns FILE says which register column is which of ours where the synonyms do not
+(another language, a client's own titles): a CSV whose first row is
+"register column,column,unit,date order", one register column a row, naming one of ours
+by key or header (or "ignore"), optionally its unit and (dates) dmy, mdy or ymd.
+
+Each hoist carries its coverage (the checks its data let run of those that apply); the
+summary says what the verdicts rest on, and the Data sheet lists the register columns
+the hoists lack, most useful first.
 
 Dates: ISO 8601 (2026-03-25), spreadsheet date cells, and dates as spreadsheets write
 them: 25/03/2026, 25.03.2026, 25-Mar-26, March 25, 2026, Mar 2026 (the first of the
@@ -83,6 +93,7 @@ Examples:
   hoistfleet check hoists.csv --rated-load-factor 1.2        re-rate every hoist by +20 %
   hoistfleet check hoists.csv --rules iso --rules insurer.csv --format jsonl -o results.jsonl
   hoistfleet check export.csv --header-row 5 --date-order dmy
+  hoistfleet check kranliste.csv --columns kranliste-columns.csv
 `,
 	"explain": `hoistfleet explain REGISTER --asset ID [flags]
 

@@ -68,7 +68,7 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	}
 	defer in.Close()
 	h := in.src.Header()
-	info := &fleet.RunInfo{Tool: "hoistfleet", Version: version, Input: fs.Arg(0), Sheet: h.Sheet,
+	info := &fleet.RunInfo{Tool: "hoistfleet", Version: version, Input: fs.Arg(0), Sheet: h.Sheet, ColumnsFile: cfg.columns,
 		Profile: rules.Profile, RulesFile: userFiles, AsOf: asOf, Started: time.Now(), MarginalBand: cfg.marginal,
 		Cautions: []string{fleet.Caution}}
 	// The record names the register by its SHA-256: a file is hashed first; standard

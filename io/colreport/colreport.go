@@ -25,7 +25,7 @@ type Column struct {
 	Key      string `json:"key,omitempty"`
 	Header   string `json:"header,omitempty"`    // our column's header
 	Unit     string `json:"unit,omitempty"`      // the unit it is read in
-	UnitFrom string `json:"unit_from,omitempty"` // "header", "units row", "none" (not read)
+	UnitFrom string `json:"unit_from,omitempty"` // "header", "units row", "columns file", "none" (not read)
 	Reason   string `json:"reason,omitempty"`    // why refused, or a note on how it is read
 }
 
@@ -69,11 +69,16 @@ func Build(h *fleet.Header) Report {
 			reasons = append(reasons, p.Err.Error())
 		}
 		switch {
+		case c.Key == "" && c.Mapped != "" && len(reasons) == 0:
+			col.Status = "passed through"
+			reasons = append(reasons, "ignored, as "+c.Mapped+" says")
 		case c.Key == "" && len(reasons) > 0:
 			col.Status = "refused"
 		case c.Key == "":
 			col.Status = "passed through"
-			col.Reason = "not a column of ours: written to the results as given"
+			if len(reasons) == 0 {
+				col.Reason = "not a column of ours: written to the results as given"
+			}
 		default:
 			present[c.Key] = true
 			sc, _ := schema.ColumnByKey(c.Key)
@@ -83,6 +88,8 @@ func Build(h *fleet.Header) Report {
 			case sc.Quantity == "" || sc.Quantity == "ratio" && c.Unit == "":
 			case c.Unit == "":
 				col.UnitFrom = "none"
+			case c.UnitFrom != "":
+				col.Unit, col.UnitFrom = c.Unit, c.UnitFrom
 			case titleUnit == "":
 				col.Unit, col.UnitFrom = c.Unit, "units row"
 			default:
@@ -95,6 +102,9 @@ func Build(h *fleet.Header) Report {
 					}
 				}
 			}
+		}
+		if c.Key != "" && c.Mapped != "" {
+			reasons = append([]string{"as " + c.Mapped + " says"}, reasons...)
 		}
 		if len(reasons) > 0 {
 			col.Reason = strings.Join(reasons, "; ")
@@ -166,6 +176,8 @@ func WriteText(w io.Writer, rep Report) error {
 				as += " [" + c.Unit + "]"
 			case "units row":
 				as += " [" + c.Unit + "] (unit from the units row)"
+			case "columns file":
+				as += " [" + c.Unit + "] (unit from the columns file)"
 			case "none":
 				as += " — NO UNIT: not read"
 			}
@@ -174,6 +186,9 @@ func WriteText(w io.Writer, rep Report) error {
 			}
 		case "passed through":
 			as = "passed through (not a column of ours)"
+			if c.Reason != "" && !strings.HasPrefix(c.Reason, "not a column of ours") {
+				as = "passed through: " + c.Reason
+			}
 		default:
 			as = "REFUSED: " + c.Reason
 			if c.Header != "" {

@@ -62,6 +62,8 @@ type colSpec struct {
 	blankAt   fleet.CellRef
 
 	dates dateNotes // a date column's order of day and month, and what it read
+	// mapDates is the date order a columns file gives the column ("" none).
+	mapDates DateOrder
 
 	noUnit    bool          // a physical quantity whose unit is written nowhere: plain numbers are not read
 	headerRow int           // the header's row, for messages

@@ -367,6 +367,8 @@ func (s *colSpec) dateNoteList() []string {
 	var out []string
 	if n.textDates.n > 0 {
 		switch {
+		case n.order != DateOrderAuto && s.mapDates != DateOrderAuto:
+			out = append(out, fmt.Sprintf("dates written with numbers read in the order %s (the columns file)", n.order))
 		case n.order != DateOrderAuto:
 			out = append(out, fmt.Sprintf("dates written with numbers read in the order %s (--date-order)", n.order))
 		case !n.dmyAt.IsZero() && n.mdyAt.IsZero():

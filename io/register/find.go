@@ -19,6 +19,9 @@ type Options struct {
 	// DateOrder is the order of day and month in dates written with numbers only
 	// (25/03/2026); "" infers it for each column from its own unambiguous dates.
 	DateOrder DateOrder
+	// Columns, when set, maps register columns the synonyms do not cover (--columns
+	// FILE); its entries win over the synonyms.
+	Columns *ColumnMap
 }
 
 // HeaderScanRows is how many rows from the top of a sheet (or CSV file) are searched for
@@ -39,7 +42,7 @@ type headerScore struct {
 const maxHeaderCells = 512
 
 // scoreHeader matches the cells of one row against the schema as buildHeader would.
-func scoreHeader(index *schemaIdx, cells []string, row int) headerScore {
+func scoreHeader(index *schemaIdx, m *ColumnMap, cells []string, row int) headerScore {
 	sc := headerScore{row: row}
 	seen := map[string]bool{}
 	if len(cells) > maxHeaderCells {
@@ -54,7 +57,7 @@ func scoreHeader(index *schemaIdx, cells []string, row int) headerScore {
 			sc.nonText++
 			continue
 		}
-		key := matchTitle(index, raw)
+		key := matchTitle(index, m, raw)
 		if key == "" || seen[key] {
 			continue
 		}
@@ -68,8 +71,12 @@ func scoreHeader(index *schemaIdx, cells []string, row int) headerScore {
 }
 
 // matchTitle is the schema key a header cell names ("" for none or several), as
-// buildHeader reads it: the title without its unit, else the whole text.
-func matchTitle(index *schemaIdx, raw string) string {
+// buildHeader reads it: the columns file's entry for it, else the title without its
+// unit, else the whole text.
+func matchTitle(index *schemaIdx, m *ColumnMap, raw string) string {
+	if e := m.lookup(raw); e != nil {
+		return e.key
+	}
 	title, _, splitErr := units.SplitHeader(raw)
 	key, ambiguous := index.match(title)
 	if key == "" && ambiguous == "" && splitErr == nil {
@@ -128,7 +135,7 @@ func (r *Reader) findHeader(file string, opt Options) error {
 			if rr.syntax != nil {
 				continue
 			}
-			sc := scoreHeader(index, rr.cells, rr.row)
+			sc := scoreHeader(index, opt.Columns, rr.cells, rr.row)
 			if sc.hasID && len(sc.keys) >= 2 && len(sc.keys) > best && sc.nonText <= len(sc.keys) {
 				best, at = len(sc.keys), i
 			}
@@ -153,11 +160,20 @@ func (r *Reader) findHeader(file string, opt Options) error {
 	if hdr.syntax != nil {
 		return fmt.Errorf("the header row cannot be read: %s", hdr.syntax.message())
 	}
+	r.colMap = opt.Columns
 	if err := r.buildHeader(file, hdr.cells, hdr.row); err != nil {
 		return err
 	}
 	for _, i := range r.dateCols {
-		r.specs[i].dates.order = opt.DateOrder
+		if s := &r.specs[i]; s.mapDates != DateOrderAuto {
+			s.dates.order = s.mapDates
+		} else {
+			s.dates.order = opt.DateOrder
+		}
+	}
+	for _, e := range opt.Columns.unused() {
+		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: fleet.CellRef{Sheet: r.sheet, Row: hdr.row},
+			Err: fmt.Errorf("%s maps %q, but no column of the header row is titled so: that entry is not used", e.where(opt.Columns.File), e.title)})
 	}
 
 	if at > 0 {
@@ -196,7 +212,7 @@ func noHeaderError(index *schemaIdx, rows []rawRow, bestAt int) error {
 	fmt.Fprintf(&b, "no header row found in rows %d to %d: looked for a row of column titles naming the asset id (%s) and at least one other column of the register (Rated load, Rope diameter, Motor power, … : 'hoistfleet help columns' lists them)",
 		first, last, idTitles(index))
 	if bestAt >= 0 {
-		sc := scoreHeader(index, rows[bestAt].cells, rows[bestAt].row)
+		sc := scoreHeader(index, nil, rows[bestAt].cells, rows[bestAt].row)
 		var names []string
 		for _, k := range sc.keys {
 			c, _ := index.col(k)
@@ -209,7 +225,7 @@ func noHeaderError(index *schemaIdx, rows []rawRow, bestAt int) error {
 	} else {
 		b.WriteString("; no row names any of them")
 	}
-	b.WriteString(". Give the header's row with --header-row N, or rename the columns")
+	b.WriteString(". Give the header's row with --header-row N, say which column is which with --columns FILE, or rename the columns")
 	return errors.New(b.String())
 }
 

@@ -95,6 +95,7 @@ type Reader struct {
 	replay     []rawRow     // rows read with the header search, after the header: returned first
 	sumRows    map[int]bool // XLSX: rows holding a formula that sums a column (totals rows)
 	hiddenCols map[int]bool // XLSX: hidden columns (1-based)
+	colMap     *ColumnMap   // --columns: what register columns are, where the file says
 	dateCols   []int        // the columns of dates (their order of day and month is looked for)
 	srcDone    bool         // the source has ended (looking ahead), with srcErr
 	srcErr     error
@@ -377,12 +378,13 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	visibleAt := map[string]int{} // key → first visible column naming it
 	if len(r.hiddenCols) > 0 {
 		for i, raw := range titles {
-			if k := matchTitle(index, raw); k != "" && !r.hiddenCols[i+1] && visibleAt[k] == 0 {
+			if k := matchTitle(index, r.colMap, raw); k != "" && !r.hiddenCols[i+1] && visibleAt[k] == 0 {
 				visibleAt[k] = i + 1
 			}
 		}
 	}
 	var numeric, nonEmpty, matched int
+	var mappedRead, mappedIgnored int // columns the columns file names
 	for i, raw := range titles {
 		ref := fleet.CellRef{Sheet: r.sheet, Row: row, Col: i + 1}
 		col := fleet.Column{Index: i, Title: raw, Factor: 1}
@@ -405,6 +407,30 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 		problem := func(k fleet.Kind, field, format string, args ...any) {
 			r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: k, Cell: ref, Field: field,
 				Err: fmt.Errorf(format, args...)})
+		}
+		mapped := r.colMap.lookup(raw)
+		if mapped != nil {
+			// The columns file says what this column is: it wins over the synonyms.
+			mapped.used = true
+			key, ambiguous = mapped.key, ""
+			where := mapped.where(r.colMap.File)
+			col.Mapped = where
+			switch {
+			case key == "":
+				mappedIgnored++
+			case mapped.unit != "" && splitErr == nil && unit != "" && !sameUnit(key, unit, mapped.unit):
+				problem(fleet.Invalid, key, "%q gives the unit %q, %s gives %q: the column is passed through unread; correct one of them", raw, unit, where, mapped.unit)
+				key = ""
+			default:
+				mappedRead++
+				if mapped.unit != "" {
+					if unit == "" || splitErr != nil {
+						col.UnitFrom = "columns file"
+					}
+					unit, splitErr = mapped.unit, nil
+				}
+				spec.mapDates = mapped.dates
+			}
 		}
 		hidden := r.hiddenCols[i+1]
 		switch {
@@ -451,6 +477,13 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	}
 	r.setupReeving()
 	rowRef := fleet.CellRef{Sheet: r.sheet, Row: row}
+	if mappedRead+mappedIgnored > 0 {
+		note := fmt.Sprintf("%s says what %d columns are", r.colMap.File, mappedRead+mappedIgnored)
+		if mappedIgnored > 0 {
+			note += fmt.Sprintf(" (%d of them passed through unread)", mappedIgnored)
+		}
+		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: rowRef, Err: errors.New(note)})
+	}
 	if nonEmpty > 0 && (2*numeric > nonEmpty || (matched == 0 && numeric > 0)) {
 		r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Invalid, Cell: rowRef,
 			Err: fmt.Errorf("the first row looks like data (%d of its %d cells are numbers or dates), not a header: the first row must hold the column titles", numeric, nonEmpty)})
@@ -517,4 +550,16 @@ func (s *colSpec) setUnit(raw, unit string, splitErr error, col *fleet.Column) {
 func isISODate(s string) bool {
 	_, msg := parseDate(s, dialect{})
 	return msg == ""
+}
+
+// sameUnit reports whether two units of our column key's quantity are one and the same
+// (a header's "[t]" and a columns file's "tonne").
+func sameUnit(key, a, b string) bool {
+	sc, ok := schemaIndex().col(key)
+	if !ok || sc.Quantity == "" {
+		return strings.EqualFold(a, b)
+	}
+	fa, errA := units.Factor(sc.Quantity, a)
+	fb, errB := units.Factor(sc.Quantity, b)
+	return errA == nil && errB == nil && fa == fb
 }

@@ -481,7 +481,7 @@ func TestCSVFileErrors(t *testing.T) {
 	}{
 		{"empty", "", "reg.csv: the file is empty: no row holds the column titles"},
 		{"blank lines", "\n,,\n,\n", "reg.csv: the file is empty: no row holds the column titles"},
-		{"blank header", ",,\nH-1,2,3\n", "reg.csv: no header row found in rows 1 to 2: looked for a row of column titles naming the asset id (Asset ID, asset, asset no, asset number, hoist id, equipment id, …) and at least one other column of the register (Rated load, Rope diameter, Motor power, … : 'hoistfleet help columns' lists them); no row names any of them. Give the header's row with --header-row N, or rename the columns"},
+		{"blank header", ",,\nH-1,2,3\n", "reg.csv: no header row found in rows 1 to 2: looked for a row of column titles naming the asset id (Asset ID, asset, asset no, asset number, hoist id, equipment id, …) and at least one other column of the register (Rated load, Rope diameter, Motor power, … : 'hoistfleet help columns' lists them); no row names any of them. Give the header's row with --header-row N, say which column is which with --columns FILE, or rename the columns"},
 		{"zip", "PK\x03\x04rest", "reg.csv: this is a zip file (an XLSX workbook?), not a CSV file: read it as XLSX"},
 		{"nul", "A\x00s\x00s\x00", "reg.csv: the file holds NUL bytes: it is not a text CSV file (UTF-16 without a byte-order mark?): save it as CSV UTF-8"},
 		{"bad header", "Asset \"ID,Site\n", `reg.csv: the header row cannot be read: CSV syntax error at line 1, column 7: bare " in non-quoted-field: a field holding a double quote must itself be quoted, with the quote doubled ("24"" drum")`},

@@ -58,6 +58,7 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 		{"Input", info.Input},
 		{"Input SHA-256", info.InputSHA256},
 		{"Sheet", info.Sheet},
+		{"Columns file", info.ColumnsFile},
 		{"As of", ts(info.AsOf, "2006-01-02")},
 		{"Started", ts(info.Started, time.RFC3339)},
 		{"Finished", ts(info.Finished, time.RFC3339)},
@@ -71,8 +72,10 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 	if !info.Started.IsZero() && !info.Finished.IsZero() {
 		kv = append(kv, [2]string{"Run time", info.Finished.Sub(info.Started).Round(time.Millisecond).String()})
 	}
-	if info.RulesFile == "" {
-		kv[10][1] = "none"
+	for i := range kv {
+		if (kv[i][0] == "User rules file" || kv[i][0] == "Columns file") && kv[i][1] == "" {
+			kv[i][1] = "none"
+		}
 	}
 	for _, p := range kv {
 		sw.str(1, r, p[0], st.bold)
