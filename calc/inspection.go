@@ -64,6 +64,35 @@ func InspectionDueRegister(last, registerDue, asOf time.Time, intervalMonths int
 	return dueCheck(periodicInspection, last, registerDue, asOf, intervalMonths, !skipRecord, figs)
 }
 
+// InspectionDueSchedule is InspectionDueRegister where the register gives the hoist's own
+// inspection interval in months (registerMonths > 0; a hoist in arduous service examined
+// every 6 months) as well as, or instead of, a next due date (registerDue, zero when not
+// given): the register's schedule is the earlier of registerDue and last + registerMonths,
+// and it governs where it is earlier than the rules' last + intervalMonths, as in
+// InspectionDueRegister; a schedule later than the rules allow is not used, and said so.
+// The figure register_interval_months is added. It returns a *RangeError as
+// InspectionDueRegister does.
+func InspectionDueSchedule(last, registerDue time.Time, registerMonths int, asOf time.Time, intervalMonths int, skipRecord bool, figs *FigureBuf) (Outcome, error) {
+	if registerMonths <= 0 {
+		return InspectionDueRegister(last, registerDue, asOf, intervalMonths, skipRecord, figs)
+	}
+	if last.IsZero() {
+		return dueCheck(periodicInspection, last, time.Time{}, asOf, intervalMonths, !skipRecord, figs)
+	}
+	byInterval := addMonthsClamped(lifeDay(last), registerMonths)
+	says := "the register's " + strconv.Itoa(registerMonths) + "-month interval"
+	due := byInterval
+	if !registerDue.IsZero() {
+		if !lifeDay(registerDue).After(lifeDay(last)) {
+			return Outcome{}, &RangeError{Field: "next_inspection", Msg: fmt.Sprintf("next inspection due %s is not after the last inspection %s", lifeISO(lifeDay(registerDue)), lifeISO(lifeDay(last)))}
+		}
+		if lifeDay(registerDue).Before(byInterval) {
+			due, says = lifeDay(registerDue), "the register's next due date"
+		}
+	}
+	return dueCheckFrom(periodicInspection, last, due, says, registerMonths, asOf, intervalMonths, !skipRecord, figs)
+}
+
 // dueTexts names what a due-date check is about, for its notes and errors.
 type dueTexts struct {
 	field, intervalField string // schema keys of the last date and of what sets the interval
@@ -77,6 +106,13 @@ var periodicInspection = dueTexts{field: "last_inspection", intervalField: "serv
 // registerDue, when not zero, is the register's own next due date: the earlier of it and
 // last + interval governs (InspectionDueRegister).
 func dueCheck(t dueTexts, last, registerDue, asOf time.Time, intervalMonths int, record bool, figs *FigureBuf) (Outcome, error) {
+	return dueCheckFrom(t, last, registerDue, "the register's next due date", 0, asOf, intervalMonths, record, figs)
+}
+
+// dueCheckFrom is dueCheck with the words for what set registerDue ("the register's
+// next due date", "the register's 6-month interval") and the register's own interval in
+// months (0 none: no figure register_interval_months).
+func dueCheckFrom(t dueTexts, last, registerDue time.Time, registerSays string, registerMonths int, asOf time.Time, intervalMonths int, record bool, figs *FigureBuf) (Outcome, error) {
 	switch {
 	case last.IsZero():
 		return Outcome{}, &RangeError{Field: t.field, Msg: "no last " + t.short + " date"}
@@ -95,9 +131,9 @@ func dueCheck(t dueTexts, last, registerDue, asOf time.Time, intervalMonths int,
 		rd := lifeDay(registerDue)
 		if rd.Before(next) {
 			next = rd
-			governs = "; the register's next due date governs (earlier than the rules' " + lifeISO(ruleNext) + ")"
+			governs = "; " + registerSays + " governs (earlier than the rules' " + lifeISO(ruleNext) + ")"
 		} else if rd.After(next) {
-			governs = "; the register's next due date " + lifeISO(rd) + " is later than the rules' interval allows: the rules' date is used, check the register"
+			governs = "; " + registerSays + " (" + lifeISO(rd) + ") is later than the rules' interval allows: the rules' date is used, check the register"
 		}
 	}
 	since := lifeDaysBetween(l, a)
@@ -124,6 +160,9 @@ func dueCheck(t dueTexts, last, registerDue, asOf time.Time, intervalMonths int,
 	if !registerDue.IsZero() {
 		figures = append(figures, Figure{Name: "register_next_due", Value: math.NaN(), Text: lifeISO(lifeDay(registerDue))})
 	}
+	if registerMonths > 0 {
+		figures = append(figures, Figure{Name: "register_interval_months", Value: float64(registerMonths), Unit: "1"})
+	}
 	o.Figures = figs.take(figures)
 	if record {
 		o.Steps = []Step{
@@ -134,7 +173,7 @@ func dueCheck(t dueTexts, last, registerDue, asOf time.Time, intervalMonths int,
 		}
 	}
 	if governs != "" && record && next != ruleNext {
-		o.Steps = append(o.Steps[:1], append([]Step{{Symbol: "next due", Formula: "the register's next due date, earlier", Numbers: lifeISO(next), Value: math.NaN(), Unit: "date"}}, o.Steps[1:]...)...)
+		o.Steps = append(o.Steps[:1], append([]Step{{Symbol: "next due", Formula: registerSays + ", earlier", Numbers: lifeISO(next), Value: math.NaN(), Unit: "date"}}, o.Steps[1:]...)...)
 	}
 	if overdue > 0 {
 		o.Note = t.what + " overdue by " + strconv.Itoa(overdue) + " days (due " + nextISO + ")" + governs

@@ -271,3 +271,39 @@ func TestInspectionDueRegister(t *testing.T) {
 		t.Error("a next due date before the last inspection was accepted")
 	}
 }
+
+// TestInspectionDueSchedule: the register's own interval in months, counted by hand on
+// the calendar. Last 2026-03-01, as of 2026-12-01: a 6-month interval falls due
+// 2026-09-01 (184 days: March 31 + April 30 + May 31 + June 30 + July 31 + August 31),
+// 91 days overdue (September 30 + October 31 + November 30), as a register next due date
+// of 2026-09-01 would; a next due date earlier still governs over the interval; a
+// 24-month interval is later than the rules' 12 and is not used.
+func TestInspectionDueSchedule(t *testing.T) {
+	last, asOf := date(2026, 3, 1), date(2026, 12, 1)
+	six, err := calc.InspectionDueSchedule(last, time.Time{}, 6, asOf, 12, false, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if six.Capacity != 184 || six.Figure("days_overdue") != 91 || !strings.Contains(six.Note, "the register's 6-month interval governs") ||
+		six.Figure("register_interval_months") != 6 {
+		t.Errorf("6 months: capacity %g overdue %g note %q, want 184, 91, the interval governs", six.Capacity, six.Figure("days_overdue"), six.Note)
+	}
+	both, err := calc.InspectionDueSchedule(last, date(2026, 8, 1), 6, asOf, 12, true, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// 2026-08-01 is 153 days after 2026-03-01 (184 − 31), 122 days overdue (91 + 31).
+	if both.Capacity != 153 || both.Figure("days_overdue") != 122 || !strings.Contains(both.Note, "register's next due date governs") {
+		t.Errorf("date before the interval: capacity %g overdue %g note %q, want 153, 122, the date governs", both.Capacity, both.Figure("days_overdue"), both.Note)
+	}
+	long, err := calc.InspectionDueSchedule(last, time.Time{}, 24, asOf, 12, true, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if long.Capacity != 365 || !strings.Contains(long.Note, "the register's 24-month interval (2028-03-01) is later than the rules' interval allows") {
+		t.Errorf("24 months: capacity %g note %q, want the rules' 365 days and a note", long.Capacity, long.Note)
+	}
+	if _, err := calc.InspectionDueSchedule(last, date(2026, 1, 1), 6, asOf, 12, true, nil); err == nil {
+		t.Error("a next due date before the last inspection was accepted")
+	}
+}

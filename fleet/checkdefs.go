@@ -388,7 +388,7 @@ func checkDefinitions() []Definition {
 				}
 				return say("examine now: periodic inspection " + num3(in.fig("days_overdue")) + " days overdue")
 			},
-			Needs: []string{"last_inspection"}, Uses: []string{"service", "next_inspection"},
+			Needs: []string{"last_inspection"}, Uses: []string{"service", "next_inspection", "inspection_interval"},
 			Rules:     []string{"inspection.interval_months"},
 			Reference: []string{"TestInspectionDueCalendar"},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
@@ -399,10 +399,14 @@ func checkDefinitions() []Definition {
 				last := d.a.Get("last_inspection").Date
 				asOf := d.c.opts.AsOf
 				interval := int(math.Round(months))
-				if due := d.a.Get("next_inspection").Date; !due.IsZero() {
+				own, hasOwn := d.num("inspection_interval")
+				if due := d.a.Get("next_inspection").Date; !due.IsZero() || hasOwn {
 					skip := !d.c.opts.Record
 					return func(h calc.Hoist) (calc.Outcome, error) {
-						return calc.InspectionDueRegister(last, due, asOf, interval, skip, h.Figs)
+						if hasOwn && own != math.Trunc(own) {
+							return calc.Outcome{}, &calc.RangeError{Field: "inspection_interval", Msg: fmt.Sprintf("inspection interval %g is not a whole number of months", own)}
+						}
+						return calc.InspectionDueSchedule(last, due, int(own), asOf, interval, skip, h.Figs)
 					}, d.usedRows(r), nil
 				}
 				if d.c.opts.Record {

@@ -240,6 +240,23 @@ func TestNextInspectionColumnGoverns(t *testing.T) {
 	}
 }
 
+// TestInspectionIntervalColumnGoverns: the register's own interval (Inspection interval
+// [months]) works as its next due date does. Winch A: last inspection 2026-03-01, as of
+// 2026-06-01; a 2-month interval falls due 2026-05-01 → 31 days overdue; 2.5 months is no
+// whole number of months: an error of the check, not a guess.
+func TestInspectionIntervalColumnGoverns(t *testing.T) {
+	c := isoChecker(t)
+	r := c.Check(winchA(t).num("inspection_interval", 2).asset())
+	cr := mustCheck(t, r, "inspection-due")
+	if cr.Status != StatusFail || !strings.Contains(cr.Message, "overdue by 31 days") || !strings.Contains(cr.Message, "2-month interval governs") {
+		t.Errorf("2-month interval: %s %q; want fail, 31 days overdue, the interval governs", cr.Status, cr.Message)
+	}
+	half := mustCheck(t, c.Check(winchA(t).num("inspection_interval", 2.5).asset()), "inspection-due")
+	if half.Status != StatusError || !strings.Contains(half.Message, "not a whole number of months") {
+		t.Errorf("2.5 months: %s %q; want error", half.Status, half.Message)
+	}
+}
+
 // TestMissingDataIsUncheckedNotError: a column left blank (n/a) makes the checks that
 // need it unchecked, naming it, never an error with a calculation's internal message.
 func TestMissingDataIsUncheckedNotError(t *testing.T) {

@@ -60,7 +60,7 @@ func (c Column) HeaderWithUnit(unit string) string {
 	if unit == "" {
 		unit = c.Unit
 	}
-	if c.Quantity == "" || unit == "" || unit == "1" {
+	if c.Quantity == "" && c.Unit == "" || unit == "" || unit == "1" {
 		return c.Header
 	}
 	return c.Header + " [" + unit + "]"

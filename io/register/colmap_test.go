@@ -131,3 +131,33 @@ func TestReadColumnMapRefuses(t *testing.T) {
 		}
 	}
 }
+
+// TestInspectionIntervalHeader: the interval column is in months; a header in months
+// (any common spelling) is read, one without a unit is read in months and said so, and
+// one in weeks is refused (26 weeks read as 26 months would be a misread).
+func TestInspectionIntervalHeader(t *testing.T) {
+	for _, tc := range []struct {
+		header string
+		read   bool
+		note   string
+	}{
+		{"Inspection interval [months]", true, ""},
+		{"Examination interval (mths)", true, ""},
+		{"Inspection interval", true, `"Inspection interval" gives no unit: read in months, the column's only unit (write "Inspection interval [months]" to say so)`},
+		{"Inspection interval (weeks)", false, `Inspection interval is in months, not "weeks"`},
+	} {
+		reg := "Asset ID,Rated load [t]," + tc.header + "\nH1,5,6\n"
+		r, err := NewCSVOptions(strings.NewReader(reg), "r.csv", Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		as := readAll(t, r)
+		v := as[0].Get("inspection_interval")
+		if got := v.State == fleet.OK && v.Num == 6; got != tc.read {
+			t.Errorf("%s: read %v (%+v), want %v", tc.header, got, v, tc.read)
+		}
+		if tc.note != "" && !strings.Contains(strings.Join(problems(r), "\n"), tc.note) {
+			t.Errorf("%s: no note %q in\n%s", tc.header, tc.note, strings.Join(problems(r), "\n"))
+		}
+	}
+}

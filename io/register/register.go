@@ -459,7 +459,9 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 			if spec.headerErr != "" {
 				problem(fleet.Invalid, key, "%s", spec.headerErr)
 				spec.headerErr = "header " + ref.String() + " " + spec.headerErr
-			} else if spec.col.Quantity == "" && unit != "" && unit != "-" && unit != "1" {
+			} else if spec.col.Quantity == "" && spec.col.Unit != "" && unit == "" {
+				problem(fleet.Other, key, "%q gives no unit: read in %s, the column's only unit (write %q to say so)", raw, sc.Unit, sc.HeaderWithUnit(""))
+			} else if spec.col.Quantity == "" && spec.col.Unit == "" && unit != "" && unit != "-" && unit != "1" {
 				problem(fleet.Invalid, key, "%q: %s takes no unit; %q is ignored", raw, sc.Header, unit)
 			}
 			if key == "asset_id" {
@@ -511,6 +513,11 @@ func (s *colSpec) setUnit(raw, unit string, splitErr error, col *fleet.Column) {
 	}
 	if sc.Quantity == "" {
 		s.minSI, s.maxSI = sc.Min, sc.Max
+		if sc.Unit != "" && unit != "" && !countUnit(sc.Unit, unit) {
+			// A count in a fixed unit (an interval in months): another unit would be a
+			// misread, so the column is refused.
+			s.headerErr = fmt.Sprintf("%q: %s is in %s, not %q: write %q", raw, sc.Header, sc.Unit, unit, sc.HeaderWithUnit(""))
+		}
 		return
 	}
 	u := unit
@@ -562,4 +569,14 @@ func sameUnit(key, a, b string) bool {
 	fa, errA := units.Factor(sc.Quantity, a)
 	fb, errB := units.Factor(sc.Quantity, b)
 	return errA == nil && errB == nil && fa == fb
+}
+
+// countUnit reports whether a header's unit names a count column's fixed unit: the
+// schema's "months" as months, month, mo or mths.
+func countUnit(schemaUnit, unit string) bool {
+	u := strings.ToLower(strings.TrimSpace(unit))
+	if u == strings.ToLower(schemaUnit) {
+		return true
+	}
+	return schemaUnit == "months" && (u == "month" || u == "mo" || u == "mths" || u == "mth")
 }
