@@ -227,8 +227,11 @@ type Asset struct {
 	Fields map[string]Value
 	// Problems are row-level messages: a duplicated id, a short or long row, an empty row.
 	Problems []*Error
-	Blank    bool // the row has no values at all (kept and reported, not checked)
-	Hidden   bool // the register row is hidden or filtered out (checked all the same)
+	// Sheet is the sheet the row is on, set when several sheets are read as one register
+	// (--sheet all); "" otherwise.
+	Sheet  string
+	Blank  bool // the row has no values at all (kept and reported, not checked)
+	Hidden bool // the register row is hidden or filtered out (checked all the same)
 }
 
 // Get returns a field's value (Empty when absent).

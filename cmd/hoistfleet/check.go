@@ -46,7 +46,7 @@ func (c *checkConfig) register(fs *pflag.FlagSet) {
 	fs.StringArrayVar(&c.rules, "rules", nil, "rule profile (iso, us) or a rule file (CSV, or XLSX with --rules-sheet) overriding it; repeat to layer: --rules us --rules ours.csv (default iso)")
 	fs.StringVar(&c.rulesSheet, "rules-sheet", "", "the sheet of an XLSX rule file to read (default its first sheet)")
 	fs.StringVar(&c.asOf, "as-of", "", "the run's date for inspections and ages, YYYY-MM-DD (default today)")
-	fs.StringVar(&c.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
+	fs.StringVar(&c.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first), or all: every sheet with a recognisable header")
 	fs.IntVar(&c.headerRow, "header-row", 0, "the register's header row (default: found in the first 30 rows)")
 	fs.StringVar(&c.dateOrder, "date-order", "", "dmy, mdy or ymd: the order of dates written with numbers (25/03/2026) (default: each date column's own unambiguous dates)")
 	fs.StringVar(&c.columns, "columns", "", "a columns file (CSV: register column,column,unit,date order) saying which register column is which of ours, for headers the synonyms do not cover")
@@ -224,17 +224,22 @@ func openRegister(name, sheet string, opt register.Options, st Streams) (*input,
 	}
 	full := io.MultiReader(bytes.NewReader(head[:n]), br)
 	if n == 4 && bytes.Equal(head, []byte("PK\x03\x04")) {
-		if in.file != nil {
+		switch {
+		case strings.EqualFold(sheet, register.SheetAll) && in.file == nil:
+			err = usagef("--sheet all reads a workbook from its file, not from standard input")
+		case strings.EqualFold(sheet, register.SheetAll):
+			in.src, err = register.NewXLSXAllSheets(name, opt)
+		case in.file != nil:
 			// From the path: excelize reads the zip with random access instead of a
 			// copy of the whole file in memory. The hash reads the file at the end.
 			in.src, err = register.NewXLSXFileOptions(name, sheet, opt)
-		} else {
+		default:
 			in.src, err = register.NewXLSXOptions(full, filepath.Base(display), sheet, opt)
 		}
 	} else if n >= 4 && bytes.Equal(head, []byte{0xD0, 0xCF, 0x11, 0xE0}) {
 		err = fmt.Errorf("%s is an OLE2 file: a legacy .xls workbook or a password-protected .xlsx; save an unprotected .xlsx or CSV copy", display)
 	} else {
-		if sheet != "" {
+		if sheet != "" && !strings.EqualFold(sheet, register.SheetAll) {
 			err = usagef("--sheet %q: %s is a CSV file, it has no sheets", sheet, display)
 		} else {
 			in.src, err = register.NewCSVOptions(full, filepath.Base(display), opt)

@@ -3,9 +3,11 @@ package main
 import (
 	"context"
 	"errors"
+	"fmt"
 	"io"
 
 	"hoistfleet/io/colreport"
+	"hoistfleet/io/register"
 )
 
 // runColumns is 'hoistfleet columns REGISTER': how each column of the register is read,
@@ -15,7 +17,7 @@ func runColumns(ctx context.Context, args []string, st Streams) error {
 	var format string
 	fs := newFlagSet("columns", st)
 	fs.StringVar(&format, "format", "text", "text or json")
-	fs.StringVar(&cfg.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first)")
+	fs.StringVar(&cfg.sheet, "sheet", "", "register sheet of an XLSX workbook (default the first), or all: a report for each sheet")
 	fs.IntVar(&cfg.headerRow, "header-row", 0, "the register's header row (default: found in the first 30 rows)")
 	fs.StringVar(&cfg.dateOrder, "date-order", "", "dmy, mdy or ymd: the order of dates written with numbers")
 	fs.StringVar(&cfg.columns, "columns", "", "a columns file (CSV: register column,column,unit,date order) for headers the synonyms do not cover")
@@ -43,6 +45,30 @@ func runColumns(ctx context.Context, args []string, st Streams) error {
 		if err != nil {
 			return err
 		}
+	}
+	if all, ok := in.src.(*register.AllSheets); ok {
+		// --sheet all: a report for each sheet read (its own header and notes), then
+		// the notes of the whole read (the sheets skipped); JSON: an array of reports.
+		var reps []colreport.Report
+		for _, h := range all.SheetHeaders() {
+			reps = append(reps, colreport.Build(h))
+		}
+		if format == "json" {
+			return colreport.WriteJSON(st.Out, reps)
+		}
+		for i, rep := range reps {
+			if i > 0 {
+				fmt.Fprintln(st.Out)
+			}
+			if err := colreport.WriteText(st.Out, rep); err != nil {
+				return err
+			}
+		}
+		fmt.Fprintln(st.Out)
+		for _, p := range all.Notes() {
+			fmt.Fprintln(st.Out, p.Error())
+		}
+		return nil
 	}
 	rep := colreport.Build(in.src.Header())
 	if format == "json" {

@@ -71,6 +71,10 @@ repeated header rows are left out and noted once; blank markers (-, n/a, TBC, ?,
 unknown, none) read as empty. Hidden or filtered-out rows are checked and marked
 hidden. A file with no recognisable header, or no hoist under it, exits 3.
 
+--sheet all reads every sheet of a workbook that has a recognisable header as one
+register (a sheet a site); the others are skipped and listed. A sheet without a Site
+column gives its name as its hoists' site.
+
 --columns FILE says which register column is which of ours where the synonyms do not
 (another language, a client's own titles): a CSV whose first row is
 "register column,column,unit,date order", one register column a row, naming one of ours

@@ -152,8 +152,8 @@ func contains(list []string, s string) bool {
 	return false
 }
 
-// WriteJSON writes the report as one JSON object.
-func WriteJSON(w io.Writer, rep Report) error {
+// WriteJSON writes a Report as one JSON object (or a []Report, one per sheet, as an array).
+func WriteJSON(w io.Writer, rep any) error {
 	enc := json.NewEncoder(w)
 	enc.SetEscapeHTML(false)
 	enc.SetIndent("", "  ")

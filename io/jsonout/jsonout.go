@@ -16,7 +16,8 @@
 // what the mechanism would allow, which max_rated_load_kg never exceeds without a
 // Component WLL; design.md Revision 2), "derived", "hidden" (true when the register row
 // is hidden or filtered out: design.md Revision 2), "coverage" ({"run": k, "possible": n}:
-// the checks the hoist's data let run of those that apply; design.md Revision 2), and on
+// the checks the hoist's data let run of those that apply; design.md Revision 2), "sheet"
+// (the row's sheet, only when several sheets are read: --sheet all), and on
 // each check "margin", "message", "required_capacity" (what a failing load-dependent
 // check would need to pass, in the unit of its capacity; null otherwise) and "review"
 // ({utilisation, rule, source} where a review limit applies: design.md Revision 2;
@@ -201,6 +202,10 @@ func (e *encoder) appendHoist(b []byte, r *fleet.Result) []byte {
 		b = append(b, `,"hidden":true`...)
 	} else {
 		b = append(b, `,"hidden":false`...)
+	}
+	if r.Asset.Sheet != "" {
+		b = append(b, `,"sheet":`...)
+		b = appendNullString(b, r.Asset.Sheet)
 	}
 	b = append(b, `,"coverage":{"run":`...)
 	b = strconv.AppendInt(b, int64(r.Coverage.Run), 10)
