@@ -120,3 +120,23 @@ func sheetXML(t *testing.T, b []byte, sheet string) string {
 	}
 	return s
 }
+
+// TestWrappedLines: words are kept whole, lines fill up to n characters.
+func TestWrappedLines(t *testing.T) {
+	for _, tc := range []struct {
+		s    string
+		n    int
+		want int
+	}{
+		{"", 10, 0},
+		{"short", 10, 1},
+		{"exactly ten", 11, 1},
+		{"one two three", 7, 2},    // "one two" | "three"
+		{"aaaa bbbb cccc", 9, 2},   // "aaaa bbbb" | "cccc"
+		{"abcdefghijklmnop", 5, 4}, // a word longer than a line takes ⌈16/5⌉ lines
+	} {
+		if got := wrappedLines(tc.s, tc.n); got != tc.want {
+			t.Errorf("wrappedLines(%q, %d) = %d, want %d", tc.s, tc.n, got, tc.want)
+		}
+	}
+}

@@ -45,6 +45,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/xuri/excelize/v2"
 
@@ -445,7 +446,17 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 		row = w.regRow + 1
 	}
 	w.regRow = row
-	sw.startRow(row, 0)
+	// The Action cells wrap: a row is as tall as its longest action needs, so that the
+	// action prints whole (a spreadsheet does not grow a streamed row by itself).
+	lines := wrappedLines(r.Action, actionLineChars)
+	if r.Proposed != nil && w.proposed {
+		lines = max(lines, wrappedLines(r.Proposed.Action, actionLineChars))
+	}
+	height := 0.0
+	if lines > 1 {
+		height = float64(lines) * 15
+	}
+	sw.startRow(row, height)
 	for i, c := range r.Asset.Cells {
 		if i >= w.nIn { // cells beyond the header are not part of any column
 			break
@@ -455,7 +466,7 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 	col := w.nIn
 	si := statusIndex(r.Status)
 	sw.str(col+1, r.Status.String(), st.text[si])
-	sw.text(col+2, r.Action, 0)
+	sw.text(col+2, r.Action, st.wrap)
 	sw.text(col+3, r.GoverningCheck, 0)
 	sw.result(col+4, r.MaxRatedLoadKg*w.perKg, st.load)
 	sw.result(col+5, r.MinMargin, st.pctPlain)
@@ -485,13 +496,43 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 			}
 			sw.str(col+1, p.Status.String(), st.text[statusIndex(p.Status)])
 			sw.str(col+2, changes, 0)
-			sw.text(col+3, p.Action, 0)
+			sw.text(col+3, p.Action, st.wrap)
 		}
 	}
 	if err := sw.endRow(); err != nil {
 		return w.fail("register row %d: %w", row, err)
 	}
 	return nil
+}
+
+// actionLineChars is about how many characters of Calibri 11 fit a line of the Action
+// column (width 50).
+const actionLineChars = 56
+
+// wrappedLines is how many lines s takes wrapped at about n characters a line, breaking
+// at spaces.
+func wrappedLines(s string, n int) int {
+	if s == "" {
+		return 0
+	}
+	lines, col := 1, 0
+	for _, word := range strings.Fields(s) {
+		l := utf8.RuneCountInString(word)
+		switch {
+		case col == 0:
+			col = l
+		case col+1+l <= n:
+			col += 1 + l
+		default:
+			lines++
+			col = l
+		}
+		for col > n { // a word longer than a line
+			lines++
+			col -= n
+		}
+	}
+	return lines
 }
 
 // inputCell writes a register cell as given: a number, a date, or text. Text is always
