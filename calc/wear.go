@@ -78,6 +78,9 @@ type WearInput struct {
 	// BrokenWires is the most broken wires found in one rope lay (< 0 = not counted);
 	// MaxBrokenWires the discard count (≤ 0 = no criterion).
 	BrokenWires, MaxBrokenWires int
+	// StrandBrokenWires is the most broken wires found in one strand in one lay (< 0 = not
+	// counted); MaxStrandBrokenWires its discard count (≤ 0 = no criterion).
+	StrandBrokenWires, MaxStrandBrokenWires int
 
 	// SkipRecord: do not build Outcome.Steps (the calculation record); same numbers.
 	SkipRecord bool
@@ -103,19 +106,24 @@ type WearInput struct {
 // diameter is no reduction. The governing diameter criterion is the one with the larger
 // reduction / limit; its reduction and limit are the Outcome's demand and capacity [m].
 //
-// Broken wires (when BrokenWires ≥ 0 and MaxBrokenWires > 0): u_bw = broken / max.
+// Broken wires (when BrokenWires ≥ 0 and MaxBrokenWires > 0): u_lay = broken in one lay /
+// its discard count; in one strand (StrandBrokenWires ≥ 0 and MaxStrandBrokenWires > 0):
+// u_strand = broken in one strand in one lay / its discard count (ASME B30.2 and B30.16
+// running ropes: 12 in one lay or 4 in one strand in one lay, whichever is reached first);
+// u_bw = max(u_lay, u_strand).
 //
 //	utilisation = max(diameter utilisation, u_bw)
 //
-// so with broken wires governing the utilisation is not demand / capacity. With broken
-// wires only (no measurement or no diameter limit) demand and capacity are the wire counts,
-// unit "1". Discard limits come from the caller's rules (ASME B30.2-2005 bands:
+// With broken wires governing, demand and capacity are the governing count and its discard
+// count, unit "1", so that utilisation = demand / capacity; with broken wires only (no
+// measurement or no diameter limit) likewise. Discard limits come from the caller's rules (ASME B30.2-2005 bands:
 // AsmeB302DiameterBand; ISO 4309:2010 percentages: Iso4309UniformDecrease; broken wires
 // B30.2 / B30.16 12 per lay, B30.7 6; standards.md).
 //
 // Figures: reduction_m, reduction_fraction (reduction / its base diameter), base_diameter_m,
 // discard_diameter_m (the measured diameter at which the governing limit is reached),
-// diameter_utilisation, broken_wires_utilisation, rope_age_years (days / 365.2425; NaN
+// diameter_utilisation, broken_wires_utilisation (u_bw), strand_broken_wires_utilisation
+// (u_strand), rope_age_years (days / 365.2425; NaN
 // when a date is missing or the rope was fitted after AsOf). NaN marks a figure that was
 // not evaluated.
 //
@@ -135,7 +143,10 @@ func RopeWear(in WearInput) (Outcome, error) {
 	rec := !in.SkipRecord
 
 	hasDia := in.MeasuredM > 0 && (in.MaxReductionM > 0 || in.MaxReductionFraction > 0)
-	hasBW := in.BrokenWires >= 0 && in.MaxBrokenWires > 0
+	hasLay := in.BrokenWires >= 0 && in.MaxBrokenWires > 0
+	hasStrand := in.StrandBrokenWires >= 0 && in.MaxStrandBrokenWires > 0
+	hasBW := hasLay || hasStrand
+	uStrand := math.NaN()
 
 	if hasDia {
 		dm := in.MeasuredM
@@ -179,10 +190,22 @@ func RopeWear(in WearInput) (Outcome, error) {
 		notes = append(notes, "no measured diameter: diameter not assessed")
 	}
 
-	if hasBW {
-		uBW = float64(in.BrokenWires) / float64(in.MaxBrokenWires)
+	// The governing broken-wire count and its discard count, and where they were counted.
+	var bwN, bwMax int
+	bwWhere := ""
+	if hasLay {
+		uBW, bwN, bwMax, bwWhere = float64(in.BrokenWires)/float64(in.MaxBrokenWires), in.BrokenWires, in.MaxBrokenWires, "in one lay"
 		if rec {
-			steps = append(steps, Step{Symbol: "u_bw", Formula: "broken wires / discard count", Numbers: fmt.Sprintf("%d / %d", in.BrokenWires, in.MaxBrokenWires), Value: uBW, Unit: "1"})
+			steps = append(steps, Step{Symbol: "u_lay", Formula: "broken wires in one lay / discard count", Numbers: fmt.Sprintf("%d / %d", in.BrokenWires, in.MaxBrokenWires), Value: uBW, Unit: "1"})
+		}
+	}
+	if hasStrand {
+		uStrand = float64(in.StrandBrokenWires) / float64(in.MaxStrandBrokenWires)
+		if rec {
+			steps = append(steps, Step{Symbol: "u_strand", Formula: "broken wires in one strand in one lay / discard count", Numbers: fmt.Sprintf("%d / %d", in.StrandBrokenWires, in.MaxStrandBrokenWires), Value: uStrand, Unit: "1"})
+		}
+		if math.IsNaN(uBW) || uStrand > uBW {
+			uBW, bwN, bwMax, bwWhere = uStrand, in.StrandBrokenWires, in.MaxStrandBrokenWires, "in one strand in one lay"
 		}
 	}
 
@@ -192,13 +215,16 @@ func RopeWear(in WearInput) (Outcome, error) {
 		u = math.Max(uD, uBW)
 		if uBW > uD {
 			// Report what governs, so that utilisation = demand / capacity.
-			demand, capacity, unit = float64(in.BrokenWires), float64(in.MaxBrokenWires), "1"
-			notes = append(notes, fmt.Sprintf("broken wires govern (%d of %d in one lay)", in.BrokenWires, in.MaxBrokenWires))
+			demand, capacity, unit = float64(bwN), float64(bwMax), "1"
+			notes = append(notes, fmt.Sprintf("broken wires govern (%d of %d %s)", bwN, bwMax, bwWhere))
 		}
 	case hasDia:
 		u = uD
 	default: // broken wires only
-		u, demand, capacity, unit = uBW, float64(in.BrokenWires), float64(in.MaxBrokenWires), "1"
+		u, demand, capacity, unit = uBW, float64(bwN), float64(bwMax), "1"
+		if hasLay && hasStrand {
+			notes = append(notes, fmt.Sprintf("broken wires %s govern", bwWhere))
+		}
 	}
 
 	age := math.NaN()
@@ -225,6 +251,7 @@ func RopeWear(in WearInput) (Outcome, error) {
 			{Name: "discard_diameter_m", Value: discard, Unit: "m"},
 			{Name: "diameter_utilisation", Value: uD, Unit: "1"},
 			{Name: "broken_wires_utilisation", Value: uBW, Unit: "1"},
+			{Name: "strand_broken_wires_utilisation", Value: uStrand, Unit: "1"},
 			{Name: "rope_age_years", Value: age, Unit: "a"},
 		}),
 		Steps: steps,
@@ -250,7 +277,7 @@ func (in WearInput) validate() error {
 		return &RangeError{Msg: fmt.Sprintf("diameter reduction fraction must be in [0, 1) (got %s)", dutyNum(in.MaxReductionFraction))}
 	}
 	hasDia := in.MeasuredM > 0 && (in.MaxReductionM > 0 || in.MaxReductionFraction > 0)
-	hasBW := in.BrokenWires >= 0 && in.MaxBrokenWires > 0
+	hasBW := in.BrokenWires >= 0 && in.MaxBrokenWires > 0 || in.StrandBrokenWires >= 0 && in.MaxStrandBrokenWires > 0
 	if !hasDia && !hasBW {
 		switch {
 		case in.MeasuredM > 0:

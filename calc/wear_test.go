@@ -2,11 +2,13 @@ package calc_test
 
 import (
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
 
 	"hoistfleet/calc"
+	"hoistfleet/calc/approx"
 )
 
 // inch is 0.0254 m exactly (NIST SP 811, appendix B; standards.md "Units").
@@ -293,5 +295,49 @@ func TestIso4309WithRopeCategory(t *testing.T) {
 		if !ok || !approxEqual(got, tt.want, 0, 1e-15) {
 			t.Errorf("%s (%q): %v, %v; want %v", tt.construction, cat, got, ok, tt.want)
 		}
+	}
+}
+
+// TestRopeWearStrand: ASME B30.2 / B30.16 running ropes are removed at 12 randomly
+// distributed broken wires in one lay or 4 broken wires in one strand in one lay
+// (standards.md, seen; the rule rows rope_wear.broken_wires_lay and _strand). Counts by
+// hand: 5 in the lay (5/12 = 0.417) with 3 in one strand (3/4 = 0.75): the strand governs
+// at 0.75; 5 in one strand (1.25) fails though the lay count (6/12) passes; the lay governs
+// when its share is larger (11/12 against 1/4).
+func TestRopeWearStrand(t *testing.T) {
+	mm := 0.001
+	for _, tc := range []struct {
+		name            string
+		lay, strand     int
+		u, demand, capa float64
+		where           string
+	}{
+		{"strand governs", 5, 3, 0.75, 3, 4, "in one strand in one lay"},
+		{"strand alone at discard", 6, 5, 1.25, 5, 4, "in one strand in one lay"},
+		{"lay governs", 11, 1, 11.0 / 12, 11, 12, "in one lay"},
+	} {
+		in := calc.WearInput{NominalM: 16 * mm, BrokenWires: tc.lay, MaxBrokenWires: 12, StrandBrokenWires: tc.strand, MaxStrandBrokenWires: 4}
+		o, err := calc.RopeWear(in)
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		if !approx.Equal(o.Utilisation, tc.u, 1e-12, 1e-12) || o.Demand != tc.demand || o.Capacity != tc.capa || o.Unit != "1" {
+			t.Errorf("%s: u %g demand %g capacity %g %s, want %g, %g, %g", tc.name, o.Utilisation, o.Demand, o.Capacity, o.Unit, tc.u, tc.demand, tc.capa)
+		}
+		if !strings.Contains(o.Note, "broken wires "+tc.where+" govern") {
+			t.Errorf("%s: note %q does not say the count %s governs", tc.name, o.Note, tc.where)
+		}
+		if got := o.Figure("strand_broken_wires_utilisation"); got != float64(tc.strand)/4 {
+			t.Errorf("%s: strand utilisation figure %g, want %g", tc.name, got, float64(tc.strand)/4)
+		}
+		// With a measured diameter well inside its limit, the broken wires still govern.
+		in.MeasuredM, in.MaxReductionFraction = 15.9*mm, 0.10
+		if o2, _ := calc.RopeWear(in); !approx.Equal(o2.Utilisation, tc.u, 1e-12, 1e-12) || !strings.Contains(o2.Note, "("+strconv.Itoa(int(tc.demand))+" of ") {
+			t.Errorf("%s with a diameter: u %g note %q", tc.name, o2.Utilisation, o2.Note)
+		}
+	}
+	// The strand count alone is a criterion.
+	if o, err := calc.RopeWear(calc.WearInput{NominalM: 16 * mm, BrokenWires: -1, StrandBrokenWires: 2, MaxStrandBrokenWires: 4}); err != nil || o.Utilisation != 0.5 {
+		t.Errorf("strand count alone: %v, u %g, want 0.5", err, o.Utilisation)
 	}
 }

@@ -154,3 +154,26 @@ func TestActionForARuleFailure(t *testing.T) {
 		t.Errorf("action %q: want the control-braking rule, not a brake torque", r.Action)
 	}
 }
+
+// TestRopeWearBrokenWiresAction: a rope discarded on its broken wires says which count
+// governs and its discard count (ASME B30.2: 4 in one strand in one lay, 12 in one lay),
+// also when no diameter was measured (the action once read "diameter down NaN %").
+func TestRopeWearBrokenWiresAction(t *testing.T) {
+	c := isoChecker(t)
+	for _, tc := range []struct {
+		name string
+		a    *Asset
+		want string
+	}{
+		{"strand", winchA(t).num("rope_broken_wires_strand", 5).asset(), "Discard the rope: 5 broken wires in one strand in one lay (discard at 4)"},
+		{"lay, no diameter", winchA(t).drop("rope_measured_diameter").num("rope_broken_wires", 13).asset(), "Discard the rope: 13 broken wires in one lay (discard at 12)"},
+	} {
+		r := c.Check(tc.a)
+		if cr := mustCheck(t, r, "rope-wear"); cr.Status != StatusFail {
+			t.Errorf("%s: rope-wear %s %q, want fail", tc.name, cr.Status, cr.Message)
+		}
+		if !strings.Contains(r.Action, tc.want) {
+			t.Errorf("%s: action %q lacks %q", tc.name, r.Action, tc.want)
+		}
+	}
+}

@@ -456,13 +456,19 @@ func checkDefinitions() []Definition {
 				if in.cr.Status == StatusMarginal {
 					verb = "examine the rope more often"
 				}
-				if in.fig("broken_wires_utilisation") > in.fig("diameter_utilisation") {
-					return say(verb + ": broken wires at " + percent(in.fig("broken_wires_utilisation")) + " of the discard count")
+				if bw, dia := in.fig("broken_wires_utilisation"), in.fig("diameter_utilisation"); !math.IsNaN(bw) && !(dia >= bw) {
+					// Broken wires govern (or were the only criterion): the governing count
+					// and its discard count are the check's demand and capacity.
+					where := "in one lay"
+					if in.fig("strand_broken_wires_utilisation") == bw {
+						where = "in one strand in one lay"
+					}
+					return say(verb + ": " + num3(in.cr.Demand) + " broken wires " + where + " (discard at " + num3(in.cr.Capacity) + ")")
 				}
 				return say(verb + ": diameter down " + percent(in.fig("reduction_fraction")) + " (limit " + percent(in.cr.Capacity/in.fig("base_diameter_m")) + ")")
 			},
-			Needs: []string{"rope_diameter"}, Uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_reference_diameter", "rope_construction", "rope_fitted"},
-			Rules:     []string{"rope_wear.basis", "rope_wear.max_reduction", "rope_wear.broken_wires_lay"},
+			Needs: []string{"rope_diameter"}, Uses: []string{"rope_measured_diameter", "rope_broken_wires", "rope_broken_wires_strand", "rope_reference_diameter", "rope_construction", "rope_fitted"},
+			Rules:     []string{"rope_wear.basis", "rope_wear.max_reduction", "rope_wear.broken_wires_lay", "rope_wear.broken_wires_strand"},
 			Reference: []string{"TestIso4309UniformDecrease", "TestAsmeB302DiameterBand", "TestRopeWear"},
 			prepare:   prepareRopeWear},
 		{ID: "overload-limiter", Kind: Records, FlagList: true,
@@ -578,10 +584,11 @@ func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []
 func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 	meas, okm := d.num("rope_measured_diameter")
 	bw, okb := d.num("rope_broken_wires")
-	if !okm && !okb {
+	bs, oks := d.num("rope_broken_wires_strand")
+	if !okm && !okb && !oks {
 		return nil, nil, &Error{Kind: Missing, Field: "rope_measured_diameter", Err: errors.New("needs the measured rope diameter or the broken-wire count from the last inspection")}
 	}
-	in := calc.WearInput{NominalM: d.h.RopeDiameterM, MeasuredM: meas, BrokenWires: -1,
+	in := calc.WearInput{NominalM: d.h.RopeDiameterM, MeasuredM: meas, BrokenWires: -1, StrandBrokenWires: -1,
 		Fitted: d.a.Get("rope_fitted").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
 	in.ReferenceM, _ = d.num("rope_reference_diameter")
 	if basis, _, err := d.ruleWord("rope_wear.basis"); err == nil && basis == "nominal" {
@@ -612,6 +619,14 @@ func prepareRopeWear(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []in
 		}
 		rules = append(rules, r)
 		in.MaxBrokenWires = int(v)
+	}
+	if oks {
+		v, r, err := d.rule("rope_wear.broken_wires_strand")
+		if err != nil {
+			return nil, nil, err
+		}
+		rules = append(rules, r)
+		in.StrandBrokenWires, in.MaxStrandBrokenWires = int(bs), int(v)
 	}
 	d.rowBuf = rules // keep a grown buffer
 	return func(h calc.Hoist) (calc.Outcome, error) {
