@@ -29,6 +29,9 @@ type Options struct {
 	// Record keeps each check's calculation record (CheckResult.Steps) for explain; bulk
 	// runs leave it off, which is about ten times cheaper and gives the same numbers.
 	Record bool
+	// Baseline, when set, is an earlier run: each result says what changed since
+	// (Result.Change) and the summary lists the changes and the hoists removed.
+	Baseline *Baseline
 }
 
 // Checker evaluates hoists against the rules in force. It is safe for concurrent use.
@@ -42,6 +45,8 @@ type Checker struct {
 	ropes   ropeCache       // rope construction text → what calc reads from it
 	scratch sync.Pool       // *scratch, reused from one Check to the next
 	results sync.Pool       // *Result, recycled by Run once written (recycle)
+	// attention are the weights of the summary's attention order (rules attention.*).
+	attention AttentionWeights
 }
 
 // ruleSet names up to eight rows of the rule table (indices, unused slots −1): the rows
@@ -108,7 +113,11 @@ func NewChecker(opts Options) (*Checker, error) {
 	if opts.TopN <= 0 {
 		opts.TopN = 20
 	}
-	c := &Checker{opts: opts, columns: schema.Columns()}
+	attention, err := NewAttentionWeights(opts.Rules)
+	if err != nil {
+		return nil, err
+	}
+	c := &Checker{opts: opts, columns: schema.Columns(), attention: attention}
 	keys := make([]string, len(c.columns))
 	for i, col := range c.columns {
 		keys[i] = col.Key

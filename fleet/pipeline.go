@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"runtime"
+	"strings"
 	"sync/atomic"
 
 	"golang.org/x/sync/errgroup"
@@ -34,6 +35,18 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		return nil, fmt.Errorf("writing results: %w", err)
 	}
 	summary := NewSummary(opts.TopN)
+	var titles []string // the register's column headers as the results show them
+	for _, col := range src.Header().Columns {
+		titles = append(titles, col.DisplayTitle())
+		if col.Key == "exposure" {
+			summary.Weigh(c.attention)
+		}
+	}
+	baseline := opts.Baseline
+	if baseline != nil {
+		summary.Compare(baseline)
+	}
+	cranes := craneSites{}
 	addProblems := func(ps []*Error) {
 		for _, p := range ps {
 			summary.ProblemCount++
@@ -73,6 +86,7 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 				return err
 			}
 			a.Index = index // output order is read order, whatever the source counted
+			cranes.check(a)
 			select {
 			case jobs <- a:
 			case <-ctx.Done():
@@ -86,6 +100,9 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		wg.Go(func() error {
 			for a := range jobs {
 				r := c.Check(a)
+				if baseline != nil {
+					r.Change = baseline.Compare(r, titles)
+				}
 				sink.Prepare(r)
 				select {
 				case done <- r:
@@ -121,6 +138,14 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 				for _, i := range p.rules {
 					useCounts[i]++
 				}
+				if summary.Weighted && p.Status != StatusPass {
+					sr, er := c.attention.rows(p.Status, p.Asset.Get("exposure").Text)
+					for _, i := range [2]int{sr, er} {
+						if i >= 0 && i < len(useCounts) {
+							useCounts[i]++
+						}
+					}
+				}
 				if progress != nil {
 					progress.Add(1)
 				}
@@ -144,6 +169,7 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 	if h := src.Header(); len(h.Problems) > headerProblems {
 		addProblems(h.Problems[headerProblems:])
 	}
+	summary.Finish(baseline)
 	info.Rows = summary.Total
 	info.Rules = ruleUses(opts.Rules, useCounts)
 	if err := sink.End(summary, info); err != nil {
@@ -151,4 +177,40 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 		return summary, fmt.Errorf("writing results: %w", err)
 	}
 	return summary, nil
+}
+
+// craneSites finds a crane id used at two sites (an input error: a crane is at one site).
+// It runs in the reader, in register order, so that the later row's message reaches
+// every output with the row.
+type craneSites map[string]craneSeen
+
+type craneSeen struct {
+	site string
+	row  int
+}
+
+// check adds a located problem to a when its crane was first seen at another site.
+func (m craneSites) check(a *Asset) {
+	v := a.Get("crane")
+	if v.State != OK || v.Text == "" {
+		return
+	}
+	site := a.Get("site").Text
+	first, ok := m[v.Text]
+	if !ok {
+		m[v.Text] = craneSeen{site: site, row: a.Row}
+		return
+	}
+	if strings.EqualFold(strings.TrimSpace(first.site), strings.TrimSpace(site)) {
+		return
+	}
+	a.Problems = append(a.Problems, &Error{Kind: Conflict, Asset: a.ID, Cell: v.Cell, Field: "crane",
+		Err: fmt.Errorf("crane %s is at site %s here and at site %s on row %d: a crane is at one site; give the crane at each site its own id", v.Text, orNone(site), orNone(first.site), first.row)})
+}
+
+func orNone(s string) string {
+	if s == "" {
+		return "(none)"
+	}
+	return "'" + s + "'"
 }

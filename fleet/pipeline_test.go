@@ -106,6 +106,7 @@ type recordingSink struct {
 	mu       sync.Mutex
 	ids      []string
 	indexes  []int
+	messages [][]string // each result's messages, copied
 	begun    int
 	ended    int
 	aborted  int
@@ -143,6 +144,7 @@ func (k *recordingSink) Write(r *Result) error {
 	}
 	k.ids = append(k.ids, r.Asset.ID)
 	k.indexes = append(k.indexes, r.Asset.Index)
+	k.messages = append(k.messages, slices.Clone(r.Messages))
 	k.mu.Unlock()
 	n := k.writes.Add(1)
 	if k.onWrite != nil {

@@ -75,6 +75,8 @@ type Result struct {
 	// Proposed is the evaluation at the proposed rated load (a Proposed rated load cell,
 	// or --rated-load-factor), nil when there is none.
 	Proposed *Evaluation
+	// Change is what changed since the baseline (check --baseline), nil without one.
+	Change *Change
 	// Prepared is whatever the Sink's Prepare made of this result (see Sink), for its
 	// Write; nil when the Sink prepares nothing.
 	Prepared any

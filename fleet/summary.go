@@ -42,9 +42,60 @@ type Summary struct {
 	// Coverage is what the verdict rests on: checks run of checks possible, and the
 	// columns that would let more run.
 	Coverage FleetCoverage
+	// Weighted is true when the register has an Exposure column: the attention order
+	// (Worst) is then by priority (AttentionWeights.Priority) before status and margin.
+	// Without the column every hoist weighs the same and the order is status, then margin.
+	Weighted bool
+	Weights  AttentionWeights
+	// ExposureCounts counts hoists by exposure (index in Exposures; the last row is
+	// ExposureUnstated) and status: the summary's status × exposure matrix.
+	ExposureCounts [][5]int
+	// Cranes are the register's cranes (the Crane column), in order of first appearance;
+	// a crane's status is its worst hoist's.
+	Cranes []CraneCount
+	// Changes are the hoists that changed since the baseline (Result.Change, not
+	// unchanged), in register order, then Removed ones (set at the end of Run);
+	// ChangeCounts counts them. Baseline is nil without --baseline.
+	Baseline     *BaselineMeta
+	Changes      []*Change
+	Removed      []*Change
+	ChangeCounts ChangeCounts
 
 	siteIndex  map[string]int
 	checkIndex map[string]int
+	craneIndex map[string]int
+	matched    []bool // baseline hoists matched so far
+}
+
+// ChangeCounts counts the changes since a baseline.
+type ChangeCounts struct {
+	Compared, Unchanged, Added, Removed int
+	Worse, Better                       int // status changes
+	Rating, Capacity                    int // beyond RatingTolerance
+	NewlyFailing, Cleared, NewlyOverdue int // hoists with such a check
+	OverdueCleared                      int // hoists whose inspection is no longer overdue
+	Inputs                              int // hoists with a changed register value
+}
+
+// CraneCount is one crane: its hoists and its status (its worst hoist's). Sites lists
+// every site its hoists are at: more than one is an input error (the crane is then at
+// least error).
+type CraneCount struct {
+	Crane    string
+	Sites    []string
+	Hoists   []string // asset ids, in register order
+	Status   Status
+	Exposure string // the most exposed of its hoists' (ExposureUnstated when none says)
+}
+
+// CranesByStatus counts cranes by status.
+func (s *Summary) CranesByStatus() (by [5]int) {
+	for _, c := range s.Cranes {
+		if int(c.Status) < len(by) {
+			by[c.Status]++
+		}
+	}
+	return by
 }
 
 // MarginBinEdges are the upper edges of the smallest-margin histogram bins: margin < 0
@@ -81,6 +132,11 @@ type Brief struct {
 	Reason         string  // for Flags and Overdue: what is wrong, in words
 	Days           float64 // for Overdue: days overdue
 	NewStatus      Status  // for Changed: status at the proposed load
+	Exposure       string  // the register's Exposure ("" when not stated)
+	Crane          string  // the register's Crane ("" when none)
+	// Priority is the hoist's place in the attention order (AttentionWeights.Priority),
+	// 0 when the register has no Exposure column.
+	Priority float64
 	// Mechanical is true when the hoist's status comes from an engineering check (rope,
 	// drum, motor, brake, gearbox, life, wear) rather than only from records or data
 	// consistency (inspection-due, load-test, hoist-speed); the worst list puts these first.
@@ -90,7 +146,120 @@ type Brief struct {
 // NewSummary returns an empty summary keeping topN hoists in each list.
 func NewSummary(topN int) *Summary {
 	return &Summary{TopN: topN, Governing: map[string]int{}, FlagCounts: map[string]int{},
-		siteIndex: map[string]int{}, checkIndex: map[string]int{}}
+		siteIndex: map[string]int{}, checkIndex: map[string]int{}, craneIndex: map[string]int{},
+		ExposureCounts: make([][5]int, len(Exposures)+1)}
+}
+
+// Weigh orders the attention list by consequence (the register has an Exposure column)
+// with the weights w. Call it before the first Add.
+func (s *Summary) Weigh(w AttentionWeights) {
+	s.Weighted, s.Weights = true, w
+}
+
+// Compare makes the summary collect the changes since baseline b. Call it before the
+// first Add, and Finish after the last.
+func (s *Summary) Compare(b *Baseline) {
+	s.Baseline = &b.Meta
+	s.matched = make([]bool, len(b.Hoists))
+}
+
+// Finish lists the baseline's hoists no result matched as removed.
+func (s *Summary) Finish(b *Baseline) {
+	if b == nil {
+		return
+	}
+	s.Removed = b.Removed(s.matched)
+	s.ChangeCounts.Removed = len(s.Removed)
+}
+
+func (s *Summary) addChange(c *Change) {
+	if c.prev >= 0 && c.prev < len(s.matched) {
+		s.matched[c.prev] = true
+	}
+	n := &s.ChangeCounts
+	switch c.Kind {
+	case ChangeAdded:
+		n.Added++
+	case ChangeUnchanged:
+		n.Compared++
+		n.Unchanged++
+		return
+	default:
+		n.Compared++
+	}
+	switch c.StatusChange {
+	case "worse":
+		n.Worse++
+	case "better":
+		n.Better++
+	}
+	if c.RatingChanged {
+		n.Rating++
+	}
+	if c.CapacityChanged {
+		n.Capacity++
+	}
+	if len(c.NewlyFailing) > 0 {
+		n.NewlyFailing++
+	}
+	if len(c.Cleared) > 0 {
+		n.Cleared++
+	}
+	if c.NewlyOverdue {
+		n.NewlyOverdue++
+	}
+	if c.OverdueCleared {
+		n.OverdueCleared++
+	}
+	if len(c.Inputs) > 0 {
+		n.Inputs++
+	}
+	s.Changes = append(s.Changes, c)
+}
+
+// AllChanges returns the changes and the removed hoists, ordered for listing
+// (SortChanges: worse first).
+func (s *Summary) AllChanges() []*Change {
+	out := make([]*Change, 0, len(s.Changes)+len(s.Removed))
+	out = append(out, s.Changes...)
+	out = append(out, s.Removed...)
+	SortChanges(out)
+	return out
+}
+
+func (s *Summary) addCrane(b *Brief, st Status) {
+	if b.Crane == "" {
+		return
+	}
+	i, ok := s.craneIndex[b.Crane]
+	if !ok {
+		i = len(s.Cranes)
+		s.craneIndex[b.Crane] = i
+		s.Cranes = append(s.Cranes, CraneCount{Crane: b.Crane, Status: StatusPass, Exposure: ExposureUnstated})
+	}
+	c := &s.Cranes[i]
+	c.Hoists = append(c.Hoists, b.AssetID)
+	if st.Worse(c.Status) {
+		c.Status = st
+	}
+	if !slicesContains(c.Sites, b.Site) {
+		c.Sites = append(c.Sites, b.Site)
+		if len(c.Sites) > 1 && StatusError.Worse(c.Status) {
+			c.Status = StatusError
+		}
+	}
+	if e := ExposureIndex(b.Exposure); e < ExposureIndex(c.Exposure) {
+		c.Exposure = b.Exposure
+	}
+}
+
+func slicesContains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
 }
 
 func brief(r *Result) Brief {
@@ -98,6 +267,12 @@ func brief(r *Result) Brief {
 		MinMargin: r.MinMargin, GoverningCheck: r.GoverningCheck, MaxRatedLoadKg: r.MaxRatedLoadKg, RatedLoadKg: r.RatedLoadKg, Action: r.Action}
 	if v := r.Asset.Get("site"); v.State == OK {
 		b.Site = v.Text
+	}
+	if v := r.Asset.Get("exposure"); v.State == OK {
+		b.Exposure = v.Text
+	}
+	if v := r.Asset.Get("crane"); v.State == OK {
+		b.Crane = v.Text
 	}
 	return b
 }
@@ -109,8 +284,16 @@ func (s *Summary) Add(r *Result) {
 		s.Hidden++
 	}
 	b := brief(r)
+	if s.Weighted {
+		b.Priority = s.Weights.Priority(r.Status, b.Exposure)
+	}
 	if int(r.Status) < len(s.ByStatus) {
 		s.ByStatus[r.Status]++
+		s.ExposureCounts[ExposureIndex(b.Exposure)][r.Status]++
+	}
+	s.addCrane(&b, r.Status)
+	if r.Change != nil {
+		s.addChange(r.Change)
 	}
 	i, ok := s.siteIndex[b.Site]
 	if !ok {
@@ -203,10 +386,14 @@ func (s *Summary) Add(r *Result) {
 	}
 }
 
-// worse orders hoists for the worst list: higher status first, then those whose status
-// comes from the mechanism before those whose status comes only from records, then smaller
-// margin.
+// worse orders hoists for the worst list (the attention order): higher priority first
+// (consequence and severity together: Summary.Weighted), then higher status, then those
+// whose status comes from the mechanism before those whose status comes only from
+// records, then smaller margin.
 func worse(x, y Brief) bool {
+	if x.Priority != y.Priority {
+		return x.Priority > y.Priority
+	}
 	if x.Status != y.Status {
 		return x.Status.Worse(y.Status)
 	}

@@ -81,9 +81,10 @@ const (
 	HeaderProblem      // a cell unusable because its column's header is (an unknown unit, say)
 	Implausible        // a value implausible beside the hoist's others: a unit slip, most likely
 	Unitless           // a number in a column whose unit is written nowhere: not read, the checks needing it unchecked
+	Conflict           // rows that contradict each other: a crane id at two sites
 )
 
-var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape", "header problem", "implausible value", "no unit"}
+var kindNames = [...]string{"error", "invalid", "missing", "out of range", "calculation error", "I/O error", "internal error", "duplicate", "row shape", "header problem", "implausible value", "no unit", "conflict"}
 
 func (k Kind) String() string {
 	if int(k) < len(kindNames) {
@@ -191,6 +192,16 @@ type Column struct {
 	// Mapped is where a columns file names the column ("map.csv line 3"), "" when the
 	// header was matched by the synonyms.
 	Mapped string
+}
+
+// DisplayTitle is the column's header as the results show it: as written, with the unit
+// added in brackets when the register gave it elsewhere (a units row under the header),
+// so that no value stands without its unit.
+func (c Column) DisplayTitle() string {
+	if c.Unit == "" || c.Unit == "1" || strings.Contains(c.Title, "["+c.Unit+"]") || strings.Contains(c.Title, "("+c.Unit+")") {
+		return c.Title
+	}
+	return c.Title + " [" + c.Unit + "]"
 }
 
 // Header is the register's header row as read.

@@ -20,6 +20,7 @@ import (
 
 	"hoistfleet/fleet"
 	"hoistfleet/fleet/rules"
+	"hoistfleet/io/baseline"
 	"hoistfleet/io/csvout"
 	"hoistfleet/io/jsonout"
 	"hoistfleet/io/register"
@@ -130,11 +131,17 @@ func parseAsOf(s string) (time.Time, error) {
 }
 
 func (c *checkConfig) checker() (*fleet.Checker, *rules.Table, string, time.Time, error) {
-	return c.checkerRecord(false)
+	return c.checkerRecord(false, nil)
 }
 
-// checkerRecord builds the checker; record keeps the calculation record (explain).
-func (c *checkConfig) checkerRecord(record bool) (*fleet.Checker, *rules.Table, string, time.Time, error) {
+// checkerWith builds the checker of a check run against a baseline (nil for none).
+func (c *checkConfig) checkerWith(b *fleet.Baseline) (*fleet.Checker, *rules.Table, string, time.Time, error) {
+	return c.checkerRecord(false, b)
+}
+
+// checkerRecord builds the checker; record keeps the calculation record (explain);
+// b is the baseline to compare with (nil for none).
+func (c *checkConfig) checkerRecord(record bool, b *fleet.Baseline) (*fleet.Checker, *rules.Table, string, time.Time, error) {
 	rules, userFiles, err := loadRules(c.rules, c.rulesSheet)
 	if err != nil {
 		return nil, nil, "", time.Time{}, err
@@ -157,7 +164,7 @@ func (c *checkConfig) checkerRecord(record bool) (*fleet.Checker, *rules.Table, 
 		return nil, nil, "", time.Time{}, usagef("--workers %d: want at least 1 (or leave it out for one per core)", c.workers)
 	}
 	chk, err := fleet.NewChecker(fleet.Options{Rules: rules, MarginalBand: c.marginal, AsOf: asOf,
-		RatedLoadFactor: c.ratedLoadFactor, Workers: c.workers, Record: record})
+		RatedLoadFactor: c.ratedLoadFactor, Workers: c.workers, Record: record, Baseline: b})
 	if err != nil {
 		return nil, nil, "", time.Time{}, usagef("%v", err)
 	}
@@ -411,6 +418,7 @@ type checkRun struct {
 	paper    string
 	topN     int
 	register string
+	baseline string
 }
 
 func runCheck(ctx context.Context, args []string, st Streams) error {
@@ -422,6 +430,7 @@ func runCheck(ctx context.Context, args []string, st Streams) error {
 	fs.StringVar(&c.failOn, "fail-on", "fail", "exit 1 when a hoist is at or above this status: fail, marginal or never (error counts as fail)")
 	fs.BoolVarP(&c.quiet, "quiet", "q", false, "no summary or progress on the terminal")
 	fs.StringVar(&c.paper, "paper", "", "paper the workbook prints on: a4 or letter (default from the locale: letter for US and Canadian ones, else a4)")
+	fs.StringVar(&c.baseline, "baseline", "", "an earlier results workbook or JSON lines of hoistfleet: say what changed since (hoists added and removed, statuses, ratings, checks, register values)")
 	if err := parseFlags(fs, args); err != nil {
 		return err
 	}
@@ -482,7 +491,16 @@ func (c *checkRun) run(ctx context.Context, st Streams) (*fleet.Summary, error) 
 	if c.register != "-" && c.out != "-" && (sameFile(c.register, c.out) || filepath.Clean(c.register) == filepath.Clean(c.out)) {
 		return nil, usagef("the output %s is the register itself: hoistfleet never overwrites its input", c.out)
 	}
-	chk, rules, userFiles, asOf, err := c.cfg.checker()
+	var prev *fleet.Baseline
+	if c.baseline != "" {
+		if c.out != "-" && (sameFile(c.baseline, c.out) || filepath.Clean(c.baseline) == filepath.Clean(c.out)) {
+			return nil, usagef("the output %s is the baseline itself: name another output with -o, or keep the earlier results under another name", c.out)
+		}
+		if prev, err = baseline.Read(c.baseline); err != nil {
+			return nil, err
+		}
+	}
+	chk, rules, userFiles, asOf, err := c.cfg.checkerWith(prev)
 	if err != nil {
 		return nil, err
 	}

@@ -9,6 +9,7 @@
 //	                          [--marginal 0.10] [--fail-on fail|marginal|never] [--quiet]
 //	                          [--rated-load-factor F] [--header-row N] [--date-order dmy|mdy|ymd]
 //	                          [--columns FILE]
+//	                          [--baseline PREVIOUS]
 //	hoistfleet explain REGISTER --asset ID [--format text|md]   one hoist's calculation record
 //	hoistfleet explain REGISTER --all -o DIR                     every hoist's record, one file each
 //	hoistfleet columns REGISTER [--format text|json]             how the register's columns are read
@@ -90,6 +91,14 @@ month). Which of day and month comes first is --date-order, else what each colum
 unambiguous dates show (25/03/2026 can only be day first), said in the summary; a date
 that reads both ways (03/04/2026) in a column with no such evidence is refused.
 
+--baseline PREVIOUS compares with an earlier run (its results workbook or JSON lines):
+hoists added and removed, status changes (worse first), ratings that moved by more than
+1 %, checks newly failing or cleared, inspections newly overdue, register values changed.
+The workbook gets a Changes sheet, each JSON line a "change", the summary a section.
+An Exposure column (people below, hazardous load, process critical, low) orders the
+attention list by consequence and severity (rules attention.*); a Crane column groups
+hoists into cranes, each with its worst hoist's status.
+
 Examples:
   hoistfleet check hoists.xlsx
   hoistfleet check hoists.xlsx --sheet "Site B" -o site-b-results.xlsx
@@ -98,6 +107,7 @@ Examples:
   hoistfleet check hoists.csv --rules iso --rules insurer.csv --format jsonl -o results.jsonl
   hoistfleet check export.csv --header-row 5 --date-order dmy
   hoistfleet check kranliste.csv --columns kranliste-columns.csv
+  hoistfleet check hoists.xlsx --baseline last-quarter-results.xlsx
 `,
 	"explain": `hoistfleet explain REGISTER --asset ID [flags]
 

@@ -58,7 +58,7 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	if pdf && out == "" {
 		return usagef("explain --format pdf writes a PDF: give -o FILE.pdf (-o - for standard output)")
 	}
-	chk, rules, userFiles, asOf, err := cfg.checkerRecord(true)
+	chk, rules, userFiles, asOf, err := cfg.checkerRecord(true, nil)
 	if err != nil {
 		return err
 	}

@@ -34,6 +34,7 @@ import (
 
 	"hoistfleet/fleet"
 	"hoistfleet/fleet/rules"
+	"hoistfleet/io/baseline"
 	"hoistfleet/io/csvout"
 	"hoistfleet/io/jsonout"
 	"hoistfleet/io/register"
@@ -516,4 +517,46 @@ func BenchmarkCheckEach(b *testing.B) {
 			i = 0
 		}
 	}
+}
+
+// BenchmarkRunCSVToJSONLBaseline is BenchmarkRunCSVToJSONL against a baseline: the
+// register's own JSON lines, read back by io/baseline (check --baseline): the cost of
+// comparing every hoist and of the change objects, measured as a ratio to
+// BenchmarkRunCSVToJSONL in the same run.
+func BenchmarkRunCSVToJSONLBaseline(b *testing.B) {
+	c, _, rows := registers(b)
+	src, err := register.NewCSV(bytes.NewReader(c), "register.csv")
+	if err != nil {
+		b.Fatal(err)
+	}
+	var prev bytes.Buffer
+	if _, err := fleet.Run(context.Background(), src, jsonlSink(&prev), newChecker(b), runInfo("register.csv"), nil); err != nil {
+		b.Fatal(err)
+	}
+	src.Close()
+	p := filepath.Join(b.TempDir(), "previous.jsonl")
+	if err := os.WriteFile(p, prev.Bytes(), 0o644); err != nil {
+		b.Fatal(err)
+	}
+	bl, err := baseline.Read(p)
+	if err != nil {
+		b.Fatal(err)
+	}
+	tab, err := rules.Profile("iso")
+	if err != nil {
+		b.Fatal(err)
+	}
+	chk, err := fleet.NewChecker(fleet.Options{Rules: tab, MarginalBand: 0.10, AsOf: asOf, Baseline: bl})
+	if err != nil {
+		b.Fatal(err)
+	}
+	var n int64
+	for b.Loop() {
+		src, err := register.NewCSV(bytes.NewReader(c), "register.csv")
+		if err != nil {
+			b.Fatal(err)
+		}
+		n = run(b, chk, src, jsonlSink, "register.csv")
+	}
+	report(b, rows, n)
 }

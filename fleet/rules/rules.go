@@ -244,6 +244,10 @@ var knownRules = map[string]ruleSpec{
 	"rope_wear.broken_wires_strand": countSpec,
 	"limiter.required_from":         {dims: []string{"mass"}, min: 0, max: math.Inf(1)},
 	"limiter.test_interval_months":  {dims: []string{"months"}, min: 0, minEx: true, max: 120},
+	// The attention order's weights (fleet.AttentionWeights: read by the summary, not a check).
+	"attention.exposure_weight": countSpec,
+	"attention.unstated_weight": countSpec,
+	"attention.status_weight":   countSpec,
 }
 
 // KnownRuleIDs lists the rule ids the checks use, sorted.
@@ -268,6 +272,9 @@ var conditionNames = map[string][]string{
 	"rope":    {"fibre core", "steel core", "rotation resistant"},
 	"d_mm":    nil,
 	"grooved": {"yes", "no"},
+	// the attention order's weights: the register's Exposure, a hoist's status
+	"exposure": {"people below", "hazardous load", "process critical", "low"},
+	"status":   {"fail", "error", "unchecked", "marginal", "pass"},
 }
 
 // ConditionNames lists the names a rule's conditions may test (a Scope supplies them),

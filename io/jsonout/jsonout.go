@@ -17,7 +17,11 @@
 // Component WLL; design.md Revision 2), "derived", "hidden" (true when the register row
 // is hidden or filtered out: design.md Revision 2), "coverage" ({"run": k, "possible": n}:
 // the checks the hoist's data let run of those that apply; design.md Revision 2), "sheet"
-// (the row's sheet, only when several sheets are read: --sheet all), and on
+// (the row's sheet, only when several sheets are read: --sheet all), "exposure" and
+// "crane" (the register's Exposure and Crane, null when blank), "change" (what changed
+// since the baseline of check --baseline, null without one: see appendChange; a hoist of
+// the baseline missing from the register gets a line of its own at the end, with "row",
+// "status" and "coverage" null and change kind "removed"), and on
 // each check "margin", "message", "required_capacity" (what a failing load-dependent
 // check would need to pass, in the unit of its capacity; null otherwise) and "review"
 // ({utilisation, rule, source} where a review limit applies: design.md Revision 2;
@@ -89,6 +93,7 @@ func newEncoder() *encoder { return &encoder{nums: new(numCache)} }
 
 type hoistMemos struct {
 	status, governing, worst, site, pstatus, pworst memo
+	exposure, crane                                 memo
 	note                                            freeMemo
 	messages, defaults, derived                     []freeMemo // by index
 }
@@ -212,6 +217,12 @@ func (e *encoder) appendHoist(b []byte, r *fleet.Result) []byte {
 	b = append(b, `,"possible":`...)
 	b = strconv.AppendInt(b, int64(r.Coverage.Possible), 10)
 	b = append(b, '}')
+	b = append(b, `,"exposure":`...)
+	b = e.appendNullText(&hm.exposure, b, textOf(r.Asset, "exposure"))
+	b = append(b, `,"crane":`...)
+	b = e.appendNullText(&hm.crane, b, textOf(r.Asset, "crane"))
+	b = append(b, `,"change":`...)
+	b = e.appendChange(b, r.Change)
 	if p := r.Proposed; p != nil {
 		b = append(b, `,"proposed":{"rated_load_kg":`...)
 		b = e.nums.appendNumber(b, p.RatedLoadKg)
@@ -369,13 +380,117 @@ func (w *Writer) fail(err error) {
 	}
 }
 
-// End flushes every line to the underlying writer.
+// End writes a line for each hoist of the baseline that is not in the register (change
+// kind removed) and flushes every line to the underlying writer.
 func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if w.err != nil {
 		return w.err
 	}
+	if s != nil {
+		for _, c := range s.Removed {
+			w.buf = w.enc.appendRemoved(w.buf, c)
+			if len(w.buf) >= flushAt {
+				w.flush()
+			}
+		}
+	}
 	w.flush()
 	return w.err
+}
+
+// textOf is a text field of a, "" when empty or unreadable.
+func textOf(a *fleet.Asset, key string) string {
+	if v := a.Get(key); v.State == fleet.OK {
+		return v.Text
+	}
+	return ""
+}
+
+// appendRemoved appends the line of a hoist of the baseline that is not in the register:
+// the contract's fields null or empty (it was not checked), its site, and the change.
+func (e *encoder) appendRemoved(b []byte, c *fleet.Change) []byte {
+	b = append(b, `{"asset_id":`...)
+	b = appendString(b, c.AssetID)
+	b = append(b, `,"row":null,"status":null,"governing_check":null,"worst_check":null,"min_margin":null,"max_rated_load_kg":null,"action":null,"messages":[],"defaults_used":[],"checks":[],"site":`...)
+	b = appendNullString(b, c.Site)
+	b = append(b, `,"rated_load_kg":null,"rating_note":null,"mechanism_capacity_kg":null,"derived":[],"hidden":false,"coverage":null,"exposure":null,"crane":null,"change":`...)
+	b = e.appendChange(b, c)
+	return append(b, '}', '\n')
+}
+
+// appendChange appends the change since the baseline (null without one):
+//
+//	{"kind": "added|removed|changed|unchanged", "previous_row": 7, "previous_status": "pass",
+//	 "status_change": "worse|better"|null, "previous_max_rated_load_kg": 5000,
+//	 "rating_changed": false, "previous_mechanism_capacity_kg": 7718.8,
+//	 "capacity_changed": false, "newly_failing": ["rope-wear"], "cleared": [],
+//	 "newly_overdue": false, "overdue_cleared": false, "inputs": [{"column": "Rope MBF [kN]", "old": "178.6", "new": "150"}]}
+//
+// previous_* are null for an added hoist; inputs is null when the baseline carries no
+// register values (JSON lines).
+func (e *encoder) appendChange(b []byte, c *fleet.Change) []byte {
+	if c == nil {
+		return append(b, "null"...)
+	}
+	b = append(b, `{"kind":`...)
+	b = appendString(b, c.Kind)
+	b = append(b, `,"previous_row":`...)
+	if c.Kind == fleet.ChangeAdded {
+		b = append(b, `null,"previous_status":null`...)
+	} else {
+		b = strconv.AppendInt(b, int64(c.PrevRow), 10)
+		b = append(b, `,"previous_status":`...)
+		b = appendString(b, c.PrevStatus.String())
+	}
+	b = append(b, `,"status_change":`...)
+	b = appendNullString(b, c.StatusChange)
+	b = append(b, `,"previous_max_rated_load_kg":`...)
+	b = e.nums.appendNumber(b, c.PrevMaxRatedLoadKg)
+	b = append(b, `,"rating_changed":`...)
+	b = strconv.AppendBool(b, c.RatingChanged)
+	b = append(b, `,"previous_mechanism_capacity_kg":`...)
+	b = e.nums.appendNumber(b, c.PrevCapacityKg)
+	b = append(b, `,"capacity_changed":`...)
+	b = strconv.AppendBool(b, c.CapacityChanged)
+	b = append(b, `,"newly_failing":`...)
+	b = appendIDs(b, c.NewlyFailing)
+	b = append(b, `,"cleared":`...)
+	b = appendIDs(b, c.Cleared)
+	b = append(b, `,"newly_overdue":`...)
+	b = strconv.AppendBool(b, c.NewlyOverdue)
+	b = append(b, `,"overdue_cleared":`...)
+	b = strconv.AppendBool(b, c.OverdueCleared)
+	b = append(b, `,"inputs":`...)
+	if c.Inputs == nil && !c.InputsCompared {
+		b = append(b, "null"...)
+	} else {
+		b = append(b, '[')
+		for i, in := range c.Inputs {
+			if i > 0 {
+				b = append(b, ',')
+			}
+			b = append(b, `{"column":`...)
+			b = appendString(b, in.Column)
+			b = append(b, `,"old":`...)
+			b = appendString(b, in.Old)
+			b = append(b, `,"new":`...)
+			b = appendString(b, in.New)
+			b = append(b, '}')
+		}
+		b = append(b, ']')
+	}
+	return append(b, '}')
+}
+
+func appendIDs(b []byte, ids []string) []byte {
+	b = append(b, '[')
+	for i, id := range ids {
+		if i > 0 {
+			b = append(b, ',')
+		}
+		b = appendString(b, id)
+	}
+	return append(b, ']')
 }
 
 // Abort drops what is buffered. The Writer holds no files of its own. In front of an

@@ -96,7 +96,7 @@ func TestKeyOrder(t *testing.T) {
 	lines := run(t, fixture())
 	want := []string{`"asset_id"`, `"row"`, `"status"`, `"governing_check"`, `"worst_check"`, `"min_margin"`,
 		`"max_rated_load_kg"`, `"messages"`, `"defaults_used"`, `"checks"`, `"site"`, `"rated_load_kg"`,
-		`"rating_note"`, `"derived"`, `"hidden"`, `"coverage"`, `"proposed"`}
+		`"rating_note"`, `"derived"`, `"hidden"`, `"coverage"`, `"exposure"`, `"crane"`, `"change"`, `"proposed"`}
 	l := lines[1]
 	// look for the top-level keys only: strip the nested check arrays first
 	top := l
@@ -256,5 +256,5 @@ func ExampleWriter() {
 	_ = w.End(fleet.NewSummary(10), &fleet.RunInfo{})
 	buf.WriteTo(os.Stdout)
 	// Output:
-	// {"asset_id":"H-07","row":2,"status":"marginal","governing_check":"motor-torque","worst_check":"drum-ratio","min_margin":0.05,"max_rated_load_kg":1200.5,"action":"No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification","messages":[],"defaults_used":[],"checks":[{"id":"drum-ratio","status":"marginal","demand":19,"capacity":20,"unit":"1","utilisation":0.95,"limit_rated_load_kg":null,"rule":"h1 ≥ 19 (M5)","source":"ISO 4308-1","figures":{},"margin":0.05,"message":null,"required_capacity":null,"review":null}],"site":null,"rated_load_kg":1000,"rating_note":null,"mechanism_capacity_kg":1200.5,"derived":[],"hidden":false,"coverage":{"run":1,"possible":1}}
+	// {"asset_id":"H-07","row":2,"status":"marginal","governing_check":"motor-torque","worst_check":"drum-ratio","min_margin":0.05,"max_rated_load_kg":1200.5,"action":"No action for the drum's D/d (20 against 19 required, fixed by the design); note it at the next modification","messages":[],"defaults_used":[],"checks":[{"id":"drum-ratio","status":"marginal","demand":19,"capacity":20,"unit":"1","utilisation":0.95,"limit_rated_load_kg":null,"rule":"h1 ≥ 19 (M5)","source":"ISO 4308-1","figures":{},"margin":0.05,"message":null,"required_capacity":null,"review":null}],"site":null,"rated_load_kg":1000,"rating_note":null,"mechanism_capacity_kg":1200.5,"derived":[],"hidden":false,"coverage":{"run":1,"possible":1},"exposure":null,"crane":null,"change":null}
 }

@@ -69,6 +69,14 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		}
 		p("%s\n", s.Coverage.Sentence())
 	}
+	if len(s.Cranes) > 0 {
+		by := s.CranesByStatus()
+		var parts []string
+		for _, st := range fleet.Statuses {
+			parts = append(parts, st.String()+" "+strconv.Itoa(by[st]))
+		}
+		p("\nCranes\t%d\t(%s; a crane's status is its worst hoist's)\n", len(s.Cranes), strings.Join(parts, ", "))
+	}
 
 	if len(s.Sites) > 0 {
 		p("\nBy site\tfail\terror\tunchecked\tmarginal\tpass\ttotal\n")
@@ -89,13 +97,51 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		}
 	}
 
+	if s.Weighted {
+		p("\nStatus by exposure")
+		for _, e := range fleet.Exposures {
+			p("\t%s", e)
+		}
+		p("\t%s\n", fleet.ExposureUnstated)
+		for _, st := range fleet.Statuses {
+			p("  %s", st)
+			for i := range s.ExposureCounts {
+				p("\t%d", s.ExposureCounts[i][st])
+			}
+			p("\n")
+		}
+	}
+
 	if len(s.Worst) > 0 {
 		n := min(len(s.Worst), MaxWorst)
-		p("\nWorst hoists (worst status first, the mechanism before records, then the smallest margin)\n")
-		p("  asset\trow\tstatus\tsmallest margin\tworst check\trated load\tmax rated load\tgoverned by\n")
+		cranes := len(s.Cranes) > 0
+		if s.Weighted {
+			p("\nWorst hoists (consequence and severity: status weight × exposure weight, highest first; then worst status, the mechanism before records, the smallest margin)\n")
+		} else {
+			p("\nWorst hoists (worst status first, the mechanism before records, then the smallest margin)\n")
+		}
+		p("  asset\trow\tstatus\tsmallest margin\tworst check\trated load\tmax rated load\tgoverned by")
+		if s.Weighted {
+			p("\texposure\tweight")
+		}
+		if cranes {
+			p("\tcrane")
+		}
+		p("\n")
 		for _, b := range s.Worst[:n] {
-			p("  %s\t%d\t%s\t%s\t%s\t%s\t%s\t%s\n", orDash(b.AssetID), b.Row, b.Status, marginText(b.MinMargin),
+			p("  %s\t%d\t%s\t%s\t%s\t%s\t%s\t%s", orDash(b.AssetID), b.Row, b.Status, marginText(b.MinMargin),
 				orDash(b.WorstCheck), tonnesText(b.RatedLoadKg), tonnesText(b.MaxRatedLoadKg), orDash(b.GoverningCheck))
+			if s.Weighted {
+				e := b.Exposure
+				if e == "" {
+					e = fleet.ExposureUnstated
+				}
+				p("\t%s\t%s", e, strconv.FormatFloat(b.Priority, 'g', 4, 64))
+			}
+			if cranes {
+				p("\t%s", orDash(b.Crane))
+			}
+			p("\n")
 		}
 		head := "\nWhat to do, worst hoists first\n"
 		for _, b := range s.Worst[:n] {
@@ -137,6 +183,11 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 			p("  … %d more columns\n", len(gaps)-n)
 		}
 	}
+	if s.Baseline != nil {
+		if err := changes(tw, s, info); err != nil {
+			return err
+		}
+	}
 	if s.Hidden > 0 {
 		p("\nHidden rows\t%d (hidden or filtered out in the register: checked all the same, marked hidden)\n", s.Hidden)
 	}
@@ -155,6 +206,55 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		p("Re-rated\t%d\t(%d change verdict)\n", s.Rerated, s.ChangedCount)
 	}
 	p("\nScreening calculation on the data given: it does not replace examination by a competent person.\n")
+	if err := tw.Flush(); err != nil {
+		return fmt.Errorf("textout: %w", err)
+	}
+	return nil
+}
+
+// MaxChanges is the most changes the terminal lists (the workbook's Changes sheet and the
+// JSON lines have them all).
+const MaxChanges = 20
+
+// changes prints the changes since the baseline: what the baseline was, how its run
+// differs, the counts, then the changes, worse first.
+func changes(tw *tabwriter.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
+	if err := tw.Flush(); err != nil {
+		return fmt.Errorf("textout: %w", err)
+	}
+	p := func(format string, a ...any) { fmt.Fprintf(tw, format, a...) }
+	b := s.Baseline
+	var about []string
+	if b.AsOf != "" {
+		about = append(about, "as of "+b.AsOf)
+	}
+	if b.Profile != "" {
+		about = append(about, "rules "+b.Profile)
+	}
+	if b.InputSHA256 != "" {
+		about = append(about, "input SHA-256 "+b.InputSHA256[:min(12, len(b.InputSHA256))]+"…")
+	}
+	head := "\nChanges since " + b.File
+	if len(about) > 0 {
+		head += " (" + strings.Join(about, ", ") + ")"
+	}
+	p("%s\n", head)
+	for _, d := range b.Differences(info) {
+		p("  note: %s\n", d)
+	}
+	p("  %s\n", s.ChangeCounts.Words())
+	all := s.AllChanges()
+	n := min(len(all), MaxChanges)
+	for _, c := range all[:n] {
+		row := "-"
+		if c.Row > 0 {
+			row = strconv.Itoa(c.Row)
+		}
+		p("  %s\t%s\t%s\n", orDash(c.AssetID), row, c.Words())
+	}
+	if len(all) > n {
+		p("  … %d more: see the Changes sheet of the workbook or the change field of the JSON lines\n", len(all)-n)
+	}
 	if err := tw.Flush(); err != nil {
 		return fmt.Errorf("textout: %w", err)
 	}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 	"strconv"
+	"strings"
 
 	"github.com/xuri/excelize/v2"
 
@@ -215,6 +216,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	sw.set(6, r+1, s.Total, st.tileCount)
 	sw.height(r+1, 34)
 	r += 4
+	r = w.summaryCranes(sw, s, r)
 
 	// The charts stand side by side in a band under the tiles, so that the sheet is no
 	// wider than its tables and prints on one page at a readable scale.
@@ -271,6 +273,8 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 			GapWidth: &gap})
 	}
 	r++
+
+	r = w.exposureMatrix(sw, s, r)
 
 	// Smallest margins.
 	sw.str(1, r, "Smallest margin per hoist", st.heading)
@@ -335,13 +339,41 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	load := "Max rated load [" + w.unit + "]"
 	sw.str(1, r, "Hoists needing attention first"+more(len(w.top(s.Worst)), s.ByStatus[fleet.StatusFail]+s.ByStatus[fleet.StatusError]+s.ByStatus[fleet.StatusUnchecked]+s.ByStatus[fleet.StatusMarginal]), st.heading)
 	r++
-	for i, h := range []string{"Asset ID", "Row", "Site", "Status", "Min margin", "Worst check", "Governing check", load, "Action"} {
+	if s.Weighted {
+		sw.str(1, r, "Ordered by consequence and severity together: status weight × exposure weight (rules attention.*, common practice), highest first; then status and margin", st.subtitle)
+		r++
+	}
+	heads := []string{"Asset ID", "Row", "Site", "Status", "Min margin", "Worst check", "Governing check", load, "Action"}
+	extra := 10 // the columns after Action: Exposure and weight, Crane
+	if s.Weighted {
+		heads = append(heads, "Exposure", "Weight")
+		sw.width(extra, extra, 16)
+		sw.width(extra+1, extra+1, 8)
+	}
+	craneCol := 0
+	if len(s.Cranes) > 0 {
+		craneCol = len(heads) + 1
+		heads = append(heads, "Crane")
+		sw.width(craneCol, craneCol, 12)
+	}
+	for i, h := range heads {
 		sw.str(1+i, r, h, st.th)
 	}
 	r++
 	worst := w.top(s.Worst)
 	for _, b := range worst {
 		w.briefRow(sw, r, b)
+		if s.Weighted {
+			e := b.Exposure
+			if e == "" {
+				e = fleet.ExposureUnstated
+			}
+			sw.str(extra, r, e, 0)
+			sw.set(extra+1, r, b.Priority, 0)
+		}
+		if craneCol > 0 {
+			sw.str(craneCol, r, b.Crane, 0)
+		}
 		sw.str(4, r, b.Status.String(), st.text[statusIndex(b.Status)])
 		sw.set(5, r, b.MinMargin, st.pctPlain)
 		sw.str(6, r, b.WorstCheck, 0)
@@ -455,6 +487,91 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 		r++
 	}
 	return sw.err
+}
+
+// summaryCranes writes the cranes (the register's Crane column) by status, and the cranes
+// that do not pass with their hoists; it returns the next free row.
+func (w *Writer) summaryCranes(sw *sheetWriter, s *fleet.Summary, r int) int {
+	if len(s.Cranes) == 0 {
+		return r
+	}
+	st := w.st
+	sw.str(1, r, fmt.Sprintf("Cranes: %d (a crane's status is its worst hoist's; %d hoists)", len(s.Cranes), s.Total), st.heading)
+	r++
+	by := s.CranesByStatus()
+	for i, stt := range fleet.Statuses {
+		si := statusIndex(stt)
+		sw.str(1+i, r, titleCase(stt.String()), st.text[si])
+		sw.set(1+i, r+1, by[stt], st.bold)
+	}
+	sw.str(6, r, "Total", st.th)
+	sw.set(6, r+1, len(s.Cranes), st.bold)
+	r += 3
+	var bad []fleet.CraneCount
+	for _, c := range s.Cranes {
+		if c.Status != fleet.StatusPass {
+			bad = append(bad, c)
+		}
+	}
+	sort.SliceStable(bad, func(i, j int) bool { return bad[i].Status.Worse(bad[j].Status) })
+	if len(bad) == 0 {
+		return r
+	}
+	shown := min(len(bad), summaryListMax)
+	sw.str(1, r, "Cranes needing attention"+more(shown, len(bad)), st.heading)
+	r++
+	for i, h := range []string{"Crane", "Status", "Site", "Hoists"} {
+		sw.str(1+i, r, h, st.th)
+	}
+	r++
+	for _, c := range bad[:shown] {
+		sw.str(1, r, c.Crane, 0)
+		sw.str(2, r, c.Status.String(), st.text[statusIndex(c.Status)])
+		sw.str(3, r, strings.Join(c.Sites, " · "), 0)
+		sw.str(4, r, strings.Join(c.Hoists, ", "), 0)
+		r++
+	}
+	return r + 1
+}
+
+// exposureMatrix writes the hoists counted by status and exposure (the register's
+// Exposure column); it returns the next free row.
+func (w *Writer) exposureMatrix(sw *sheetWriter, s *fleet.Summary, r int) int {
+	if !s.Weighted {
+		return r
+	}
+	st := w.st
+	sw.str(1, r, "Hoists by status and exposure", st.heading)
+	r++
+	sw.str(1, r, "Status", st.th)
+	for i, e := range append(append([]string{}, fleet.Exposures...), fleet.ExposureUnstated) {
+		sw.str(2+i, r, e, st.th)
+	}
+	sw.height(r, 30)
+	r++
+	for _, stt := range fleet.Statuses {
+		si := statusIndex(stt)
+		sw.str(1, r, titleCase(stt.String()), st.text[si])
+		for i := range s.ExposureCounts {
+			n := s.ExposureCounts[i][stt]
+			style := 0
+			if n > 0 && stt != fleet.StatusPass {
+				style = st.text[si]
+			}
+			sw.set(2+i, r, n, style)
+		}
+		r++
+	}
+	if n := s.ExposureCounts[len(fleet.Exposures)]; n != [5]int{} {
+		total := 0
+		for _, k := range n {
+			total += k
+		}
+		sw.str(1, r, fmt.Sprintf("%d hoists without an exposure are weighted %s (rule attention.unstated_weight)", total,
+			strconv.FormatFloat(s.Weights.Unstated, 'g', -1, 64)), st.subtitle)
+		r++
+	}
+	return r + 1
 }
 
 // more says how many of n the list of shown leaves out: " (10 shown; all in the

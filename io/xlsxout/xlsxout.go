@@ -667,7 +667,11 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	if err := w.finishChecks(); err != nil {
 		return err
 	}
-	for _, sheet := range []string{SheetData, SheetAudit} { // after every Checks sheet
+	sheets := []string{SheetData, SheetAudit} // after every Checks sheet
+	if s.Baseline != nil {
+		sheets = []string{SheetChanges, SheetData, SheetAudit}
+	}
+	for _, sheet := range sheets {
 		if _, err := f.NewSheet(sheet); err != nil {
 			return w.fail("sheet %s: %w", sheet, err)
 		}
@@ -677,6 +681,11 @@ func (w *Writer) End(s *fleet.Summary, info *fleet.RunInfo) error {
 	}
 	if err := w.writeSummary(s, info); err != nil {
 		return w.fail("summary: %w", err)
+	}
+	if s.Baseline != nil {
+		if err := w.writeChanges(s, info); err != nil {
+			return w.fail("changes: %w", err)
+		}
 	}
 	if err := w.writeData(s); err != nil {
 		return w.fail("data: %w", err)
@@ -759,12 +768,6 @@ func (w *Writer) Abort() {
 	}
 }
 
-// inputHeader is a register column's header as the Register sheet shows it: as written,
-// with the unit added in brackets when the register gave it elsewhere (a units row under
-// the header), so that no value in the sheet stands without its unit.
-func inputHeader(c fleet.Column) string {
-	if c.Unit == "" || c.Unit == "1" || strings.Contains(c.Title, "["+c.Unit+"]") || strings.Contains(c.Title, "("+c.Unit+")") {
-		return c.Title
-	}
-	return c.Title + " [" + c.Unit + "]"
-}
+// inputHeader is a register column's header as the Register sheet shows it
+// (fleet.Column.DisplayTitle: a baseline's columns are matched by it).
+func inputHeader(c fleet.Column) string { return c.DisplayTitle() }
