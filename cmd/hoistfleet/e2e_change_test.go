@@ -676,3 +676,30 @@ func TestLibreOfficePrintsChangesAndMatrix(t *testing.T) {
 		}
 	}
 }
+
+// TestBaselineOtherRules: a baseline made with other rules is compared all the same, and
+// the terminal and the Changes sheet say so.
+func TestBaselineOtherRules(t *testing.T) {
+	dir := t.TempDir()
+	reg := writeDemo(t, dir, "demo-si.csv")
+	prev := filepath.Join(dir, "us.xlsx")
+	runCmd(t, "", "check", reg, "-o", prev, "--as-of", "2026-12-01", "--rules", "us", "-q").mustExit(t, exitFindings, "us")
+	out := filepath.Join(dir, "iso.xlsx")
+	r := runCmd(t, "", "check", reg, "-o", out, "--as-of", "2026-12-01", "--rules", "iso", "--baseline", prev)
+	r.mustExit(t, exitFindings, "iso against us")
+	const note = "the baseline used the us rules, this run the iso rules"
+	if !strings.Contains(r.out, "note: "+note) {
+		t.Errorf("terminal does not say the rules differ:\n%s", r.out)
+	}
+	found := false
+	for _, row := range sheetRows(t, openXLSX(t, out), "Changes", 1) {
+		found = found || strings.Contains(row[0], note)
+	}
+	if !found {
+		t.Error("the Changes sheet does not say the rules differ")
+	}
+	// The same register under other rules: only verdicts change, no register value.
+	if !strings.Contains(r.out, ", 0 with register values changed,") || !strings.Contains(r.out, "0 added, 0 removed,") {
+		t.Errorf("two runs of one register: want no hoist added or removed and no register value changed:\n%s", r.out)
+	}
+}
