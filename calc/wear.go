@@ -110,7 +110,8 @@ type WearInput struct {
 // its discard count; in one strand (StrandBrokenWires ≥ 0 and MaxStrandBrokenWires > 0):
 // u_strand = broken in one strand in one lay / its discard count (ASME B30.2 and B30.16
 // running ropes: 12 in one lay or 4 in one strand in one lay, whichever is reached first);
-// u_bw = max(u_lay, u_strand).
+// u_bw = max(u_lay, u_strand). A count at its discard count fails (Verdict Fail): the rope
+// is removed when the count is reached, not only when it is exceeded.
 //
 //	utilisation = max(diameter utilisation, u_bw)
 //
@@ -122,7 +123,7 @@ type WearInput struct {
 //
 // Figures: reduction_m, reduction_fraction (reduction / its base diameter), base_diameter_m,
 // discard_diameter_m (the measured diameter at which the governing limit is reached),
-// diameter_utilisation, broken_wires_utilisation (u_bw), strand_broken_wires_utilisation
+// diameter_utilisation, broken_wires_utilisation (u_lay), strand_broken_wires_utilisation
 // (u_strand), rope_age_years (days / 365.2425; NaN
 // when a date is missing or the rope was fitted after AsOf). NaN marks a figure that was
 // not evaluated.
@@ -146,7 +147,7 @@ func RopeWear(in WearInput) (Outcome, error) {
 	hasLay := in.BrokenWires >= 0 && in.MaxBrokenWires > 0
 	hasStrand := in.StrandBrokenWires >= 0 && in.MaxStrandBrokenWires > 0
 	hasBW := hasLay || hasStrand
-	uStrand := math.NaN()
+	uLay, uStrand := math.NaN(), math.NaN()
 
 	if hasDia {
 		dm := in.MeasuredM
@@ -194,9 +195,10 @@ func RopeWear(in WearInput) (Outcome, error) {
 	var bwN, bwMax int
 	bwWhere := ""
 	if hasLay {
-		uBW, bwN, bwMax, bwWhere = float64(in.BrokenWires)/float64(in.MaxBrokenWires), in.BrokenWires, in.MaxBrokenWires, "in one lay"
+		uLay = float64(in.BrokenWires) / float64(in.MaxBrokenWires)
+		uBW, bwN, bwMax, bwWhere = uLay, in.BrokenWires, in.MaxBrokenWires, "in one lay"
 		if rec {
-			steps = append(steps, Step{Symbol: "u_lay", Formula: "broken wires in one lay / discard count", Numbers: fmt.Sprintf("%d / %d", in.BrokenWires, in.MaxBrokenWires), Value: uBW, Unit: "1"})
+			steps = append(steps, Step{Symbol: "u_lay", Formula: "broken wires in one lay / discard count", Numbers: fmt.Sprintf("%d / %d", in.BrokenWires, in.MaxBrokenWires), Value: uLay, Unit: "1"})
 		}
 	}
 	if hasStrand {
@@ -210,21 +212,28 @@ func RopeWear(in WearInput) (Outcome, error) {
 	}
 
 	var u float64
+	bwGovern := false
 	switch {
 	case hasDia && hasBW:
 		u = math.Max(uD, uBW)
-		if uBW > uD {
-			// Report what governs, so that utilisation = demand / capacity.
-			demand, capacity, unit = float64(bwN), float64(bwMax), "1"
-			notes = append(notes, fmt.Sprintf("broken wires govern (%d of %d %s)", bwN, bwMax, bwWhere))
-		}
+		bwGovern = uBW > uD
 	case hasDia:
 		u = uD
 	default: // broken wires only
-		u, demand, capacity, unit = uBW, float64(bwN), float64(bwMax), "1"
-		if hasLay && hasStrand {
-			notes = append(notes, fmt.Sprintf("broken wires %s govern", bwWhere))
+		u, bwGovern = uBW, true
+	}
+	verdict := ByUtilisation
+	if bwGovern {
+		// Report what governs, so that utilisation = demand / capacity.
+		demand, capacity, unit = float64(bwN), float64(bwMax), "1"
+		note := fmt.Sprintf("broken wires %s govern (%d of %d)", bwWhere, bwN, bwMax)
+		if bwN >= bwMax {
+			// The rope is removed when the count is reached (ASME B30.2 / B30.16: "twelve
+			// … in one lay or four … in one strand"), not only when it is exceeded.
+			verdict = Fail
+			note += ": the discard count is reached"
 		}
+		notes = append(notes, note)
 	}
 
 	age := math.NaN()
@@ -242,7 +251,7 @@ func RopeWear(in WearInput) (Outcome, error) {
 		Capacity:    capacity,
 		Unit:        unit,
 		Utilisation: u,
-		Verdict:     ByUtilisation,
+		Verdict:     verdict,
 		Note:        strings.Join(notes, "; "),
 		Figures: in.Figs.take([]Figure{
 			{Name: "reduction_m", Value: red, Unit: "m"},
@@ -250,7 +259,7 @@ func RopeWear(in WearInput) (Outcome, error) {
 			{Name: "base_diameter_m", Value: base, Unit: "m"},
 			{Name: "discard_diameter_m", Value: discard, Unit: "m"},
 			{Name: "diameter_utilisation", Value: uD, Unit: "1"},
-			{Name: "broken_wires_utilisation", Value: uBW, Unit: "1"},
+			{Name: "broken_wires_utilisation", Value: uLay, Unit: "1"},
 			{Name: "strand_broken_wires_utilisation", Value: uStrand, Unit: "1"},
 			{Name: "rope_age_years", Value: age, Unit: "a"},
 		}),
@@ -275,6 +284,9 @@ func (in WearInput) validate() error {
 		return &RangeError{Msg: fmt.Sprintf("diameter reduction limit must be ≥ 0 (got %s m)", dutyNum(in.MaxReductionM))}
 	case !(in.MaxReductionFraction >= 0 && in.MaxReductionFraction < 1):
 		return &RangeError{Msg: fmt.Sprintf("diameter reduction fraction must be in [0, 1) (got %s)", dutyNum(in.MaxReductionFraction))}
+	}
+	if in.BrokenWires >= 0 && in.StrandBrokenWires > in.BrokenWires {
+		return &RangeError{Field: "rope_broken_wires_strand", Msg: fmt.Sprintf("%d broken wires in one strand, more than the %d counted in the whole lay (which includes them): check the counts", in.StrandBrokenWires, in.BrokenWires)}
 	}
 	hasDia := in.MeasuredM > 0 && (in.MaxReductionM > 0 || in.MaxReductionFraction > 0)
 	hasBW := in.BrokenWires >= 0 && in.MaxBrokenWires > 0 || in.StrandBrokenWires >= 0 && in.MaxStrandBrokenWires > 0

@@ -136,7 +136,7 @@ func TestRopeWear(t *testing.T) {
 		{"broken wires govern", calc.WearInput{NominalM: 0.5 * inch, MeasuredM: (0.5 - 1.0/64) * inch, MaxReductionM: b302Half, BrokenWires: 9, MaxBrokenWires: 12},
 			// When broken wires govern, demand and capacity are the counts (9 of 12) so that
 			// utilisation = demand / capacity still holds.
-			9, 12, "1", 0.75, 0.5, 0.75, 0.5 * inch, "broken wires govern"},
+			9, 12, "1", 0.75, 0.5, 0.75, 0.5 * inch, "broken wires in one lay govern (9 of 12)"},
 		// Diameter governs over 3 of 12 broken wires.
 		{"diameter governs", calc.WearInput{NominalM: 0.5 * inch, MeasuredM: (0.5 - 1.0/64) * inch, MaxReductionM: b302Half, BrokenWires: 3, MaxBrokenWires: 12},
 			inch / 64, inch / 32, "m", 0.5, 0.5, 0.25, 0.5 * inch, ""},
@@ -327,6 +327,9 @@ func TestRopeWearStrand(t *testing.T) {
 		if !strings.Contains(o.Note, "broken wires "+tc.where+" govern") {
 			t.Errorf("%s: note %q does not say the count %s governs", tc.name, o.Note, tc.where)
 		}
+		if got := o.Figure("broken_wires_utilisation"); got != float64(tc.lay)/12 {
+			t.Errorf("%s: lay utilisation figure %g, want %g (the lay count alone)", tc.name, got, float64(tc.lay)/12)
+		}
 		if got := o.Figure("strand_broken_wires_utilisation"); got != float64(tc.strand)/4 {
 			t.Errorf("%s: strand utilisation figure %g, want %g", tc.name, got, float64(tc.strand)/4)
 		}
@@ -335,6 +338,26 @@ func TestRopeWearStrand(t *testing.T) {
 		if o2, _ := calc.RopeWear(in); !approx.Equal(o2.Utilisation, tc.u, 1e-12, 1e-12) || !strings.Contains(o2.Note, "("+strconv.Itoa(int(tc.demand))+" of ") {
 			t.Errorf("%s with a diameter: u %g note %q", tc.name, o2.Utilisation, o2.Note)
 		}
+	}
+	// At the discard count the rope is removed (ASME B30.2: "twelve … in one lay or four
+	// … in one strand in one lay"): u = 1 fails outright, whatever the marginal band.
+	for _, in := range []calc.WearInput{
+		{NominalM: 16 * mm, BrokenWires: 12, MaxBrokenWires: 12, StrandBrokenWires: -1},
+		{NominalM: 16 * mm, BrokenWires: -1, StrandBrokenWires: 4, MaxStrandBrokenWires: 4},
+		{NominalM: 16 * mm, MeasuredM: 15.9 * mm, MaxReductionFraction: 0.10, BrokenWires: 6, MaxBrokenWires: 12, StrandBrokenWires: 4, MaxStrandBrokenWires: 4},
+	} {
+		o, err := calc.RopeWear(in)
+		if err != nil || o.Utilisation != 1 || o.Verdict != calc.Fail || !strings.Contains(o.Note, "the discard count is reached") {
+			t.Errorf("%+v: %v, u %g, verdict %v, note %q; want u 1, fail", in, err, o.Utilisation, o.Verdict, o.Note)
+		}
+	}
+	// One below the count is judged by the utilisation (11/12 ≈ 0.917: marginal in a 10 % band).
+	if o, _ := calc.RopeWear(calc.WearInput{NominalM: 16 * mm, BrokenWires: 11, MaxBrokenWires: 12, StrandBrokenWires: -1}); o.Verdict != calc.ByUtilisation {
+		t.Errorf("11 of 12: verdict %v, want by utilisation", o.Verdict)
+	}
+	// More in one strand than in the whole lay (which includes them) is a register slip.
+	if _, err := calc.RopeWear(calc.WearInput{NominalM: 16 * mm, BrokenWires: 1, MaxBrokenWires: 12, StrandBrokenWires: 5, MaxStrandBrokenWires: 4}); err == nil || !strings.Contains(err.Error(), "more than the 1 counted in the whole lay") {
+		t.Errorf("strand 5 > lay 1: %v", err)
 	}
 	// The strand count alone is a criterion.
 	if o, err := calc.RopeWear(calc.WearInput{NominalM: 16 * mm, BrokenWires: -1, StrandBrokenWires: 2, MaxStrandBrokenWires: 4}); err != nil || o.Utilisation != 0.5 {

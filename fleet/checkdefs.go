@@ -456,11 +456,16 @@ func checkDefinitions() []Definition {
 				if in.cr.Status == StatusMarginal {
 					verb = "examine the rope more often"
 				}
-				if bw, dia := in.fig("broken_wires_utilisation"), in.fig("diameter_utilisation"); !math.IsNaN(bw) && !(dia >= bw) {
+				lay, strand, dia := in.fig("broken_wires_utilisation"), in.fig("strand_broken_wires_utilisation"), in.fig("diameter_utilisation")
+				bw := lay
+				if math.IsNaN(bw) || strand > bw {
+					bw = strand
+				}
+				if !math.IsNaN(bw) && !(dia >= bw) {
 					// Broken wires govern (or were the only criterion): the governing count
 					// and its discard count are the check's demand and capacity.
 					where := "in one lay"
-					if in.fig("strand_broken_wires_utilisation") == bw {
+					if bw == strand {
 						where = "in one strand in one lay"
 					}
 					return say(verb + ": " + num3(in.cr.Demand) + " broken wires " + where + " (discard at " + num3(in.cr.Capacity) + ")")
@@ -487,7 +492,9 @@ func checkDefinitions() []Definition {
 			Source:    "no limiter.required_from row in the rules in force",
 			Reference: []string{"TestOverloadLimiter", "TestInspectionDueCalendar"},
 			applicable: func(d *hoistData) (bool, string) {
-				if !d.isMissing("limiter_fitted") {
+				if !d.isMissing("limiter_fitted") || !(d.h.RatedLoadKg > 0) {
+					// A limiter said fitted or not; or a rated load not known, so whether
+					// the rules require one is not known either: the check needs it.
 					return true, ""
 				}
 				if from, _, ok, err := d.peekRule("limiter.required_from"); err == nil && ok && d.h.RatedLoadKg >= from {

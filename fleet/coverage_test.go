@@ -1,7 +1,9 @@
 package fleet
 
 import (
+	"math"
 	"slices"
+	"strings"
 	"testing"
 )
 
@@ -121,5 +123,53 @@ func TestFleetCoverage(t *testing.T) {
 	perHoist := len(rs[1].Gaps) // checks MBF alone holds back on one hoist
 	if sorted[0].Unlocks != 3*perHoist || sorted[0].Waiting != 3*perHoist || len(sorted[0].Checks) != perHoist {
 		t.Errorf("MBF unlocks %d results of %v, want %d (3 hoists × %d checks)", sorted[0].Unlocks, sorted[0].Checks, 3*perHoist, perHoist)
+	}
+}
+
+// TestMissingRatedLoad: a hoist whose register gives no rated load is not checked at
+// 0 kg: its rated load is unknown (NaN: null in JSONL) and the overload limiter, whose
+// need depends on the rated load, is unchecked for want of it, not "not applicable".
+func TestMissingRatedLoad(t *testing.T) {
+	c := isoChecker(t)
+	r := c.Check(winchA(t).drop("rated_load").drop("limiter_fitted").asset())
+	if !math.IsNaN(r.RatedLoadKg) {
+		t.Errorf("rated load %g kg, want unknown (NaN)", r.RatedLoadKg)
+	}
+	if cr := mustCheck(t, r, "overload-limiter"); cr.Status != StatusUnchecked {
+		t.Errorf("overload-limiter %s %q, want unchecked", cr.Status, cr.Message)
+	}
+}
+
+// TestDutyGroupGap: without a duty group (none given, none derived) the checks whose
+// rules have rows by group only are unchecked for want of it as well: the Duty group is
+// their gap (and in their "needs"), alone where it is the only one missing.
+func TestDutyGroupGap(t *testing.T) {
+	c := isoChecker(t)
+	r := c.Check(winchA(t).drop("duty_group").drop("drum_diameter").asset())
+	if r.Derived != nil {
+		t.Logf("derived: %v", r.Derived)
+	}
+	rdf := mustCheck(t, r, "rope-design-factor") // ISO 4308-1 Zp by group: M1 … M8
+	if rdf.Status != StatusUnchecked || !strings.Contains(rdf.Message, "Duty group") {
+		t.Fatalf("rope-design-factor %s %q, want unchecked needing the Duty group", rdf.Status, rdf.Message)
+	}
+	dr := mustCheck(t, r, "drum-ratio") // needs the drum diameter and h1 by group
+	if !strings.Contains(dr.Message, "needs Drum diameter, Duty group") {
+		t.Errorf("drum-ratio message %q, want both columns", dr.Message)
+	}
+	var rdfGaps, drGaps []Gap
+	for _, g := range r.Gaps {
+		switch g.Check {
+		case "rope-design-factor":
+			rdfGaps = append(rdfGaps, g)
+		case "drum-ratio":
+			drGaps = append(drGaps, g)
+		}
+	}
+	if len(rdfGaps) != 1 || rdfGaps[0].Key != "duty_group" || !rdfGaps[0].Alone {
+		t.Errorf("rope-design-factor gaps %+v, want the duty group alone", rdfGaps)
+	}
+	if len(drGaps) != 2 || drGaps[0].Alone || drGaps[1].Alone {
+		t.Errorf("drum-ratio gaps %+v, want drum diameter and duty group, neither alone", drGaps)
 	}
 }

@@ -205,6 +205,9 @@ func (c *Checker) Check(a *Asset) *Result {
 		prepared[i] = c.prepare(d, &c.specs[i])
 	}
 	r.Evaluation = c.evaluate(d, d.h, prepared, true, r.Checks[:0])
+	if !(d.h.RatedLoadKg > 0) {
+		r.Evaluation.RatedLoadKg = math.NaN() // no rated load in the register: not 0 kg
+	}
 	for i := range c.specs {
 		if after := c.specs[i].afterCheck; after != nil {
 			after(d, &r.Checks[i])
@@ -322,18 +325,17 @@ func (c *Checker) prepare(d *hoistData, s *checkSpec) preparedCheck {
 			return p
 		}
 	}
-	var missing []string
+	missingNeed := false
 	for _, i := range needs {
 		if e := d.bad[i]; e != nil {
 			p.status, p.message = badStatus(e), e.Error()
 			return p
 		}
-		if d.missing[i] {
-			missing = append(missing, c.columns[i].Header)
-		}
+		missingNeed = missingNeed || d.missing[i]
 	}
-	if len(missing) > 0 {
-		p.status, p.message = StatusUnchecked, "needs "+strings.Join(missing, ", ")
+	if missingNeed {
+		// Every column the check lacks, the duty group included (noteGaps).
+		p.status, p.message = StatusUnchecked, "needs "+strings.Join(d.gapHeaders(gapsFrom), ", ")
 		return p
 	}
 	d.reviewRows, d.reviewOnly = d.reviewRows[:0], false
@@ -397,6 +399,33 @@ func (d *hoistData) noteGaps(s *checkSpec, needs []int) {
 			add(i, false)
 		}
 	}
+	// A check whose rules have rows by duty group only, on a hoist whose group is not
+	// known (no Duty group, and none derived), lacks the Duty group too.
+	if d.scope.Group == 0 {
+		if g, ok := d.c.keys.lookup("duty_group"); ok && d.bad[g] == nil {
+			for _, id := range s.Rules {
+				if i, ri := d.c.opts.Rules.LookupIndexes(id, d.scope); i < 0 && ri < 0 {
+					add(g, false)
+					break
+				}
+			}
+		}
+	}
+}
+
+// gapHeaders are the headers of the columns of the gaps from from on that are blank
+// (not those given without a unit: their message says so), for "needs …".
+func (d *hoistData) gapHeaders(from int) []string {
+	var out []string
+	for _, g := range d.gaps[from:] {
+		if g.Unitless {
+			continue
+		}
+		if i, ok := d.c.keys.lookup(g.Key); ok {
+			out = append(out, d.c.columns[i].Header)
+		}
+	}
+	return out
 }
 
 // prepareReview readies the review of a check whose rules have review rows (provenance

@@ -187,7 +187,7 @@ func (d *hoistData) rule(id string) (float64, int, error) {
 	t := d.c.opts.Rules
 	i := d.lookupRule(id)
 	if i < 0 {
-		return 0, -1, t.NoRowError(id, d.scope)
+		return 0, -1, d.noRow(id)
 	}
 	v, err := t.ValueAt(i)
 	if err != nil {
@@ -202,10 +202,22 @@ func (d *hoistData) ruleWord(id string) (string, int, error) {
 	t := d.c.opts.Rules
 	i := d.lookupRule(id)
 	if i < 0 {
-		return "", -1, fmt.Errorf("rule %s: no row of the %s rules applies", id, t.Profile)
+		return "", -1, d.noRow(id)
 	}
 	d.rules = append(d.rules, i)
 	return strings.ToLower(strings.TrimSpace(t.Rules[i].Value)), i, nil
+}
+
+// noRow is the error for a rule no row of the rules in force applies to: on a hoist
+// whose duty group is not known, the missing Duty group (the rows are by group), else the
+// table's own message.
+func (d *hoistData) noRow(id string) error {
+	t := d.c.opts.Rules
+	if d.scope.Group == 0 {
+		return &Error{Kind: Missing, Field: "duty_group", Asset: d.a.ID,
+			Err: fmt.Errorf("needs Duty group: the %s rules give %s by duty group", t.Profile, id)}
+	}
+	return t.NoRowError(id, d.scope)
 }
 
 // resolve reads an asset into hoistData: SI values with defaults applied and reported.

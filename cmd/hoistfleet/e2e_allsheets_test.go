@@ -76,6 +76,30 @@ func TestSheetAllEndToEnd(t *testing.T) {
 	if !strings.Contains(res.out, `skipped, no recognisable header: "Read me"`) && !strings.Contains(res.err, `skipped, no recognisable header: "Read me"`) {
 		t.Errorf("the terminal does not say which sheets were skipped:\n%s\n%s", res.out, res.err)
 	}
+	// explain: the same id and row on two sheets are two records, none lost.
+	recs := filepath.Join(dir, "recs")
+	res = runCmd(t, "", "explain", book, "--sheet", "all", "--all", "-o", recs, "--as-of", "2026-12-01")
+	res.mustExit(t, exitOK, "explain --sheet all --all")
+	files, _ := os.ReadDir(recs)
+	if len(files) != 4 || !strings.Contains(res.out, "4 calculation records written") {
+		t.Errorf("explain --all: %d files (%s), want 4", len(files), res.out)
+	}
+	id := hs[0].str("asset_id")
+	one := filepath.Join(dir, "one.txt")
+	res = runCmd(t, "", "explain", book, "--sheet", "all", "--asset", id, "-o", one, "--as-of", "2026-12-01")
+	res.mustExit(t, exitOK, "explain --asset of an id on two sheets")
+	for _, sheet := range []string{"North_yard", "South_yard"} {
+		p := filepath.Join(dir, "one_"+sheet+"_row-0002_"+id+".txt")
+		b, err := os.ReadFile(p)
+		if err != nil {
+			t.Errorf("%v (stderr %q)", err, res.err)
+			continue
+		}
+		if want := ", sheet " + strings.ReplaceAll(sheet, "_", " ") + ", row 2"; !strings.Contains(string(b), want) {
+			t.Errorf("%s does not say %q", p, want)
+		}
+	}
+
 	reg := sheetRows(t, openXLSX(t, out), "Register", 0)
 	col := colIndex(reg[0], "Register sheet")
 	if col < 0 || len(reg) < 5 || reg[1][col] != "North yard" || reg[4][col] != "South yard" {

@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"time"
 
@@ -82,7 +83,7 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 		}
 		info.InputSHA256 = sum
 	}
-	w := recordWriter{st: st, h: h, info: info, format: f, pdf: pdf, chk: chk}
+	w := &recordWriter{st: st, h: h, info: info, format: f, pdf: pdf, chk: chk, names: map[string]int{}}
 	if all {
 		if err := os.MkdirAll(out, 0o755); err != nil {
 			return fmt.Errorf("explain: %w", err)
@@ -105,7 +106,9 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 		}
 		found++
 		r := chk.Check(a)
-		if deferWrites {
+		if deferWrites || !all {
+			// One asset id: its rows are gathered first, since an id that repeats (at
+			// two sites, on two sheets) writes one record per row.
 			pending = append(pending, r)
 			continue
 		}
@@ -115,15 +118,26 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 	}
 	if deferWrites {
 		info.InputSHA256 = in.sha256()
-		for _, r := range pending {
-			if err := w.write(r, out, all, ext); err != nil {
-				return err
-			}
+	}
+	var written []string
+	for _, r := range pending {
+		path := out
+		if !all && len(pending) > 1 && out != "" && out != "-" {
+			// Several rows with the asset id, one file asked for: a file each, named
+			// after the file asked for and the row, so that no record replaces another.
+			ext := filepath.Ext(out)
+			path = strings.TrimSuffix(out, ext) + "_" + recordFileName(r.Asset) + ext
+			written = append(written, path)
+		}
+		if err := w.write(r, path, all, ext); err != nil {
+			return err
 		}
 	}
 	switch {
 	case found == 0 && !all:
 		return usagef("no hoist with asset id %q in %s", asset, fs.Arg(0))
+	case found > 1 && !all && len(written) > 0:
+		fmt.Fprintf(st.Err, "hoistfleet: asset id %q appears %d times in the register; a record for each: %s\n", asset, found, strings.Join(written, ", "))
 	case found > 1 && !all:
 		fmt.Fprintf(st.Err, "hoistfleet: asset id %q appears %d times in the register; every record is shown\n", asset, found)
 	case all:
@@ -134,13 +148,22 @@ func runExplain(ctx context.Context, args []string, st Streams) error {
 
 var unsafeName = regexp.MustCompile(`[^A-Za-z0-9._-]+`)
 
-// recordFileName is "row-0007_H-042": the row keeps names unique when ids repeat.
+// recordFileName is "row-0007_H-042": the row keeps names unique when ids repeat; with
+// several sheets read as one register the sheet leads ("Nord_row-0007_H-042").
 func recordFileName(a *fleet.Asset) string {
 	id := strings.Trim(unsafeName.ReplaceAllString(a.ID, "_"), "_.")
 	if id == "" {
 		id = "no-id"
 	}
-	return fmt.Sprintf("row-%04d_%s", a.Row, id)
+	name := fmt.Sprintf("row-%04d_%s", a.Row, id)
+	if a.Sheet != "" {
+		sheet := strings.Trim(unsafeName.ReplaceAllString(a.Sheet, "_"), "_.")
+		if sheet == "" {
+			sheet = "sheet"
+		}
+		name = sheet + "_" + name
+	}
+	return name
 }
 
 // recordWriter writes calculation records in one format.
@@ -151,14 +174,22 @@ type recordWriter struct {
 	format record.Format
 	pdf    bool
 	chk    *fleet.Checker
+	names  map[string]int // --all: the file names written, so that none is written twice
 }
 
 // write writes r's record: to out (a file, or standard output for "" and "-"), or with
 // all into the folder out, named after its row and asset id.
-func (w recordWriter) write(r *fleet.Result, out string, all bool, ext string) error {
+func (w *recordWriter) write(r *fleet.Result, out string, all bool, ext string) error {
 	path := out
 	if all {
-		path = filepath.Join(out, recordFileName(r.Asset)+ext)
+		name := recordFileName(r.Asset)
+		if n := w.names[name]; n > 0 { // two sheet names that read alike in a file name
+			w.names[name] = n + 1
+			name += "-" + strconv.Itoa(n+1)
+		} else {
+			w.names[name] = 1
+		}
+		path = filepath.Join(out, name+ext)
 	}
 	emit := func(dst io.Writer) error {
 		if w.pdf {

@@ -339,8 +339,8 @@ func (p *printer) titleBlock(r *fleet.Result, h *fleet.Header, info *fleet.RunIn
 		site = strings.TrimPrefix(site+", "+loc, ", ")
 	}
 	sheet := ""
-	if h.Sheet != "" && h.Sheet != filepath.Base(info.Input) {
-		sheet = ", sheet " + h.Sheet
+	if s := record.RowSheet(r, h); s != "" && s != filepath.Base(info.Input) {
+		sheet = ", sheet " + s
 	}
 	sha := info.InputSHA256
 	if sha == "" {

@@ -55,6 +55,12 @@ func InputRows(r *fleet.Result, h *fleet.Header) [][]string {
 		if given == "" && si == "" {
 			continue
 		}
+		if given == "" && col.Key != "" && givenElsewhere(a, h, col.Key, i) {
+			// Several sheets read as one register (--sheet all) can give a column of ours
+			// under two titles (two units): the hoist's value belongs to the one its
+			// sheet filled in.
+			continue
+		}
 		rows = append(rows, []string{col.Title, given, si})
 	}
 	return rows
@@ -141,11 +147,20 @@ func CheckResults(c *fleet.CheckResult) []string {
 	return out
 }
 
+// RowSheet is the sheet the hoist's row is on: its own (several sheets read as one
+// register, --sheet all), else the header's.
+func RowSheet(r *fleet.Result, h *fleet.Header) string {
+	if r.Asset.Sheet != "" {
+		return r.Asset.Sheet
+	}
+	return h.Sheet
+}
+
 // Provenance is the record's opening line: register, sheet, row, rules, as-of date, tool.
 func Provenance(r *fleet.Result, h *fleet.Header, info *fleet.RunInfo) string {
 	sheet := ""
-	if h.Sheet != "" && h.Sheet != filepath.Base(info.Input) { // a CSV register has no sheet
-		sheet = ", sheet " + h.Sheet
+	if s := RowSheet(r, h); s != "" && s != filepath.Base(info.Input) { // a CSV register has no sheet
+		sheet = ", sheet " + s
 	}
 	s := fmt.Sprintf("Register %s%s, row %d", info.Input, sheet, r.Asset.Row)
 	if info.InputSHA256 != "" {
@@ -202,6 +217,17 @@ func LimitRows(r *fleet.Result) [][]string {
 }
 
 // Kg formats a mass in kg to 0.1 kg (the rating's resolution), "—" for NaN.
+// givenElsewhere reports whether a's cell under another column of h with the key is
+// filled in.
+func givenElsewhere(a *fleet.Asset, h *fleet.Header, key string, except int) bool {
+	for j, c := range h.Columns {
+		if j != except && c.Key == key && j < len(a.Cells) && a.Cells[j].Text != "" {
+			return true
+		}
+	}
+	return false
+}
+
 func Kg(v float64) string {
 	if math.IsNaN(v) {
 		return "—"

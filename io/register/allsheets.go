@@ -6,9 +6,11 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
 	"hoistfleet/fleet"
+	"hoistfleet/io/units"
 )
 
 // SheetAll is the --sheet value that reads every sheet of a workbook.
@@ -22,15 +24,18 @@ const SheetColumnTitle = "Register sheet"
 // the other, as one register (--sheet all): a site's hoists on one sheet, another site's
 // on the next. Sheets without a header (a cover, a summary, notes) are skipped and
 // listed. Its header is the sheets' headers combined: the first sheet's columns, then
-// each column of a later sheet whose title is new, then a "Register sheet" column naming
-// each row's sheet; every row's cells are placed under their own titles. On a sheet
-// without a Site column the sheet's name is the site, and said so.
+// each column of a later sheet that is new (combineKey: the same column of ours in the
+// same unit is one column, whatever each sheet titles it), then a "Register sheet" column
+// naming each row's sheet; every row's cells are placed under their own columns. On a
+// sheet without a Site column the sheet's name is the site (and its cell in the Site
+// column), and said so.
 type AllSheets struct {
 	file    string
 	sheets  []string
 	readers []*Reader
 	places  [][]int // per reader: its column i → the combined column
 	noSite  []bool  // per reader: the sheet has no Site column
+	siteCol int     // the combined header's (first) Site column, -1 when none
 	header  *fleet.Header
 	copied  []int // per reader: its header problems copied so far
 	cur     int
@@ -86,8 +91,18 @@ func quoteAll(list []string) string {
 	return strings.Join(q, ", ")
 }
 
-// combine builds the combined header: columns matched by their title as written (the
-// same field in two units stays two columns, each shown in its own unit).
+// combineKey is what makes two sheets' columns one column of the combined header: the
+// same column of ours in the same unit (whatever each sheet titles it: "Plant No" and
+// "Asset ID"; "SWL" with a units row "t" and "SWL [t]"), or for a column that is not ours,
+// the same title. The same field in two units stays two columns, each shown in its unit.
+func combineKey(c fleet.Column) string {
+	if c.Key != "" {
+		return "key\x00" + c.Key + "\x00" + strconv.FormatFloat(c.Factor, 'g', -1, 64) + "\x00" + strings.ToLower(c.Unit)
+	}
+	return "title\x00" + units.Normalize(c.Title)
+}
+
+// combine builds the combined header (combineKey).
 func (s *AllSheets) combine() {
 	first := s.readers[0].Header()
 	h := &fleet.Header{File: first.File, Sheet: SheetAll, Row: first.Row}
@@ -100,11 +115,11 @@ func (s *AllSheets) combine() {
 		hasSite := false
 		for _, c := range rh.Columns {
 			hasSite = hasSite || c.Key == "site"
-			title := strings.TrimSpace(c.Title)
-			j, ok := at[title]
-			if !ok || title == "" {
+			key := combineKey(c)
+			j, ok := at[key]
+			if !ok || strings.TrimSpace(c.Title) == "" {
 				j = len(h.Columns)
-				at[title] = j
+				at[key] = j
 				c.Index = j
 				h.Columns = append(h.Columns, c)
 			}
@@ -113,6 +128,13 @@ func (s *AllSheets) combine() {
 		s.noSite[k] = !hasSite
 	}
 	h.Columns = append(h.Columns, fleet.Column{Index: len(h.Columns), Title: SheetColumnTitle, Factor: 1})
+	s.siteCol = -1
+	for i, c := range h.Columns {
+		if c.Key == "site" {
+			s.siteCol = i
+			break
+		}
+	}
 	s.header = h
 	for k, no := range s.noSite {
 		if no {
@@ -187,6 +209,9 @@ func (s *AllSheets) place(a *fleet.Asset) *fleet.Asset {
 	a.Cells, a.Sheet = cells, sheet
 	if s.noSite[k] && !a.Blank {
 		_ = a.Set("site", fleet.Value{State: fleet.OK, Text: sheet, Raw: sheet, Cell: fleet.CellRef{Sheet: sheet, Row: a.Row}})
+		if s.siteCol >= 0 {
+			cells[s.siteCol] = fleet.Cell{Text: sheet} // the site the note says it takes
+		}
 	}
 	if a.ID != "" {
 		key := [2]string{a.ID, a.Get("site").Text}

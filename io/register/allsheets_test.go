@@ -48,6 +48,11 @@ func siteBook(t *testing.T) string {
 		{"Castle Depot", 12, "H-3", 2000},
 		{"Castle Depot", 12, "H-3", 2000},
 	})
+	put("Dock", [][]any{
+		{"Plant No", "SWL", "Rope dia"},
+		{"", "t", "mm"},
+		{"D-7", 1.6, 9},
+	})
 	put("Totals", [][]any{{"Site", "Hoists"}, {"Brindle Yard", 2}, {"Castle Depot", 3}})
 	path := filepath.Join(t.TempDir(), "sites.xlsx")
 	if err := f.SaveAs(path); err != nil {
@@ -56,10 +61,11 @@ func siteBook(t *testing.T) string {
 	return path
 }
 
-// TestAllSheets: --sheet all reads both site sheets as one register: every hoist, each
-// cell under its own title (10000 kg under "Rated load [kg]", not under "[t]"), the sheet
-// named on each row, the sheet's name as the site where it has no Site column, the cover
-// and totals sheets skipped and listed; H-1 at two sites is two hoists, H-3 twice at one
+// TestAllSheets: --sheet all reads the site sheets as one register: every hoist, each
+// cell under its own column (10000 kg under "Rated load [kg]", not under "[t]"; Dock's
+// "Plant No" and "SWL" with a units row "t" under "Asset ID" and "Rated load [t]"), the
+// sheet named on each row, the sheet's name as the site (and in the Site column) where it
+// has no Site column, the cover and totals sheets skipped and listed; H-1 at two sites is two hoists, H-3 twice at one
 // site is a duplicate (the reader's own check, within the sheet).
 func TestAllSheets(t *testing.T) {
 	s, err := NewXLSXAllSheets(siteBook(t), Options{})
@@ -87,8 +93,8 @@ func TestAllSheets(t *testing.T) {
 	if got := strings.Join(titles, "|"); got != wantTitles {
 		t.Errorf("combined header %q, want %q", got, wantTitles)
 	}
-	if len(as) != 5 {
-		t.Fatalf("%d hoists, want 5", len(as))
+	if len(as) != 6 {
+		t.Fatalf("%d hoists, want 6", len(as))
 	}
 	type row struct {
 		id, site, sheet string
@@ -96,11 +102,13 @@ func TestAllSheets(t *testing.T) {
 		cells           string
 	}
 	want := []row{
-		{"H-1", "Brindle Yard", "Brindle Yard", 5000, "H-1|5|14|||Brindle Yard"},
-		{"H-2", "Brindle Yard", "Brindle Yard", 3200, "H-2|3.2|11|||Brindle Yard"},
+		{"H-1", "Brindle Yard", "Brindle Yard", 5000, "H-1|5|14|Brindle Yard||Brindle Yard"},
+		{"H-2", "Brindle Yard", "Brindle Yard", 3200, "H-2|3.2|11|Brindle Yard||Brindle Yard"},
 		{"H-1", "Castle Depot", "Castle Depot", 10000, "H-1||16|Castle Depot|10000|Castle Depot"},
 		{"H-3", "Castle Depot", "Castle Depot", 2000, "H-3||12|Castle Depot|2000|Castle Depot"},
 		{"H-3", "Castle Depot", "Castle Depot", 2000, "H-3||12|Castle Depot|2000|Castle Depot"},
+		// Dock titles its columns otherwise, with units in a units row: the same columns.
+		{"D-7", "Dock", "Dock", 1600, "D-7|1.6|9|Dock||Dock"},
 	}
 	for i, w := range want {
 		a := as[i]
@@ -124,7 +132,7 @@ func TestAllSheets(t *testing.T) {
 		notes += p.Error() + "\n"
 	}
 	for _, w := range []string{
-		`--sheet all: 2 sheets read ("Brindle Yard", "Castle Depot"); skipped, no recognisable header: "Cover" (`,
+		`--sheet all: 3 sheets read ("Brindle Yard", "Castle Depot", "Dock"); skipped, no recognisable header: "Cover" (`,
 		`"Totals" (`,
 		`sheet "Brindle Yard" has no Site column: its name is each of its hoists' site`,
 	} {

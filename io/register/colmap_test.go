@@ -161,3 +161,25 @@ func TestInspectionIntervalHeader(t *testing.T) {
 		}
 	}
 }
+
+// TestColumnsFileClaimsBeforeSynonyms: a column the file gives to one register column is
+// that column even where another column's title would match it by a synonym and comes
+// first; the other is passed through, said so.
+func TestColumnsFileClaimsBeforeSynonyms(t *testing.T) {
+	m, err := ReadColumnMap("c.csv", strings.NewReader("register column,column,unit\nNennlast,rated_load,t\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := NewCSVOptions(strings.NewReader("Asset ID,SWL [t],Nennlast,Capacity [t]\nH1,5,3.2,7\n"), "w.csv", Options{Columns: m})
+	if err != nil {
+		t.Fatal(err)
+	}
+	as := readAll(t, r)
+	if got := strings.Join(columnKeys(r.Header()), ","); got != "asset_id,,rated_load," {
+		t.Errorf("columns %q, want only Nennlast read as the rated load", got)
+	}
+	if v := as[0].Get("rated_load"); v.Num != 3200 {
+		t.Errorf("rated load %+v, want 3200 kg from Nennlast", v)
+	}
+	hasProblem(t, r, `w.csv!B1: "SWL [t]" would be Rated load by its title, but c.csv gives Rated load to "Nennlast": passed through unread`)
+}

@@ -385,6 +385,14 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 	}
 	var numeric, nonEmpty, matched int
 	var mappedRead, mappedIgnored int // columns the columns file names
+	// The columns the columns file gives to a register column win over a column whose
+	// title only the synonyms match: claimed[key] is the title the file names.
+	claimed := map[string]string{}
+	for _, raw := range titles {
+		if e := r.colMap.lookup(raw); e != nil && e.key != "" {
+			claimed[e.key] = raw
+		}
+	}
 	for i, raw := range titles {
 		ref := fleet.CellRef{Sheet: r.sheet, Row: row, Col: i + 1}
 		col := fleet.Column{Index: i, Title: raw, Factor: 1}
@@ -431,6 +439,10 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 				}
 				spec.mapDates = mapped.dates
 			}
+		} else if owner, ok := claimed[key]; ok && key != "" {
+			sc, _ := index.col(key)
+			problem(fleet.Other, "", "%q would be %s by its title, but %s gives %s to %q: passed through unread", raw, sc.Header, r.colMap.File, sc.Header, owner)
+			key = ""
 		}
 		hidden := r.hiddenCols[i+1]
 		switch {
