@@ -1,10 +1,12 @@
 package register
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
 	"hoistfleet/fleet/schema"
@@ -59,7 +61,20 @@ var mapHeaders = map[string]string{
 // column of ours, a unit not of the column's quantity, a date order on a column that is
 // no date, or one register column named twice is an error naming the file and line.
 func ReadColumnMap(name string, r io.Reader) (*ColumnMap, error) {
-	cr := csv.NewReader(r)
+	b, err := io.ReadAll(io.LimitReader(r, maxColumnsFile+1))
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", name, err)
+	}
+	if len(b) > maxColumnsFile {
+		return nil, fmt.Errorf("%s: larger than %d bytes: a columns file has a row per register column", name, maxColumnsFile)
+	}
+	b = bytes.TrimPrefix(b, []byte("\ufeff")) // a spreadsheet's UTF-8 mark
+	cr := csv.NewReader(bytes.NewReader(b))
+	// A spreadsheet set to a comma decimal separator saves CSV with semicolons: the
+	// first line says which (it names the file's columns, so it holds the separator).
+	if first, _, _ := bytes.Cut(b, []byte("\n")); bytes.Count(first, []byte(";")) > bytes.Count(first, []byte(",")) {
+		cr.Comma = ';'
+	}
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
 	m := &ColumnMap{File: name, entries: map[string]*mapEntry{}}
@@ -72,11 +87,18 @@ func ReadColumnMap(name string, r io.Reader) (*ColumnMap, error) {
 	}
 	at := map[string]int{}
 	for i, h := range head {
-		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
+		h = strings.ToLower(strings.TrimSpace(h))
 		if f, ok := mapHeaders[h]; ok {
 			at[f] = i + 1
 		} else if h != "" {
 			return nil, fmt.Errorf("%s line 1: %q is not a columns-file column: the first row is 'register column,column,unit,date order' (unit and date order optional)", name, head[i])
+		}
+	}
+	// Every entry is checked, and every fault reported at once (up to maxMapErrors).
+	var errs []string
+	fault := func(format string, a ...any) {
+		if len(errs) < maxMapErrors {
+			errs = append(errs, fmt.Sprintf(format, a...))
 		}
 	}
 	if at["title"] == 0 || at["key"] == 0 {
@@ -96,7 +118,11 @@ func ReadColumnMap(name string, r io.Reader) (*ColumnMap, error) {
 		}
 		line, _ := cr.FieldPos(0)
 		if err != nil {
-			return nil, fmt.Errorf("%s: %w", name, err)
+			fault("%s: %v", name, err)
+			if _, ok := err.(*csv.ParseError); ok {
+				continue
+			}
+			break
 		}
 		e := &mapEntry{line: line, title: field(rec, "title")}
 		ours := field(rec, "key")
@@ -105,24 +131,29 @@ func ReadColumnMap(name string, r io.Reader) (*ColumnMap, error) {
 		}
 		loc := e.where(name)
 		if e.title == "" {
-			return nil, fmt.Errorf("%s: no register column given for %q", loc, ours)
+			fault("%s: no register column given for %q", loc, ours)
+			continue
 		}
 		n := units.Normalize(e.title)
 		if prev, ok := m.entries[n]; ok {
-			return nil, fmt.Errorf("%s: register column %q is already mapped on line %d", loc, e.title, prev.line)
+			fault("%s: register column %q is already mapped on line %d", loc, e.title, prev.line)
+			continue
 		}
 		var col schema.Column
 		switch strings.ToLower(ours) {
 		case "ignore", "-", "none":
 		case "":
-			return nil, fmt.Errorf("%s: no column of ours given for %q: write one of ours (hoistfleet columns lists them) or 'ignore'", loc, e.title)
+			fault("%s: no column of ours given for %q: write one of ours (hoistfleet columns lists them) or 'ignore'", loc, e.title)
+			continue
 		default:
 			c, ok := ourColumn(ours)
 			if !ok {
-				return nil, fmt.Errorf("%s: %q is not one of hoistfleet's columns: write its key or header as 'hoistfleet help columns' lists them (rated_load or Rated load), or 'ignore'", loc, ours)
+				fault("%s: %q is not one of hoistfleet's columns: write its key or header as 'hoistfleet help columns' lists them (rated_load or Rated load), or 'ignore'", loc, ours)
+				continue
 			}
 			if prev, ok := keyTaken[c.Key]; ok {
-				return nil, fmt.Errorf("%s: %s is already given by register column %q on line %d", loc, c.Header, prev.title, prev.line)
+				fault("%s: %s is already given by register column %q on line %d", loc, c.Header, prev.title, prev.line)
+				continue
 			}
 			col, e.key = c, c.Key
 			keyTaken[c.Key] = e
@@ -130,33 +161,57 @@ func ReadColumnMap(name string, r io.Reader) (*ColumnMap, error) {
 		if u := field(rec, "unit"); u != "" {
 			switch {
 			case e.key == "":
-				return nil, fmt.Errorf("%s: a unit (%q) for a column that is ignored", loc, u)
-			case col.Quantity == "":
-				return nil, fmt.Errorf("%s: %s takes no unit (got %q)", loc, col.Header, u)
-			}
-			if _, err := units.Factor(col.Quantity, u); err != nil {
-				return nil, fmt.Errorf("%s: %s: %v", loc, col.Header, err)
+				fault("%s: a unit (%q) for a column that is ignored", loc, u)
+				continue
+			case col.Quantity == "" && col.Unit == "":
+				fault("%s: %s takes no unit (got %q)", loc, col.Header, u)
+				continue
+			case col.Quantity == "" && !countUnit(col.Unit, u):
+				// A count in a fixed unit (an interval in months).
+				fault("%s: %s is in %s, not %q", loc, col.Header, col.Unit, u)
+				continue
+			case col.Quantity != "":
+				if _, err := units.Factor(col.Quantity, u); err != nil {
+					fault("%s: %s: %v", loc, col.Header, err)
+					continue
+				}
 			}
 			e.unit = u
 		}
 		if d := field(rec, "dates"); d != "" {
 			o, err := ParseDateOrder(d)
 			if err != nil {
-				return nil, fmt.Errorf("%s: %v", loc, err)
+				fault("%s: %v", loc, err)
+				continue
 			}
 			if e.key == "" || col.Kind != schema.Date {
-				return nil, fmt.Errorf("%s: a date order (%q) for a column that holds no dates", loc, d)
+				fault("%s: a date order (%q) for %q, a column that holds no dates", loc, d, e.title)
+				continue
 			}
 			e.dates = o
 		}
 		m.entries[n] = e
 		m.order = append(m.order, e)
 	}
+	if len(errs) > 0 {
+		more := ""
+		if len(errs) == maxMapErrors {
+			more = "\n(the first " + strconv.Itoa(maxMapErrors) + " faults; correct them and run again for any more)"
+		}
+		return nil, errors.New(strings.Join(errs, "\n") + more)
+	}
 	if len(m.order) == 0 {
 		return nil, errors.New(name + ": the columns file maps no column")
 	}
 	return m, nil
 }
+
+// maxColumnsFile is the largest columns file read (a row per register column), and
+// maxMapErrors the most faults it reports at once.
+const (
+	maxColumnsFile = 1 << 20
+	maxMapErrors   = 20
+)
 
 // ourColumn finds one of our columns by key or header (ignoring case and spacing).
 func ourColumn(s string) (schema.Column, bool) {

@@ -121,7 +121,8 @@ func TestReadColumnMapRefuses(t *testing.T) {
 		{"wrong unit", head + "L,rated_load,m,\n", "line 2: Rated load"},
 		{"unit on text", head + "S,site,kg,\n", "Site takes no unit"},
 		{"unit on ignored", head + "S,ignore,kg,\n", "a unit (\"kg\") for a column that is ignored"},
-		{"order on a number", head + "L,rated_load,t,dmy\n", "a date order (\"dmy\") for a column that holds no dates"},
+		{"order on a number", head + "L,rated_load,t,dmy\n", "a date order (\"dmy\") for \"L\", a column that holds no dates"},
+		{"interval in weeks", head + "Prüfintervall,inspection_interval,weeks,\n", "line 2: Inspection interval is in months, not \"weeks\""},
 		{"bad order", head + "D,last_inspection,,dym\n", "line 2: "},
 		{"maps nothing", head, "maps no column"},
 	} {
@@ -182,4 +183,32 @@ func TestColumnsFileClaimsBeforeSynonyms(t *testing.T) {
 		t.Errorf("rated load %+v, want 3200 kg from Nennlast", v)
 	}
 	hasProblem(t, r, `w.csv!B1: "SWL [t]" would be Rated load by its title, but c.csv gives Rated load to "Nennlast": passed through unread`)
+}
+
+// TestReadColumnMapDialects: a columns file as a spreadsheet saves it — a UTF-8 mark,
+// semicolons (a comma decimal separator) — is read; the interval column takes its months;
+// every fault of a file is reported at once, each with its line.
+func TestReadColumnMapDialects(t *testing.T) {
+	m, err := ReadColumnMap("c.csv", strings.NewReader("\ufeffregister column;column;unit;date order\nKran-Nr.;asset_id;;\nPrüfintervall;inspection_interval;Monate;\nTragfähigkeit;rated_load;t;\n"))
+	if err == nil || !strings.Contains(err.Error(), `c.csv line 3: Inspection interval is in months, not "Monate"`) {
+		t.Errorf("German month word: %v", err)
+	}
+	m, err = ReadColumnMap("c.csv", strings.NewReader("\ufeffregister column;column;unit;date order\nKran-Nr.;asset_id;;\nPrüfintervall;inspection_interval;months;\nTragfähigkeit;rated_load;t;\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := NewCSVOptions(strings.NewReader("Kran-Nr.,Tragfähigkeit,Prüfintervall\nK1,5,6\n"), "k.csv", Options{Columns: m})
+	if err != nil {
+		t.Fatal(err)
+	}
+	as := readAll(t, r)
+	if v := as[0].Get("inspection_interval"); v.State != fleet.OK || v.Num != 6 {
+		t.Errorf("interval %+v, want 6 (months, from the file)", v)
+	}
+	_, err = ReadColumnMap("c.csv", strings.NewReader("register column,column,unit\nA,nope,\nB,asset_id,kg\nC,site,\nC,site,\n"))
+	for _, want := range []string{"c.csv line 2: \"nope\"", "c.csv line 3: Asset ID takes no unit", "c.csv line 5: register column \"C\" is already mapped on line 4"} {
+		if err == nil || !strings.Contains(err.Error(), want) {
+			t.Errorf("all faults at once: %v lacks %q", err, want)
+		}
+	}
 }

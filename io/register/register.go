@@ -576,7 +576,7 @@ func isISODate(s string) bool {
 func sameUnit(key, a, b string) bool {
 	sc, ok := schemaIndex().col(key)
 	if !ok || sc.Quantity == "" {
-		return strings.EqualFold(a, b)
+		return strings.EqualFold(a, b) || ok && sc.Unit != "" && countUnit(sc.Unit, a) && countUnit(sc.Unit, b)
 	}
 	fa, errA := units.Factor(sc.Quantity, a)
 	fb, errB := units.Factor(sc.Quantity, b)
