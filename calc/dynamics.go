@@ -380,91 +380,49 @@ type dynStopAt struct {
 	peakT, dfc float64 // peak dead-end part tension [N] and its design factor
 }
 
-// BrakeStop computes the check `brake-stop`: the rated load lowering at the rated lowering
-// speed v (h.LoweringSpeed(): the lowering speed, or the hoisting speed where none is
-// given), power is lost, and the holding brakes reach full torque after the delay t_s.
-// The load first runs away freely, then decelerates under the brakes.
-//
-// Formulas (design.md "Exact definitions", Emergency stop):
-//
-//	v_j = v r_j / r_1                                                  lowering speed on layer j
-//	a_ff = m g / m_eq, m_eq = m + (n_e/r)² (I_d/η_RD + i² J_m/η_l)     runaway phase
-//	v_1 = v_j + a_ff t_s,  s_1 = v_j t_s + ½ a_ff t_s²                 during the delay
-//	motor-shaft brake: F_b = N_b M_b i n_e / r,  a_b = (F_b/η_l − m g) / m_eq
-//	drum brake:        F_b = N_b M_b n_e / r,    a_b = (F_b/η_RD − m g) / m_eq,d,
-//	                   m_eq,d = m + (n_e/r)² (I_d + η_g i² J_m) / η_RD
-//	s_2 = v_1² / (2 a_b),  s = s_1 + s_2,  t = t_s + v_1 / a_b
-//	T_peak = max_j m (g + a_b,j) / (n η_R)  (dead-end part),  Z_peak = MBF / T_peak
-//
-// Symbols as in Runaway, plus M_b one brake's rated torque [N m], N_b number of brakes,
-// t_s brake delay [s], η_g forward gear efficiency, MBF rope minimum breaking force [N].
-//
-// Why F_b is divided by η_l (motor-shaft brake): while braking a descending load the power
-// flows from the load, through the reeving and the back-driven gearbox, into the brake.
-// The losses sit between the load and the brake and absorb part of the load's power, so
-// the brake only has to absorb η_l of it: the force the brake can hold at the hook is
-// F_b/η_l, larger than F_b. The same rule puts η_RD under a drum brake's force, while the
-// rotor's stored energy reaches a drum brake through the gearbox forward (× η_g in
-// m_eq,d). Newton's second law for load, drum and rotor with the brake torque on the
-// rotor (or the drum) gives the a_b above; the rotor's deceleration torque never exceeds
-// the brake torque, so the power flow does not reverse in the gearbox during the stop.
-//
-// Evaluated at r_1 and r_L (design.md Revision 2, "Stop at every layer"): the motor turns
-// at the same speed on every layer, so on layer j the load lowers at v_j = v r_j / r_1
-// (the rope speed at the drum rim is ω_d r_j). The layer giving the longer stop is
-// reported (figures stop_layer = 1 or L and initial_speed_m_s = v_j), or the one where
-// the brakes cannot stop the load; the peak rope tension is the largest over the layers
-// (the hardest stop). Demand = s [m], Capacity = maxDistanceM (NaN
-// when maxDistanceM ≤ 0 or NaN: no limit, Verdict Info). a_b ≤ 0: the brakes cannot
-// decelerate the load: Verdict Fail, distance and time NaN.
-//
-// Self-locking train (η_gb ≤ 0): the load cannot drive the gearbox, so there is no
-// runaway phase and, with the power off, the gear friction itself stops the load (a
-// motor-shaft brake then only has to hold the rotor). Stopping is then reported as an
-// upper bound, Verdict Info: no speed is gained during the delay (a_ff = 0, s_1 = v t_s;
-// the real train decelerates at once), and the braking phase counts the brakes alone
-// with the gearbox treated as lossless in back-driving (η_gb = 1 in η_l and m_eq); the
-// drum-brake phase is as above. If even that bound finds a_b ≤ 0 the distance is NaN
-// (the gear, not the brake, holds the load), still Info. The peak rope tension and its
-// design factor are then NOT bounds: a locking gear stops the load harder than the brake.
-//
-// Valid ranges: as Runaway, plus M_b ≥ 0, N_b ≥ 1, t_s ≥ 0, v > 0, MBF ≥ 0 (0 = not
-// given: Z_peak NaN). Figures: distance_m, time_s, deceleration_m_s2,
-// peak_rope_tension_n, peak_design_factor, speed_at_brake_set_m_s, runaway_distance_m
-// (= s_1, the distance travelled between power loss and full brake torque), stop_layer,
-// initial_speed_m_s.
-func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
+// stopRun is the emergency stop worked out on every layer: BrakeStop's dynamics, which
+// BrakeEnergy reads too.
+type stopRun struct {
+	t          dynTrain
+	res        [2]dynStopAt
+	best       int // the layer of the longer stop, or the first whose brakes cannot stop
+	peak       int // the layer of the largest rope tension
+	lock       bool
+	ts, v      float64
+	brakeWhere string // "motor-shaft" or "drum"
+	steps      []Step  // the record so far (rec)
+}
+
+// brakeStopRun validates the inputs of the emergency stop and works it out on each layer
+// (BrakeStop's formulas); op names the calling check in errors. With rec it records the
+// steps.
+func brakeStopRun(op string, h Hoist, rec bool) (stopRun, error) {
 	t, err := dynTrainOf(h)
 	if err != nil {
-		return Outcome{}, fmt.Errorf("calc.BrakeStop: %w", err)
+		return stopRun{}, fmt.Errorf(op+": %w", err)
 	}
 	if err := dynBrakeInputs(h); err != nil {
-		return Outcome{}, fmt.Errorf("calc.BrakeStop: %w", err)
+		return stopRun{}, fmt.Errorf(op+": %w", err)
 	}
 	if !(h.LoweringSpeedMS >= 0) || math.IsInf(h.LoweringSpeedMS, 0) {
-		return Outcome{}, fmt.Errorf("calc.BrakeStop: %w", &RangeError{Field: "lowering_speed", Msg: fmt.Sprintf("lowering speed must be ≥ 0 (got %g m/s)", h.LoweringSpeedMS)})
+		return stopRun{}, fmt.Errorf(op+": %w", &RangeError{Field: "lowering_speed", Msg: fmt.Sprintf("lowering speed must be ≥ 0 (got %g m/s)", h.LoweringSpeedMS)})
 	}
 	v := h.LoweringSpeed()
 	if !(v > 0) || !dynFinite(v) {
-		return Outcome{}, fmt.Errorf("calc.BrakeStop: %w", &RangeError{Field: "hoist_speed", Msg: fmt.Sprintf("lowering (or hoisting) speed must be > 0 (got %g m/s)", v)})
+		return stopRun{}, fmt.Errorf(op+": %w", &RangeError{Field: "hoist_speed", Msg: fmt.Sprintf("lowering (or hoisting) speed must be > 0 (got %g m/s)", v)})
 	}
 	if !(h.BrakeDelayS >= 0) || !dynFinite(h.BrakeDelayS) {
-		return Outcome{}, fmt.Errorf("calc.BrakeStop: %w", &RangeError{Field: "brake_delay", Msg: fmt.Sprintf("brake delay must be ≥ 0 (got %g s)", h.BrakeDelayS)})
+		return stopRun{}, fmt.Errorf(op+": %w", &RangeError{Field: "brake_delay", Msg: fmt.Sprintf("brake delay must be ≥ 0 (got %g s)", h.BrakeDelayS)})
 	}
 	if !(h.RopeMBFN >= 0) || math.IsInf(h.RopeMBFN, 0) {
-		return Outcome{}, fmt.Errorf("calc.BrakeStop: %w", &RangeError{Field: "rope_mbf", Msg: fmt.Sprintf("rope minimum breaking force must be ≥ 0 (got %g N)", h.RopeMBFN)})
+		return stopRun{}, fmt.Errorf(op+": %w", &RangeError{Field: "rope_mbf", Msg: fmt.Sprintf("rope minimum breaking force must be ≥ 0 (got %g N)", h.RopeMBFN)})
 	}
 	ts := h.BrakeDelayS
 	nb := float64(h.Brakes)
 	mb := h.BrakeTorqueNm
-	limit := maxDistanceM
-	if !(limit > 0) || math.IsInf(limit, 1) {
-		limit = math.NaN()
-	}
 	lock := t.selfLocking()
 
-	rec := !h.SkipRecord && !h.SkipDetail
-	out := Outcome{Capacity: limit, Unit: "m"}
+	var out Outcome // its Steps only
 	brakeWhere := "motor-shaft"
 	if h.BrakeOnDrum {
 		brakeWhere = "drum"
@@ -589,7 +547,6 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 			best = k
 		}
 	}
-	g := res[best]
 	// The peak rope tension is the largest over the layers (the hardest stop), not the
 	// one of the longest stop (design.md Revision 2).
 	peak := 0
@@ -598,6 +555,75 @@ func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
 			peak = k
 		}
 	}
+	return stopRun{t: t, res: res, best: best, peak: peak, lock: lock, ts: ts, v: v, brakeWhere: brakeWhere, steps: out.Steps}, nil
+}
+
+// BrakeStop computes the check `brake-stop`: the rated load lowering at the rated lowering
+// speed v (h.LoweringSpeed(): the lowering speed, or the hoisting speed where none is
+// given), power is lost, and the holding brakes reach full torque after the delay t_s.
+// The load first runs away freely, then decelerates under the brakes.
+//
+// Formulas (design.md "Exact definitions", Emergency stop):
+//
+//	v_j = v r_j / r_1                                                  lowering speed on layer j
+//	a_ff = m g / m_eq, m_eq = m + (n_e/r)² (I_d/η_RD + i² J_m/η_l)     runaway phase
+//	v_1 = v_j + a_ff t_s,  s_1 = v_j t_s + ½ a_ff t_s²                 during the delay
+//	motor-shaft brake: F_b = N_b M_b i n_e / r,  a_b = (F_b/η_l − m g) / m_eq
+//	drum brake:        F_b = N_b M_b n_e / r,    a_b = (F_b/η_RD − m g) / m_eq,d,
+//	                   m_eq,d = m + (n_e/r)² (I_d + η_g i² J_m) / η_RD
+//	s_2 = v_1² / (2 a_b),  s = s_1 + s_2,  t = t_s + v_1 / a_b
+//	T_peak = max_j m (g + a_b,j) / (n η_R)  (dead-end part),  Z_peak = MBF / T_peak
+//
+// Symbols as in Runaway, plus M_b one brake's rated torque [N m], N_b number of brakes,
+// t_s brake delay [s], η_g forward gear efficiency, MBF rope minimum breaking force [N].
+//
+// Why F_b is divided by η_l (motor-shaft brake): while braking a descending load the power
+// flows from the load, through the reeving and the back-driven gearbox, into the brake.
+// The losses sit between the load and the brake and absorb part of the load's power, so
+// the brake only has to absorb η_l of it: the force the brake can hold at the hook is
+// F_b/η_l, larger than F_b. The same rule puts η_RD under a drum brake's force, while the
+// rotor's stored energy reaches a drum brake through the gearbox forward (× η_g in
+// m_eq,d). Newton's second law for load, drum and rotor with the brake torque on the
+// rotor (or the drum) gives the a_b above; the rotor's deceleration torque never exceeds
+// the brake torque, so the power flow does not reverse in the gearbox during the stop.
+//
+// Evaluated at r_1 and r_L (design.md Revision 2, "Stop at every layer"): the motor turns
+// at the same speed on every layer, so on layer j the load lowers at v_j = v r_j / r_1
+// (the rope speed at the drum rim is ω_d r_j). The layer giving the longer stop is
+// reported (figures stop_layer = 1 or L and initial_speed_m_s = v_j), or the one where
+// the brakes cannot stop the load; the peak rope tension is the largest over the layers
+// (the hardest stop). Demand = s [m], Capacity = maxDistanceM (NaN
+// when maxDistanceM ≤ 0 or NaN: no limit, Verdict Info). a_b ≤ 0: the brakes cannot
+// decelerate the load: Verdict Fail, distance and time NaN.
+//
+// Self-locking train (η_gb ≤ 0): the load cannot drive the gearbox, so there is no
+// runaway phase and, with the power off, the gear friction itself stops the load (a
+// motor-shaft brake then only has to hold the rotor). Stopping is then reported as an
+// upper bound, Verdict Info: no speed is gained during the delay (a_ff = 0, s_1 = v t_s;
+// the real train decelerates at once), and the braking phase counts the brakes alone
+// with the gearbox treated as lossless in back-driving (η_gb = 1 in η_l and m_eq); the
+// drum-brake phase is as above. If even that bound finds a_b ≤ 0 the distance is NaN
+// (the gear, not the brake, holds the load), still Info. The peak rope tension and its
+// design factor are then NOT bounds: a locking gear stops the load harder than the brake.
+//
+// Valid ranges: as Runaway, plus M_b ≥ 0, N_b ≥ 1, t_s ≥ 0, v > 0, MBF ≥ 0 (0 = not
+// given: Z_peak NaN). Figures: distance_m, time_s, deceleration_m_s2,
+// peak_rope_tension_n, peak_design_factor, speed_at_brake_set_m_s, runaway_distance_m
+// (= s_1, the distance travelled between power loss and full brake torque), stop_layer,
+// initial_speed_m_s.
+func BrakeStop(h Hoist, maxDistanceM float64) (Outcome, error) {
+	limit := maxDistanceM
+	if !(limit > 0) || math.IsInf(limit, 1) {
+		limit = math.NaN()
+	}
+	rec := !h.SkipRecord && !h.SkipDetail
+	sr, err := brakeStopRun("calc.BrakeStop", h, rec)
+	if err != nil {
+		return Outcome{}, err
+	}
+	t, res, best, peak, lock, brakeWhere := sr.t, sr.res, sr.best, sr.peak, sr.lock, sr.brakeWhere
+	g := res[best]
+	out := Outcome{Capacity: limit, Unit: "m", Steps: sr.steps}
 	peakT, peakZ := res[peak].peakT, res[peak].dfc
 	if rec {
 		tag := " (" + t.radiusName(peak) + ")"

@@ -40,6 +40,12 @@ type LifeInput struct {
 	// run's date (zero = unknown). Both are read as calendar dates. They only set the
 	// usage rate and the projected overhaul date.
 	Commissioned, AsOf time.Time
+	// Overhaul is the date of the last general overhaul (zero = none recorded) and
+	// HoursAtOverhaul the hour meter then [h] (NaN = not recorded). FEM 9.755's used part
+	// S restarts at a general overhaul: with the hour meter at the overhaul, T counts the
+	// hours since then.
+	Overhaul        time.Time
+	HoursAtOverhaul float64
 	// SkipRecord: do not build Outcome.Steps (the calculation record); same numbers.
 	SkipRecord bool
 	// Figs keeps the figures (see FigureBuf); nil: a slice of their own.
@@ -58,16 +64,30 @@ type LifeInput struct {
 // FEM 9.755 (standards.md: D seen; S = Σ X·km,i·T_i seen; X as commonly applied, not
 // verified that FEM 9.755 itself sets it).
 //
+// After a general overhaul S restarts (FEM 9.755: the safe working period begins again
+// once the mechanism has been overhauled; memory, medium-high): with the hour meter at
+// the overhaul T_o, T = T_meter − T_o, and the usage rate is counted from the overhaul's
+// date where it is given. An overhaul date without the hour meter reading cannot restart
+// S: the hours are then counted from commissioning (the conservative reading) and the
+// note says so. The figure counted_from names the period counted.
+//
 // Figures: used_h (S), remaining_h (D − S, negative when past D), remaining_operating_h
 // ((D − S)/(X km), hour-meter hours left at this spectrum), usage_rate_h_per_day
 // (T / days from Commissioned to AsOf; NaN when a date is missing, the span is not
 // positive or the rate exceeds 24 h a day), overhaul_due (Text: the ISO date when S
 // reaches D at that rate, AsOf + remaining_operating_h / rate days rounded down, in the
-// past when S > D; empty when the rate is unknown or zero). No clock is read: AsOf is
-// the caller's.
+// past when S > D; empty when the rate is unknown or zero), counted_from (Text:
+// "commissioning" or "overhaul YYYY-MM-DD", or "overhaul" when only the hour meter at it
+// is known), period_h (T, the hours counted). No clock is read: AsOf is the caller's.
 //
-// It returns a *RangeError for T < 0, km outside (0, 1], X < 1 or D ≤ 0.
+// It returns a *RangeError for T < 0, km outside (0, 1], X < 1 or D ≤ 0, an hour meter
+// at the overhaul below 0 or above the present reading, or an overhaul dated after the
+// run's date or before commissioning.
 func DesignLife(in LifeInput) (Outcome, error) {
+	period, err := lifePeriod(&in)
+	if err != nil {
+		return Outcome{}, err
+	}
 	switch {
 	case !(in.OperatingHours >= 0) || math.IsInf(in.OperatingHours, 0):
 		return Outcome{}, &RangeError{Field: "operating_hours", Msg: fmt.Sprintf("operating hours must be ≥ 0 (got %s)", dutyNum(in.OperatingHours))}
@@ -78,7 +98,7 @@ func DesignLife(in LifeInput) (Outcome, error) {
 	case !(in.FullLoadDurationH > 0) || math.IsInf(in.FullLoadDurationH, 0):
 		return Outcome{}, &RangeError{Field: "duty_group", Msg: fmt.Sprintf("full-load duration D must be > 0 h (got %s)", dutyNum(in.FullLoadDurationH))}
 	}
-	x, km, t, d := in.RecordFactor, in.Km, in.OperatingHours, in.FullLoadDurationH
+	x, km, t, d := in.RecordFactor, in.Km, period.hours, in.FullLoadDurationH
 	s := x * km * t
 	remaining := d - s
 	remainingOp := remaining / (x * km)
@@ -92,33 +112,38 @@ func DesignLife(in LifeInput) (Outcome, error) {
 	}
 	rec := !in.SkipRecord
 	if rec {
-		o.Steps = []Step{
+		if period.fromOverhaul {
+			o.Steps = append(o.Steps, Step{Symbol: "T", Formula: "hour meter now − hour meter at the general overhaul", Numbers: fmt.Sprintf("%s − %s", dutyNum(in.OperatingHours), dutyNum(in.HoursAtOverhaul)), Value: t, Unit: "h"})
+		}
+		o.Steps = append(o.Steps, []Step{
 			{Symbol: "S", Formula: "X · km · T", Numbers: fmt.Sprintf("%s · %s · %s", dutyNum(x), dutyNum(km), dutyNum(t)), Value: s, Unit: "h"},
 			{Symbol: "D", Formula: "full-load duration of the class", Numbers: dutyNum(d), Value: d, Unit: "h"},
 			{Symbol: "u", Formula: "S / D", Numbers: fmt.Sprintf("%s / %s", dutyNum(s), dutyNum(d)), Value: s / d, Unit: "1"},
 			{Symbol: "D − S", Formula: "D − S", Numbers: fmt.Sprintf("%s − %s", dutyNum(d), dutyNum(s)), Value: remaining, Unit: "h"},
 			{Symbol: "T_left", Formula: "(D − S) / (X · km)", Numbers: fmt.Sprintf("%s / (%s · %s)", dutyNum(remaining), dutyNum(x), dutyNum(km)), Value: remainingOp, Unit: "h"},
-		}
+		}...)
 	}
 
 	rate := math.NaN()
 	due := ""
 	var note string
 	switch {
-	case in.Commissioned.IsZero() || in.AsOf.IsZero():
+	case period.start.IsZero() && period.fromOverhaul:
+		// said in the period's note
+	case period.start.IsZero() || in.AsOf.IsZero():
 		note = "no commissioning date or run date: usage rate and overhaul date unknown"
 	default:
-		c, a := lifeDay(in.Commissioned), lifeDay(in.AsOf)
+		c, a := lifeDay(period.start), lifeDay(in.AsOf)
 		days := lifeDaysBetween(c, a)
 		switch {
 		case days <= 0:
-			note = fmt.Sprintf("commissioned %s is not before the run date %s: usage rate unknown", lifeISO(c), lifeISO(a))
+			note = fmt.Sprintf("%s %s is not before the run date %s: usage rate unknown", period.startWord, lifeISO(c), lifeISO(a))
 		case t/float64(days) > 24:
 			note = fmt.Sprintf("%s h in %d days is more than 24 h a day: check the commissioning date and the hour meter", dutyNum(t), days)
 		default:
 			rate = t / float64(days)
 			if rec {
-				o.Steps = append(o.Steps, Step{Symbol: "rate", Formula: "T / days in service", Numbers: fmt.Sprintf("%s / %d", dutyNum(t), days), Value: rate, Unit: "h/day"})
+				o.Steps = append(o.Steps, Step{Symbol: "rate", Formula: "T / " + period.rateWord, Numbers: fmt.Sprintf("%s / %d", dutyNum(t), days), Value: rate, Unit: "h/day"})
 			}
 			if rate > 0 {
 				// Days are rounded down; 1e-9 d keeps an exact whole number of days
@@ -145,6 +170,13 @@ func DesignLife(in LifeInput) (Outcome, error) {
 		}
 		note = fmt.Sprintf("past the full-load duration by %s h: general overhaul due", dutyNum(s-d)) + note
 	}
+	if period.note != "" {
+		if note != "" {
+			note = period.note + "; " + note
+		} else {
+			note = period.note
+		}
+	}
 	o.Note = note
 	o.Figures = in.Figs.take([]Figure{
 		{Name: "used_h", Value: s, Unit: "h"},
@@ -152,8 +184,57 @@ func DesignLife(in LifeInput) (Outcome, error) {
 		{Name: "remaining_operating_h", Value: remainingOp, Unit: "h"},
 		{Name: "usage_rate_h_per_day", Value: rate, Unit: "h/day"},
 		{Name: "overhaul_due", Value: math.NaN(), Text: due},
+		{Name: "counted_from", Value: math.NaN(), Text: period.countedFrom},
+		{Name: "period_h", Value: t, Unit: "h"},
 	})
 	return o, nil
+}
+
+// lifeSpan is the period whose hours DesignLife counts.
+type lifeSpan struct {
+	hours        float64   // T [h]
+	fromOverhaul bool      // T = T_meter − T_o
+	start        time.Time // the date the hours are counted from (zero: unknown)
+	startWord    string    // "commissioned" or "overhaul", before the start date in notes
+	rateWord     string    // the rate's denominator in the record
+	countedFrom  string    // the counted_from figure
+	note         string    // what the reader must know about the period ("" for none)
+}
+
+// lifePeriod works out which hours DesignLife counts: since commissioning, or since the
+// last general overhaul where the hour meter at it is known (FEM 9.755: S restarts).
+func lifePeriod(in *LifeInput) (lifeSpan, error) {
+	p := lifeSpan{hours: in.OperatingHours, start: in.Commissioned, startWord: "commissioned", rateWord: "days in service", countedFrom: "commissioning"}
+	// The zero LifeInput records no overhaul: HoursAtOverhaul 0 counts only with a date
+	// (callers without a reading pass NaN).
+	hasHours := !math.IsNaN(in.HoursAtOverhaul) && !(in.HoursAtOverhaul == 0 && in.Overhaul.IsZero())
+	if !in.Overhaul.IsZero() {
+		o := lifeDay(in.Overhaul)
+		if !in.AsOf.IsZero() && o.After(lifeDay(in.AsOf)) {
+			return p, &RangeError{Field: "last_overhaul", Msg: fmt.Sprintf("last general overhaul %s is after the run date %s", lifeISO(o), lifeISO(lifeDay(in.AsOf)))}
+		}
+		if !in.Commissioned.IsZero() && o.Before(lifeDay(in.Commissioned)) {
+			return p, &RangeError{Field: "last_overhaul", Msg: fmt.Sprintf("last general overhaul %s is before commissioning %s", lifeISO(o), lifeISO(lifeDay(in.Commissioned)))}
+		}
+	}
+	switch {
+	case hasHours:
+		if !(in.HoursAtOverhaul >= 0) || math.IsInf(in.HoursAtOverhaul, 0) || in.HoursAtOverhaul > in.OperatingHours {
+			return p, &RangeError{Field: "overhaul_hours", Msg: fmt.Sprintf("hour meter at the overhaul must be between 0 and the present reading %s h (got %s h)", dutyNum(in.OperatingHours), dutyNum(in.HoursAtOverhaul))}
+		}
+		p.hours, p.fromOverhaul = in.OperatingHours-in.HoursAtOverhaul, true
+		if in.Overhaul.IsZero() {
+			p.start, p.startWord, p.countedFrom = time.Time{}, "overhaul", "overhaul"
+			p.note = fmt.Sprintf("S counted from the last general overhaul (hour meter %s h then; its date not given, so the usage rate is unknown): %s h since", dutyNum(in.HoursAtOverhaul), dutyNum(p.hours))
+			return p, nil
+		}
+		p.start, p.startWord, p.rateWord = in.Overhaul, "overhaul", "days since the overhaul"
+		p.countedFrom = "overhaul " + lifeISO(lifeDay(in.Overhaul))
+		p.note = fmt.Sprintf("S counted from the general overhaul of %s (hour meter %s h then): %s h since", lifeISO(lifeDay(in.Overhaul)), dutyNum(in.HoursAtOverhaul), dutyNum(p.hours))
+	case !in.Overhaul.IsZero():
+		p.note = fmt.Sprintf("general overhaul of %s recorded without the hour meter at it: S counted from commissioning (conservative); add Overhaul hour meter to restart it", lifeISO(lifeDay(in.Overhaul)))
+	}
+	return p, nil
 }
 
 // lifeDay returns t's calendar date (in t's own location) as UTC midnight.

@@ -38,7 +38,38 @@ func ExampleDesignLife() {
 	// remaining_operating_h 1333 h
 	// usage_rate_h_per_day 2.189 h/day
 	// overhaul_due 2026-09-02
+	// counted_from commissioning
+	// period_h 4000 h
 	// S/D = 1200/1600 h = 0.75
+}
+
+// The same hoist after a general overhaul on 2023-01-01 with the hour meter at 3 000 h:
+// FEM 9.755's used part S restarts there, so T = 4 000 − 3 000 = 1 000 h and
+// S = 1.2 × 0.25 × 1 000 = 300 h of the class's 1 600 h (hand arithmetic); the usage rate
+// is counted over the 731 days since the overhaul (2024 is a leap year): 1.368 h/day.
+func ExampleDesignLife_overhaul() {
+	g, _, _ := calc.ParseDutyGroup("2m")
+	km, _ := calc.SpectrumFactor(2)
+	o, err := calc.DesignLife(calc.LifeInput{
+		OperatingHours:    4000,
+		Km:                km,
+		RecordFactor:      1.2,
+		FullLoadDurationH: calc.FullLoadDuration(g),
+		Commissioned:      time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC),
+		AsOf:              time.Date(2025, 1, 1, 0, 0, 0, 0, time.UTC),
+		Overhaul:          time.Date(2023, 1, 1, 0, 0, 0, 0, time.UTC),
+		HoursAtOverhaul:   3000,
+	})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(o.Note)
+	fmt.Printf("counted from %s: T = %.0f h, S/D = %.0f/%.0f h = %.4g, rate %.4g h/day\n",
+		o.Figures[5].Text, o.Figure("period_h"), o.Demand, o.Capacity, o.Utilisation, o.Figure("usage_rate_h_per_day"))
+	// Output:
+	// S counted from the general overhaul of 2023-01-01 (hour meter 3000 h then): 1000 h since
+	// counted from overhaul 2023-01-01: T = 1000 h, S/D = 300/1600 h = 0.1875, rate 1.368 h/day
 }
 
 // Deriving the duty group from usage: 20 cycles an hour of 5 m at 10 m/min over 8 h

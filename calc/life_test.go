@@ -223,3 +223,77 @@ func TestDesignLifeErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestDesignLifeAfterOverhaul: FEM 9.755's used part S restarts at a general overhaul
+// (standards.md: "a general overhaul is due when S reaches D"; the safe working period
+// begins again after it, memory medium-high). An M5 (2m) mechanism, D = 1 600 h (FEM 9.755,
+// seen), L2 (km 0.25, memory high), X = 1.2: 6 000 h on the meter is S = 1 800 h, past D;
+// overhauled at 5 000 h it has used S = 1.2 × 0.25 × 1 000 = 300 h of a new period (hand
+// arithmetic). Limiting cases: an overhaul at 0 h on the commissioning date counts the
+// same hours as none; an overhaul at the present reading leaves S = 0.
+func TestDesignLifeAfterOverhaul(t *testing.T) {
+	base := calc.LifeInput{OperatingHours: 6000, Km: 0.25, RecordFactor: 1.2, FullLoadDurationH: 1600,
+		Commissioned: date(2016, 1, 1), AsOf: date(2026, 12, 1), HoursAtOverhaul: math.NaN()}
+	cases := []struct {
+		name        string
+		overhaul    time.Time
+		atH         float64
+		wantS       float64
+		countedFrom string
+		noteSubstr  string
+	}{
+		{"no overhaul: past D", time.Time{}, math.NaN(), 1800, "commissioning", "past the full-load duration by 200 h"},
+		{"overhauled at 5 000 h: S restarts", date(2024, 6, 1), 5000, 300, "overhaul 2024-06-01", "S counted from the general overhaul of 2024-06-01 (hour meter 5000 h then): 1000 h since"},
+		{"overhaul at 0 h on commissioning: as none", date(2016, 1, 1), 0, 1800, "overhaul 2016-01-01", "hour meter 0 h then"},
+		{"overhaul at the present reading: S = 0", date(2026, 12, 1), 6000, 0, "overhaul 2026-12-01", "0 h since"},
+		{"hour meter at the overhaul without its date", time.Time{}, 5000, 300, "overhaul", "date not given"},
+		{"date without the hour meter: counted from commissioning", date(2024, 6, 1), math.NaN(), 1800, "commissioning", "S counted from commissioning (conservative)"},
+	}
+	for _, c := range cases {
+		in := base
+		in.Overhaul, in.HoursAtOverhaul = c.overhaul, c.atH
+		o, err := calc.DesignLife(in)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if !approxEqual(o.Demand, c.wantS, 1e-9, 1e-12) || !approxEqual(o.Utilisation, c.wantS/1600, 1e-12, 1e-12) {
+			t.Errorf("%s: S %g u %g, want %g", c.name, o.Demand, o.Utilisation, c.wantS)
+		}
+		if got, _ := figText(o, "counted_from"); got != c.countedFrom {
+			t.Errorf("%s: counted_from %q, want %q", c.name, got, c.countedFrom)
+		}
+		if !strings.Contains(o.Note, c.noteSubstr) {
+			t.Errorf("%s: note %q lacks %q", c.name, o.Note, c.noteSubstr)
+		}
+	}
+	// The usage rate after the overhaul: 1 000 h in the 913 days from 2024-06-01 to
+	// 2026-12-01 (2024-06-01 → 2026-06-01 730 d, + 183 d; counted by hand).
+	in := base
+	in.Overhaul, in.HoursAtOverhaul = date(2024, 6, 1), 5000
+	o, _ := calc.DesignLife(in)
+	if got := o.Figure("usage_rate_h_per_day"); !approxEqual(got, 1000.0/913, 0, 1e-12) {
+		t.Errorf("rate after the overhaul %g h/day, want 1000/913", got)
+	}
+	for _, bad := range []struct {
+		name     string
+		overhaul time.Time
+		atH      float64
+		field    string
+	}{
+		{"meter at the overhaul above the present reading", date(2024, 6, 1), 6000.5, "overhaul_hours"},
+		{"negative meter reading", date(2024, 6, 1), -1, "overhaul_hours"},
+		{"overhaul after the run date", date(2027, 1, 1), 5000, "last_overhaul"},
+		{"overhaul before commissioning", date(2015, 1, 1), 5000, "last_overhaul"},
+	} {
+		in := base
+		in.Overhaul, in.HoursAtOverhaul = bad.overhaul, bad.atH
+		_, err := calc.DesignLife(in)
+		if err == nil {
+			t.Errorf("%s: no error", bad.name)
+			continue
+		}
+		if f := rangeField(t, err); f != bad.field {
+			t.Errorf("%s: field %q, want %q", bad.name, f, bad.field)
+		}
+	}
+}

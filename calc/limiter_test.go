@@ -82,3 +82,47 @@ func sameNaN(a, b float64) bool {
 	}
 	return math.Abs(a-b) <= 1e-12*math.Max(1, math.Abs(b))
 }
+
+// TestLimiterTripSetting: the trip setting against the largest the rules allow, at and
+// beside the limit. 110 % is EN 14492-2 / EN 15011 practice as recalled (memory, low; a
+// review limit in the built-in profiles): a limiter set at exactly 110 % is within it
+// (u = 1), 110.5 % is not (u = 110.5/110), 100 % is well within (u = 100/110).
+func TestLimiterTripSetting(t *testing.T) {
+	asOf := date(2026, 12, 1)
+	base := calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, RequiredFromKg: 1000, LastTest: date(2026, 6, 1), AsOf: asOf, IntervalMonths: 12, MaxSetting: 1.10}
+	for _, c := range []struct {
+		setting float64
+		u       float64
+		exceed  bool
+	}{{1.10, 1, false}, {1.105, 1.105 / 1.10, true}, {1.00, 1 / 1.10, false}} {
+		for _, only := range []bool{false, true} {
+			in := base
+			in.Setting, in.SettingOnly = c.setting, only
+			o, err := calc.OverloadLimiter(in)
+			if err != nil {
+				t.Fatal(err)
+			}
+			// The test is 183 of 365 days into its interval (u 0.50): the setting governs.
+			if !approxEqual(o.Utilisation, c.u, 0, 1e-12) || o.Unit != "1" {
+				t.Errorf("setting %g (only %v): u %g %s, want %g", c.setting, only, o.Utilisation, o.Unit, c.u)
+			}
+			if got := strings.Contains(o.Note, "above the 110 %"); got != c.exceed {
+				t.Errorf("setting %g: note %q", c.setting, o.Note)
+			}
+		}
+	}
+	// Without a verified limit the test governs and the setting is only shown.
+	in := base
+	in.Setting, in.MaxSetting = 1.25, math.NaN()
+	o, err := calc.OverloadLimiter(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if o.Unit != "d" || !approxEqual(o.Utilisation, 183.0/365, 0, 1e-12) || o.Figure("trip_setting") != 1.25 {
+		t.Errorf("no limit: u %g %s, trip_setting %g", o.Utilisation, o.Unit, o.Figure("trip_setting"))
+	}
+	in.Setting = -0.1
+	if _, err := calc.OverloadLimiter(in); err == nil {
+		t.Error("a negative setting: no error")
+	}
+}
