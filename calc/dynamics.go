@@ -390,7 +390,7 @@ type stopRun struct {
 	lock       bool
 	ts, v      float64
 	brakeWhere string // "motor-shaft" or "drum"
-	steps      []Step  // the record so far (rec)
+	steps      []Step // the record so far (rec)
 }
 
 // brakeStopRun validates the inputs of the emergency stop and works it out on each layer
