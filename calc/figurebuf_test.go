@@ -50,6 +50,14 @@ func TestFigureBufSameFigures(t *testing.T) {
 			h.ComponentWLLKg = 6300
 			return calc.ComponentRating(h)
 		}},
+		{"limit-devices", func(h calc.Hoist) (calc.Outcome, error) {
+			return calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LastTest: date(2026, 5, 1), AsOf: date(2026, 12, 1), IntervalMonths: 12, SkipRecord: true, Figs: h.Figs}, true)
+		}},
+		{"motor-duty", func(h calc.Hoist) (calc.Outcome, error) {
+			return calc.MotorDuty(calc.MotorDutyInput{RatedDutyFactor: 0.4, RatedStarts: 240, RequiredDutyFactor: math.NaN(), RequiredStarts: math.NaN(),
+				StartsPerHour: math.NaN(), CyclesPerHour: 30, StartsPerCycle: 2, SkipRecord: true, Figs: h.Figs})
+		}},
+		{"brake-energy", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeEnergy(h, 20e3, 1) }},
 	}
 	var names []string
 	for _, c := range checks {

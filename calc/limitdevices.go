@@ -8,8 +8,8 @@ import (
 // LimitDeviceInput is what the limit-devices check reads.
 type LimitDeviceInput struct {
 	// UpperFitted: the register says an upper hook limit device (upper limit switch) is
-	// fitted.
-	UpperFitted bool
+	// fitted; UpperRequired: the rules in force ask for one.
+	UpperFitted, UpperRequired bool
 	// LowerRequired: the rules in force ask for a lower hook limit device as well;
 	// LowerFitted: the register says one is fitted (read only when required, or shown).
 	LowerRequired, LowerFitted bool
@@ -25,9 +25,10 @@ var limitTest = dueTexts{field: "limit_last_test", intervalField: "service", wha
 // LimitDevices is the limit-devices check: the hook's limit devices fitted and their test
 // kept current.
 //
-//	no upper limit device                        → fail (no utilisation: a missing device
+//	upper limit device required and not fitted   → fail (no utilisation: a missing device
 //	                                               has no margin)
 //	lower limit device required and not fitted   → fail
+//	neither fitted nor required                  → info
 //	otherwise the test is current: as InspectionDue with the devices' last test date and
 //	the rule's interval: demand days since the test [d], capacity days from the test to
 //	the next due date [d], utilisation = demand / capacity (overdue: above 1)
@@ -57,11 +58,15 @@ func LimitDevices(in LimitDeviceInput, lowerKnown bool) (Outcome, error) {
 		upper = 1
 	}
 	fitted := []Figure{{Name: "upper_fitted", Value: upper, Unit: "1"}, {Name: "lower_fitted", Value: lower, Unit: "1"}}
-	if !in.UpperFitted || (in.LowerRequired && !in.LowerFitted) {
+	if !in.UpperFitted && !in.UpperRequired && !(in.LowerRequired || in.LowerFitted) {
+		return Outcome{Demand: math.NaN(), Capacity: math.NaN(), Unit: "1", Utilisation: math.NaN(), Verdict: Info,
+			Figures: in.Figs.take(fitted), Note: "no hook limit device fitted; the rules in force require none"}, nil
+	}
+	if (in.UpperRequired && !in.UpperFitted) || (in.LowerRequired && !in.LowerFitted) {
 		o := Outcome{Demand: math.NaN(), Capacity: math.NaN(), Unit: "1", Utilisation: math.NaN(), Verdict: Fail,
 			Figures: in.Figs.take(fitted)}
 		switch {
-		case !in.UpperFitted:
+		case in.UpperRequired && !in.UpperFitted:
 			o.Note = "no upper limit device: nothing stops the hook block being hoisted into the drum or the structure (two-blocking); fit one before further use"
 		default:
 			o.Note = "no lower limit device, which the rules in force require: fit one before further use"

@@ -23,11 +23,12 @@ func TestLimitDevices(t *testing.T) {
 		u          float64
 		note       string
 	}{
-		{"no upper limit device", calc.LimitDeviceInput{}, false, calc.Fail, math.NaN(), "no upper limit device"},
-		{"no lower limit device where the rules ask", calc.LimitDeviceInput{UpperFitted: true, LowerRequired: true}, true, calc.Fail, math.NaN(), "no lower limit device"},
-		{"no lower limit device where the rules do not ask", calc.LimitDeviceInput{UpperFitted: true, LastTest: date(2026, 6, 1), IntervalMonths: 12}, true, calc.ByUtilisation, 183.0 / 365, "next limit device test due 2027-06-01"},
-		{"one day overdue", calc.LimitDeviceInput{UpperFitted: true, LastTest: date(2025, 11, 30), IntervalMonths: 12}, false, calc.ByUtilisation, 366.0 / 365, "overdue by 1 days (due 2026-11-30)"},
-		{"both fitted, tested today", calc.LimitDeviceInput{UpperFitted: true, LowerRequired: true, LowerFitted: true, LastTest: asOf, IntervalMonths: 6}, true, calc.ByUtilisation, 0, "due 2027-06-01"},
+		{"no upper limit device", calc.LimitDeviceInput{UpperRequired: true}, false, calc.Fail, math.NaN(), "no upper limit device"},
+		{"no lower limit device where the rules ask", calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LowerRequired: true}, true, calc.Fail, math.NaN(), "no lower limit device"},
+		{"no lower limit device where the rules do not ask", calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LastTest: date(2026, 6, 1), IntervalMonths: 12}, true, calc.ByUtilisation, 183.0 / 365, "next limit device test due 2027-06-01"},
+		{"one day overdue", calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LastTest: date(2025, 11, 30), IntervalMonths: 12}, false, calc.ByUtilisation, 366.0 / 365, "overdue by 1 days (due 2026-11-30)"},
+		{"none fitted, none required", calc.LimitDeviceInput{}, false, calc.Info, math.NaN(), "require none"},
+		{"both fitted, tested today", calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LowerRequired: true, LowerFitted: true, LastTest: asOf, IntervalMonths: 6}, true, calc.ByUtilisation, 0, "due 2027-06-01"},
 	}
 	for _, c := range cases {
 		c.in.AsOf = asOf
@@ -45,7 +46,7 @@ func TestLimitDevices(t *testing.T) {
 			t.Errorf("%s: lower_fitted %g with lowerKnown %v", c.name, got, c.lowerKnown)
 		}
 	}
-	if _, err := calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, AsOf: asOf, IntervalMonths: 12}, false); err == nil {
+	if _, err := calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, AsOf: asOf, IntervalMonths: 12}, false); err == nil {
 		t.Error("fitted without a test date: no error")
 	}
 }

@@ -125,7 +125,7 @@ func limiterSetting(in LimiterInput, u float64) Outcome {
 	if !in.SkipRecord && !math.IsNaN(u) {
 		o.Steps = []Step{{Symbol: "u_set", Formula: "trip setting / largest trip setting", Numbers: dutyNum(in.Setting*100) + " % / " + dutyNum(in.MaxSetting*100) + " %", Value: u, Unit: "1"}}
 	}
-	if in.SettingOnly && !in.SkipRecord {
+	if in.SettingOnly {
 		o.Figures = in.Figs.take([]Figure{{Name: "setting_utilisation", Value: u, Unit: "1"}})
 	}
 	return o

@@ -50,6 +50,8 @@ func recChecks() []recCheck {
 			h.ComponentWLLKg = 0.9 * h.RatedLoadKg // below the rated load: fails, with its note
 			return calc.ComponentRating(h)
 		}},
+		{"brake-energy", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeEnergy(h, 20e3, 1) }},
+		{"brake-energy no rating", func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeEnergy(h, 0, 1) }},
 	}
 }
 
@@ -339,6 +341,32 @@ func TestSkipRecordLifeChecks(t *testing.T) {
 		{"overload-limiter", func(skip bool) (calc.Outcome, error) {
 			return calc.OverloadLimiter(calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, RequiredFromKg: 1000,
 				LastTest: day(2026, 2, 1), AsOf: day(2026, 12, 1), IntervalMonths: 12, SkipRecord: skip})
+		}},
+		// Set at 120 % against the 110 % review limit (EN 14492-2, memory, low), and judged
+		// on the setting alone as the fleet's review does.
+		{"overload-limiter setting", func(skip bool) (calc.Outcome, error) {
+			return calc.OverloadLimiter(calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, RequiredFromKg: 1000,
+				LastTest: day(2026, 2, 1), AsOf: day(2026, 12, 1), IntervalMonths: 12, Setting: 1.2, MaxSetting: 1.1, SkipRecord: skip})
+		}},
+		{"overload-limiter setting only", func(skip bool) (calc.Outcome, error) {
+			return calc.OverloadLimiter(calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, Setting: 1.2, MaxSetting: 1.1, SettingOnly: true, SkipRecord: skip})
+		}},
+		{"limit-devices", func(skip bool) (calc.Outcome, error) {
+			return calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LastTest: day(2025, 10, 1), AsOf: day(2026, 12, 1), IntervalMonths: 12, SkipRecord: skip}, false)
+		}},
+		{"limit-devices missing", func(skip bool) (calc.Outcome, error) {
+			return calc.LimitDevices(calc.LimitDeviceInput{UpperRequired: true, SkipRecord: skip}, false)
+		}},
+		// FEM 9.683 2m: 40 % ED, 240 starts an hour (memory, low); 150 cycles an hour at two
+		// starts each.
+		{"motor-duty", func(skip bool) (calc.Outcome, error) {
+			return calc.MotorDuty(calc.MotorDutyInput{RatedDutyFactor: 0.25, RatedStarts: 240, RequiredDutyFactor: 0.4, RequiredStarts: 240,
+				StartsPerHour: math.NaN(), CyclesPerHour: 150, StartsPerCycle: 2, SkipRecord: skip})
+		}},
+		{"design-life overhaul", func(skip bool) (calc.Outcome, error) {
+			in := life
+			in.Overhaul, in.HoursAtOverhaul, in.SkipRecord = day(2024, 3, 1), 3000, skip
+			return calc.DesignLife(in)
 		}},
 		{"load-test", func(skip bool) (calc.Outcome, error) {
 			if skip {

@@ -377,9 +377,9 @@ func checkDefinitions() []Definition {
 				}
 				return say("general overhaul due: " + num3(in.cr.Demand) + " h of the class's " + num3(in.cr.Capacity) + " h used (FEM 9.755)")
 			},
-			Needs: []string{"operating_hours"}, Uses: []string{"duty_group", "load_spectrum", "spectrum_factor", "usage_records", "commissioned"},
+			Needs: []string{"operating_hours"}, Uses: []string{"duty_group", "load_spectrum", "spectrum_factor", "usage_records", "commissioned", "last_overhaul", "overhaul_hours"},
 			Rules:     []string{"life.duration_h", "life.record_factor"},
-			Reference: []string{"TestDesignLife", "TestFullLoadDurationAgainstISO4301"},
+			Reference: []string{"TestDesignLife", "TestFullLoadDurationAgainstISO4301", "TestDesignLifeAfterOverhaul", "ExampleDesignLife_overhaul"},
 			prepare:   prepareDesignLife},
 		{ID: "inspection-due", Kind: Records, OverdueList: true,
 			advise: func(in adviceInput) advice {
@@ -481,16 +481,18 @@ func checkDefinitions() []Definition {
 				switch {
 				case math.IsNaN(in.cr.Utilisation):
 					return say("fit an overload limiter (required from " + tonnes(in.fig("required_from_kg")) + ")")
+				case in.cr.Unit == "1" || in.cr.ReviewUtilisation > 1+utilisationTolerance && in.fig("days_overdue") == 0:
+					return say("have the overload limiter's trip setting checked: " + percent(in.fig("trip_setting")) + " of the rated load (at most " + percent(limiterMax(in)) + ")")
 				case in.cr.Status == StatusMarginal:
 					return say("book the overload limiter test: due " + in.figText("next_due"))
 				}
 				return say("test the overload limiter: " + num3(in.fig("days_overdue")) + " days overdue")
 			},
-			Needs: loadNeeds, Uses: []string{"limiter_fitted", "limiter_last_test", "service"},
-			Rules: []string{"limiter.test_interval_months"}, OptionalRules: []string{"limiter.required_from"},
+			Needs: loadNeeds, Uses: []string{"limiter_fitted", "limiter_last_test", "limiter_setting", "service"},
+			Rules: []string{"limiter.test_interval_months", "limiter.max_setting"}, OptionalRules: []string{"limiter.required_from"},
 			Rule:      "information: the rules in force require no overload limiter",
 			Source:    "no limiter.required_from row in the rules in force",
-			Reference: []string{"TestOverloadLimiter", "TestInspectionDueCalendar"},
+			Reference: []string{"TestOverloadLimiter", "TestLimiterTripSetting", "TestInspectionDueCalendar"},
 			applicable: func(d *hoistData) (bool, string) {
 				if !d.isMissing("limiter_fitted") || !(d.h.RatedLoadKg > 0) {
 					// A limiter said fitted or not; or a rated load not known, so whether
@@ -517,6 +519,60 @@ func checkDefinitions() []Definition {
 			Source:    "component rating from the register (design.md Revision 2)",
 			Reference: []string{"TestComponentRating"},
 			prepare:   noRule(calc.ComponentRating)},
+		{ID: "limit-devices", Kind: Records, FlagList: true, Optional: true,
+			advise: func(in adviceInput) advice {
+				switch {
+				case math.IsNaN(in.cr.Utilisation) && in.fig("upper_fitted") == 0:
+					return say("fit an upper limit device before further use")
+				case math.IsNaN(in.cr.Utilisation):
+					return say("fit a lower limit device (the rules require one)")
+				case in.cr.Status == StatusMarginal:
+					return say("book the limit device test: due " + in.figText("next_due"))
+				}
+				return say("test the limit devices: " + num3(in.fig("days_overdue")) + " days overdue")
+			},
+			Needs: []string{"upper_limit_fitted"}, Uses: []string{"lower_limit_fitted", "limit_last_test", "service"},
+			Rules:     []string{"limit.upper_required", "limit.lower_required", "limit.test_interval_months"},
+			Reference: []string{"TestLimitDevices", "TestInspectionDueCalendar"},
+			prepare:   prepareLimitDevices},
+		{ID: "motor-duty", Kind: Mechanical, Optional: true,
+			advise: func(in adviceInput) advice {
+				if in.cr.Status == StatusMarginal {
+					if in.cr.ReviewUtilisation > 1+utilisationTolerance {
+						return say("have the motor's rating checked against the duty group: " + in.cr.Message)
+					}
+					return say("keep the starts down: " + num3(in.fig("starts_per_hour")) + " an hour of the motor's " + num3(in.fig("rated_starts_per_hour")))
+				}
+				if in.cr.Unit == "1/h" && in.fig("starts_utilisation") > 1+utilisationTolerance {
+					return say("cut the starts to the motor's " + num3(in.fig("rated_starts_per_hour")) + " an hour (" + num3(in.fig("starts_per_hour")) + " now), or fit a motor rated for them")
+				}
+				return say("fit a motor rated for the duty: " + in.cr.Message)
+			},
+			Uses:      []string{"motor_duty_factor", "motor_starts", "starts_per_hour", "cycles_per_hour", "duty_group"},
+			Rules:     []string{"motor.starts_per_cycle", "motor.min_duty_factor", "motor.min_starts"},
+			Reference: []string{"TestMotorDuty"},
+			prepare:   prepareMotorDuty},
+		{ID: "brake-energy", Kind: Mechanical, Optional: true, NeedsOuterLayer: true,
+			advise: func(in adviceInput) advice {
+				switch {
+				case math.IsNaN(in.cr.Utilisation):
+					return say("take out of service: the brakes cannot stop the lowering rated load")
+				case in.cr.Status == StatusMarginal:
+					return say("keep emergency stops at the rated load rare: each brake takes " + num3(in.fig("energy_per_brake_j")/1000) + " kJ of its " + num3(in.fig("permitted_work_j")/1000) + " kJ")
+				}
+				return say("fit holding brakes rated for at least " + up3(RequiredCapacity(in.cr)*in.fig("permitted_work_j")/in.cr.Capacity/1000) + " kJ a stop each (" + num3(in.fig("permitted_work_j")/1000) + " kJ now), or have the brake maker confirm the brakes take " + num3(in.fig("energy_per_brake_j")/1000) + " kJ a stop")
+			},
+			Needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), Uses: join(brakeUses, []string{"brake_friction_work"}),
+			Rules:     []string{"brake_energy.factor"},
+			Reference: []string{"TestBrakeEnergyBalance", "TestBrakeEnergyLimit"},
+			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+				f, r, err := d.rule("brake_energy.factor")
+				if err != nil {
+					return nil, nil, err
+				}
+				w, _ := d.num("brake_friction_work") // not given: 0, no limit
+				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeEnergy(h, w, f) }, d.usedRows(r), nil
+			}},
 	}
 }
 
@@ -548,12 +604,131 @@ func prepareOverloadLimiter(d *hoistData) (func(calc.Hoist) (calc.Outcome, error
 		}
 		in.IntervalMonths = int(math.Round(months))
 		rows = append(rows, r)
+		in.Setting, in.MaxSetting = math.NaN(), math.NaN()
+		if s, ok := d.num("limiter_setting"); ok {
+			in.Setting = s
+			// The largest trip setting may be a review limit (it is in the built-in
+			// profiles): then the review judges the setting alone (SettingOnly).
+			v, r, ok, err := d.reviewPart("limiter.max_setting")
+			if err != nil {
+				return nil, nil, err
+			}
+			if ok {
+				in.MaxSetting, in.SettingOnly = v, d.reviewMode
+				rows = append(rows, r)
+			}
+		}
 	}
 	d.rowBuf = rows // keep a grown buffer
 	return func(h calc.Hoist) (calc.Outcome, error) {
 		in := in
 		in.RatedLoadKg, in.Figs = h.RatedLoadKg, h.Figs
 		return calc.OverloadLimiter(in)
+	}, rows, nil
+}
+
+// limiterMax is the largest trip setting the overload-limiter check was judged against:
+// the verified one, or the review limit's.
+func limiterMax(in adviceInput) float64 {
+	if v := in.fig("max_trip_setting"); !math.IsNaN(v) {
+		return v
+	}
+	if u := in.cr.ReviewUtilisation; u > 0 {
+		return in.fig("trip_setting") / u
+	}
+	return math.NaN()
+}
+
+func prepareLimitDevices(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+	up, r1, err := d.ruleWord("limit.upper_required")
+	if err != nil {
+		return nil, nil, err
+	}
+	low, r2, err := d.ruleWord("limit.lower_required")
+	if err != nil {
+		return nil, nil, err
+	}
+	rows := append(d.rowBuf[:0], r1, r2)
+	in := calc.LimitDeviceInput{UpperFitted: d.text("upper_limit_fitted") == "yes", UpperRequired: up == "yes",
+		LowerRequired: low == "yes", LowerFitted: d.text("lower_limit_fitted") == "yes", AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
+	lowerKnown := !d.isMissing("lower_limit_fitted")
+	if in.LowerRequired && !lowerKnown {
+		return nil, nil, &Error{Kind: Missing, Field: "lower_limit_fitted", Err: errors.New("needs Lower limit device (yes or no): the rules require one")}
+	}
+	fails := (in.UpperRequired && !in.UpperFitted) || (in.LowerRequired && !in.LowerFitted)
+	if !fails && (in.UpperFitted || in.LowerFitted) {
+		in.LastTest = d.a.Get("limit_last_test").Date
+		if in.LastTest.IsZero() {
+			return nil, nil, &Error{Kind: Missing, Field: "limit_last_test", Err: errors.New("needs Limit devices last tested: the date of the limit devices' last test")}
+		}
+		months, r, err := d.rule("limit.test_interval_months")
+		if err != nil {
+			return nil, nil, err
+		}
+		in.IntervalMonths = int(math.Round(months))
+		rows = append(rows, r)
+	}
+	d.rowBuf = rows // keep a grown buffer
+	return func(h calc.Hoist) (calc.Outcome, error) {
+		in := in
+		in.Figs = h.Figs
+		return calc.LimitDevices(in, lowerKnown)
+	}, rows, nil
+}
+
+// prepareMotorDuty reads the motor's intermittent rating and the hoist's starts. The
+// group's requirement (FEM 9.683) is looked up as a part of the check that may be a
+// review limit (reviewPart): in the built-in profiles it is, so the check's verdict
+// rests on the starts run against the motor's rated starts, and the review (run again
+// with the requirement alone) makes it marginal at worst.
+func prepareMotorDuty(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
+	ed, okE := d.num("motor_duty_factor")
+	zr, okZ := d.num("motor_starts")
+	if !okE && !okZ {
+		return nil, nil, &Error{Kind: Missing, Field: "motor_duty_factor", Err: errors.New("needs Motor duty factor, Motor starts per hour")}
+	}
+	nan := math.NaN()
+	in := calc.MotorDutyInput{RatedDutyFactor: nan, RatedStarts: nan, RequiredDutyFactor: nan, RequiredStarts: nan,
+		StartsPerHour: nan, CyclesPerHour: nan, SkipRecord: !d.c.opts.Record}
+	c, rc, err := d.rule("motor.starts_per_cycle")
+	if err != nil {
+		return nil, nil, err
+	}
+	in.StartsPerCycle = c
+	rows := append(d.rowBuf[:0], rc)
+	if okE {
+		in.RatedDutyFactor = ed
+		v, r, ok, err := d.reviewPart("motor.min_duty_factor")
+		if err != nil {
+			return nil, nil, err
+		}
+		if ok {
+			in.RequiredDutyFactor, rows = v, append(rows, r)
+		}
+	}
+	if okZ {
+		in.RatedStarts = zr
+		v, r, ok, err := d.reviewPart("motor.min_starts")
+		if err != nil {
+			return nil, nil, err
+		}
+		if ok {
+			in.RequiredStarts, rows = v, append(rows, r)
+		}
+	}
+	if !d.reviewMode { // the review judges the group's requirement alone
+		if v, ok := d.num("starts_per_hour"); ok {
+			in.StartsPerHour = v
+		}
+		if v, ok := d.num("cycles_per_hour"); ok {
+			in.CyclesPerHour = v
+		}
+	}
+	d.rowBuf = rows // keep a grown buffer
+	return func(h calc.Hoist) (calc.Outcome, error) {
+		in := in
+		in.Figs = h.Figs
+		return calc.MotorDuty(in)
 	}, rows, nil
 }
 
@@ -580,7 +755,11 @@ func prepareDesignLife(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []
 	}
 	hours, _ := d.num("operating_hours")
 	in := calc.LifeInput{OperatingHours: hours / 3600, Km: km, RecordFactor: x, FullLoadDurationH: dur,
-		Commissioned: d.a.Get("commissioned").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
+		Commissioned: d.a.Get("commissioned").Date, AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record,
+		Overhaul: d.a.Get("last_overhaul").Date, HoursAtOverhaul: math.NaN()}
+	if oh, ok := d.num("overhaul_hours"); ok {
+		in.HoursAtOverhaul = oh / 3600 // the schema reads time in seconds
+	}
 	return func(h calc.Hoist) (calc.Outcome, error) {
 		in := in
 		in.Figs = h.Figs

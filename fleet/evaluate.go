@@ -490,8 +490,12 @@ func (c *Checker) reviewTexts(rows []int) reviewText {
 // applyReview judges a check that ran against its review limit: the utilisation is
 // shown, and exceeding the limit makes a passing check marginal with the message; a
 // check judged against review rows only never fails and sets no rating limit.
+//
+// A check with a review part (hoistData.reviewPart) but nothing verified to judge is
+// info; its review still shows, and makes it marginal when exceeded.
 func (c *Checker) applyReview(cr *CheckResult, p *preparedCheck, h calc.Hoist) {
-	if p.reviewRule == "" || (cr.Status != StatusPass && cr.Status != StatusMarginal && cr.Status != StatusFail) {
+	reviewedInfo := cr.Status == StatusInfo && p.review != nil && !p.reviewOnly
+	if p.reviewRule == "" || (cr.Status != StatusPass && cr.Status != StatusMarginal && cr.Status != StatusFail && !reviewedInfo) {
 		return
 	}
 	u := cr.Utilisation
@@ -519,7 +523,7 @@ func (c *Checker) applyReview(cr *CheckResult, p *preparedCheck, h calc.Hoist) {
 	if !exceeded {
 		return
 	}
-	if cr.Status == StatusPass {
+	if cr.Status == StatusPass || reviewedInfo {
 		cr.Status = StatusMarginal
 	}
 	if cr.Message == "" {

@@ -135,6 +135,31 @@ func (d *hoistData) optionalWord(id string) (string, int) {
 	return strings.ToLower(strings.TrimSpace(d.c.opts.Rules.Rules[i].Value)), i
 }
 
+// reviewPart looks up a rule that judges one part of a check and whose row may be a
+// review limit (provenance "memory, low": design.md Revision 2, "Review limits"): the
+// verified row where the rules in force have one, recorded as used; without one, ok
+// false. A review row is noted (reviewRows) without making the whole check one judged
+// against review rows only (reviewOnly stays as it was), so the check's other parts keep
+// their verdict and the review prepares the check once more with this part; in review
+// mode the review row is returned. ok false, no error, when no row applies at all.
+func (d *hoistData) reviewPart(id string) (v float64, row int, ok bool, err error) {
+	t := d.c.opts.Rules
+	i, ri := t.LookupIndexes(id, d.scope)
+	if d.reviewMode && ri >= 0 {
+		i = ri
+	} else if ri >= 0 {
+		d.reviewRows = append(d.reviewRows, ri)
+	}
+	if i < 0 {
+		return 0, -1, false, nil
+	}
+	if v, err = t.ValueAt(i); err != nil {
+		return 0, -1, false, err
+	}
+	d.rules = append(d.rules, i)
+	return v, i, true, nil
+}
+
 // usedRows returns rows in d's reusable buffer: a check's prepare returns the rule rows
 // it used this way, without a fresh slice per check and hoist. The caller reads them
 // before the next prepare overwrites them.

@@ -127,6 +127,7 @@ var ruleUnits = ruleUnitTable([]struct{ unit, dim, quantity string }{
 	{"months", "months", ""},
 	{"years", "years", ""},
 	{"d/year", "days_per_year", ""},
+	{"1/h", "per_hour", ""},
 	{"kg", "mass", "mass"},
 	{"t", "mass", "mass"},
 	{"m/s2", "acceleration", "acceleration"},
@@ -167,7 +168,8 @@ func RuleUnits() []string {
 //	"ft" → m (× 0.3048); "m/s2" → m/s²; "ft/s2" → m/s² (× 0.3048); "s" → s;
 //	"kg" → kg; "t" → kg (× 1000);
 //	"h" → hours (NOT seconds: design-life works in hours, FEM 9.755);
-//	"months", "years", "d/year" → as is (calendar units); "deg" → degrees (as is).
+//	"months", "years", "d/year" → as is (calendar units); "1/h" → per hour (as is:
+//	motor starts are counted an hour); "deg" → degrees (as is).
 //
 // Factors are exact (NIST SP 811). Words and an unknown unit are errors.
 func (r Rule) ValueSI() (float64, error) {
@@ -183,7 +185,7 @@ func (r Rule) ValueSI() (float64, error) {
 }
 
 // Dimension is the kind of quantity of the rule's unit: "ratio", "length", "mass", "angle",
-// "time_s", "time_h", "months", "years", "days_per_year", "acceleration", or "" for a
+// "time_s", "time_h", "months", "years", "days_per_year", "per_hour", "acceleration", or "" for a
 // word value. rope_wear.max_reduction is a "ratio" in the ISO profile (a fraction of
 // the reference diameter) and a "length" in the US profile (ASME B30.2 table).
 func (r Rule) Dimension() string {
@@ -245,9 +247,17 @@ var knownRules = map[string]ruleSpec{
 	"limiter.required_from":         {dims: []string{"mass"}, min: 0, max: math.Inf(1)},
 	"limiter.test_interval_months":  {dims: []string{"months"}, min: 0, minEx: true, max: 120},
 	// The attention order's weights (fleet.AttentionWeights: read by the summary, not a check).
-	"attention.exposure_weight": countSpec,
-	"attention.unstated_weight": countSpec,
-	"attention.status_weight":   countSpec,
+	"attention.exposure_weight":  countSpec,
+	"attention.unstated_weight":  countSpec,
+	"attention.status_weight":    countSpec,
+	"limiter.max_setting":        {dims: []string{"ratio"}, min: 1, max: 10},
+	"limit.upper_required":       {words: []string{"yes", "no"}},
+	"limit.lower_required":       {words: []string{"yes", "no"}},
+	"limit.test_interval_months": {dims: []string{"months"}, min: 0, minEx: true, max: 120},
+	"motor.min_duty_factor":      effSpec,
+	"motor.min_starts":           {dims: []string{"per_hour"}, min: 0, minEx: true, max: 100000},
+	"motor.starts_per_cycle":     {dims: []string{"ratio"}, min: 1, max: 100},
+	"brake_energy.factor":        factorSpec,
 }
 
 // KnownRuleIDs lists the rule ids the checks use, sorted.

@@ -279,6 +279,7 @@ func TestValueSI(t *testing.T) {
 		{"12", "months", 12},
 		{"5", "years", 5},
 		{"250", "d/year", 250},
+		{"240", "1/h", 240}, // starts an hour kept: motor ratings count them so
 		{"40", "kg", 40},
 		{"5", "t", 5000}, // NIST SP 811: metric ton = 1000 kg
 		{"2", "deg", 2},

@@ -34,7 +34,7 @@ const Width = 100
 var siUnit = map[string]string{
 	"mass": "kg", "force": "N", "length": "m", "power": "W", "torque": "N m", "inertia": "kg m²",
 	"speed": "m/s", "acceleration": "m/s²", "rotational_speed": "rpm", "angle": "deg", "time": "s",
-	"stress": "N/mm²", "ratio": "1",
+	"stress": "N/mm²", "energy": "J", "ratio": "1",
 }
 
 // Write writes the record of r. h is the register's header; info the run's settings.

@@ -18,6 +18,7 @@ var usCustomary = []struct{ quantity, si, us string }{
 	{"inertia", "kg m2", "lb ft2"},
 	{"speed", "m/min", "ft/min"},
 	{"acceleration", "m/s2", "ft/s2"},
+	{"energy", "kJ", "ft lbf"},
 }
 
 // USCustomary returns the US customary unit written instead of unit, a unit of

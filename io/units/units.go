@@ -58,7 +58,7 @@ const (
 
 // order is the order quantities are listed and searched in.
 var order = []string{"mass", "force", "length", "power", "torque", "inertia", "speed",
-	"acceleration", "rotational_speed", "angle", "time", "stress", "ratio"}
+	"acceleration", "rotational_speed", "angle", "time", "stress", "energy", "ratio"}
 
 // Quantities the register's schema uses, with the unit Factor converts to.
 var siUnits = map[string]string{
@@ -74,6 +74,7 @@ var siUnits = map[string]string{
 	"angle":            "deg",
 	"time":             "s",
 	"stress":           "N/mm2",
+	"energy":           "J",
 	"ratio":            "1",
 }
 
@@ -168,6 +169,14 @@ var table = map[string][]unit{
 		{"psi", []string{"psi", "lbf/in2", "lb/in2"}, PSI},
 		{"ksi", []string{"ksi"}, 1000 * PSI},
 	},
+	"energy": {
+		{"J", []string{"J", "joule", "joules", "Nm"}, 1},
+		{"kJ", []string{"kJ", "kNm"}, 1e3},
+		{"MJ", []string{"MJ"}, 1e6},
+		{"Wh", []string{"Wh"}, Hour},
+		{"kWh", []string{"kWh"}, 1e3 * Hour},
+		{"ft lbf", []string{"ftlbf", "lbfft", "ftlb", "lbft"}, PoundForceFoot},
+	},
 	"ratio": {
 		{"1", []string{"", "1", "-"}, 1},
 		{"%", []string{"%", "percent", "pct"}, 0.01},
@@ -176,8 +185,8 @@ var table = map[string][]unit{
 
 // caseSensitive lists lower-cased spellings that must be written with the right case:
 // their case-folded form means something else (mN millinewton, T tesla or "ton",
-// mPa millipascal) or collides with another unit of the same quantity.
-var caseSensitive = map[string]bool{"mn": true, "t": true, "mpa": true}
+// mPa millipascal, mJ millijoule) or collides with another unit of the same quantity.
+var caseSensitive = map[string]bool{"mn": true, "t": true, "mpa": true, "mj": true}
 
 // refusal is a spelling that is refused in a quantity, with the reason.
 type refusal struct{ spelling, msg string }

@@ -283,6 +283,7 @@ func TestUSCustomaryConvert(t *testing.T) {
 		{"inertia", "kg m2", 1, 0.0421401100938048, "NIST SP 811 B.9: pound foot squared = 0.04214011 kg m² (exact: lb × ft²)"},
 		{"speed", "m/min", 100, 30.48, "NIST SP 811 B.9: foot per minute = 5.08 E-03 m/s, exact"},
 		{"acceleration", "m/s2", 32.17404856, 9.80665, "standards.md: g_n = 32.17404856 ft/s² (computed, 10 digits)"},
+		{"energy", "kJ", 1, 1.3558179483314004e-3, "NIST SP 811 B.9: foot pound-force = 1.355 818 J (exact: lbf × ft)"},
 	}
 	tol := func(source string) float64 {
 		if strings.Contains(source, "10 digits") {
