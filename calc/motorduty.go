@@ -103,7 +103,7 @@ func MotorDuty(in MotorDutyInput) (Outcome, error) {
 		}
 	}
 	if o.Verdict == Info {
-		notes = append(notes, "nothing to compare: the rules in force verify no requirement of the group, and the register gives no starts or cycles per hour with the motor's rated starts")
+		notes = append(notes, "nothing verified to compare: no starts or cycles per hour to set against the motor's rated starts, and no verified requirement of the duty group in the rules in force")
 	}
 	for i, n := range notes {
 		if i > 0 {

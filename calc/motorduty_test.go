@@ -40,7 +40,7 @@ func TestMotorDuty(t *testing.T) {
 			calc.ByUtilisation, 200.0 / 360, "1/h", 200, ""},
 		{"nothing verified to compare",
 			calc.MotorDutyInput{RatedDutyFactor: 0.4, RatedStarts: 240, RequiredDutyFactor: nan, RequiredStarts: nan, StartsPerHour: nan, CyclesPerHour: nan, StartsPerCycle: 2},
-			calc.Info, nan, "1", nan, "nothing to compare"},
+			calc.Info, nan, "1", nan, "nothing verified to compare"},
 	}
 	for _, c := range cases {
 		for _, skip := range []bool{false, true} {

@@ -267,8 +267,8 @@ func TestExplain(t *testing.T) {
 	r := runCmd(t, "", "explain", reg, "--all", "-o", out, "--as-of", "2026-12-01")
 	r.mustExit(t, exitOK, "explain --all -o DIR")
 	files := listDir(t, out)
-	if len(files) != 44 {
-		t.Fatalf("explain --all wrote %d files, want 44 (one per demo hoist)", len(files))
+	if len(files) != 49 {
+		t.Fatalf("explain --all wrote %d files, want 49 (one per demo hoist)", len(files))
 	}
 	_, recs := csvRecords(t, demoFile(t, "demo-si.csv"))
 	for i, rec := range recs {

@@ -94,6 +94,13 @@ var example = map[string]any{
 	"component_wll":             6.3,
 	"limiter_fitted":            "yes",
 	"limiter_last_test":         "2026-06-15",
+	"limiter_setting":           110.0,
+	"upper_limit_fitted":        "yes",
+	"lower_limit_fitted":        "yes",
+	"limit_last_test":           "2026-06-15",
+	"motor_duty_factor":         40.0,
+	"motor_starts":              240.0,
+	"brake_friction_work":       10.0,
 	"special_service":           "none",
 }
 
