@@ -20,7 +20,7 @@ func (b *assetBuilder) unitless(key, raw string) *assetBuilder {
 // the check's only missing column); an unreadable value is an error, not a gap.
 func TestCoverageAndGaps(t *testing.T) {
 	c := isoChecker(t)
-	rated := func() *assetBuilder { return winchA(t).num("component_wll", 10*tonne) } // every check applies
+	rated := func() *assetBuilder { return fullWinchA(t) } // every check applies
 	full := c.Check(rated().asset())
 	if full.Coverage.Run != full.Coverage.Possible || full.Coverage.Possible == 0 {
 		t.Fatalf("full hoist: coverage %+v, want every applicable check run", full.Coverage)
@@ -46,7 +46,9 @@ func TestCoverageAndGaps(t *testing.T) {
 	}{
 		{"blank MBF", rated().drop("rope_mbf").asset(), "rope_mbf", false},
 		{"blank operating hours", rated().drop("operating_hours").asset(), "operating_hours", false},
-		{"blank Component WLL", winchA(t).asset(), "component_wll", false},
+		{"blank Component WLL", fullWinchA(t).drop("component_wll").asset(), "component_wll", false},
+		{"blank upper limit device", rated().drop("upper_limit_fitted").asset(), "upper_limit_fitted", false},
+		{"blank motor rating", rated().drop("motor_duty_factor").drop("motor_starts").asset(), "motor_duty_factor", false},
 		{"unitless drum diameter", rated().unitless("drum_diameter", "335").asset(), "drum_diameter", true},
 	}
 	for _, tc := range cases {
@@ -95,7 +97,7 @@ func TestCoverageAndGaps(t *testing.T) {
 func TestFleetCoverage(t *testing.T) {
 	c := isoChecker(t)
 	s := NewSummary(5)
-	rated := func() *assetBuilder { return winchA(t).num("component_wll", 10*tonne) }
+	rated := func() *assetBuilder { return fullWinchA(t) }
 	rs := []*Result{
 		c.Check(rated().asset()),
 		c.Check(rated().drop("rope_mbf").asset()),
@@ -172,4 +174,12 @@ func TestDutyGroupGap(t *testing.T) {
 	if len(drGaps) != 2 || drGaps[0].Alone || drGaps[1].Alone {
 		t.Errorf("drum-ratio gaps %+v, want drum diameter and duty group, neither alone", drGaps)
 	}
+}
+
+// fullWinchA is winchA with every optional check's columns: a Component WLL, the limit
+// devices and the motor's intermittent rating.
+func fullWinchA(t testing.TB) *assetBuilder {
+	return winchA(t).num("component_wll", 10*tonne).
+		text("upper_limit_fitted", "yes").date("limit_last_test", winchA(t).asset().Fields["last_inspection"].Date).
+		num("motor_duty_factor", 0.40).num("motor_starts", 240)
 }
