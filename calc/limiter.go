@@ -106,10 +106,13 @@ func OverloadLimiter(in LimiterInput) (Outcome, error) {
 	} else if !math.IsNaN(uSet) && !in.SkipRecord {
 		o.Steps = append(o.Steps, limiterSetting(in, uSet).Steps...)
 	}
-	o.Figures = in.Figs.take(append([]Figure{{Name: "required_from_kg", Value: in.RequiredFromKg, Unit: "kg"}}, append(o.Figures,
-		Figure{Name: "trip_setting", Value: in.Setting, Unit: "1"},
+	var buf [12]Figure // the figures gathered here are copied by take
+	fs := append(buf[:0], Figure{Name: "required_from_kg", Value: in.RequiredFromKg, Unit: "kg"})
+	fs = append(fs, o.Figures...)
+	fs = append(fs, Figure{Name: "trip_setting", Value: in.Setting, Unit: "1"},
 		Figure{Name: "max_trip_setting", Value: in.MaxSetting, Unit: "1"},
-		Figure{Name: "setting_utilisation", Value: uSet, Unit: "1"})...))
+		Figure{Name: "setting_utilisation", Value: uSet, Unit: "1"})
+	o.Figures = in.Figs.take(fs)
 	return o, nil
 }
 

@@ -676,6 +676,10 @@ func prepareLimitDevices(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), 
 	}, rows, nil
 }
 
+// errNeedsMotorRating is motor-duty's message without the motor's intermittent rating
+// (never modified: made once, not per hoist).
+var errNeedsMotorRating = errors.New("needs Motor duty factor, Motor starts per hour")
+
 // prepareMotorDuty reads the motor's intermittent rating and the hoist's starts. The
 // group's requirement (FEM 9.683) is looked up as a part of the check that may be a
 // review limit (reviewPart): in the built-in profiles it is, so the check's verdict
@@ -685,7 +689,7 @@ func prepareMotorDuty(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []i
 	ed, okE := d.num("motor_duty_factor")
 	zr, okZ := d.num("motor_starts")
 	if !okE && !okZ {
-		return nil, nil, &Error{Kind: Missing, Field: "motor_duty_factor", Err: errors.New("needs Motor duty factor, Motor starts per hour")}
+		return nil, nil, &Error{Kind: Missing, Field: "motor_duty_factor", Err: errNeedsMotorRating}
 	}
 	nan := math.NaN()
 	in := calc.MotorDutyInput{RatedDutyFactor: nan, RatedStarts: nan, RequiredDutyFactor: nan, RequiredStarts: nan,

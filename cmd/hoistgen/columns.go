@@ -113,6 +113,12 @@ var extractors = map[string]func(h *hoist) cell{
 	// the other columns of a seed stay as they were).
 	"limiter_fitted":    func(h *hoist) cell { return txt("yes") },
 	"limiter_last_test": func(h *hoist) cell { return date(h.LastInspected) },
+	// An upper limit device on every hoist, tested with the limiter; a motor rated for its
+	// group's FEM 9.683 duty as the rule tables recall it (invented data; no random draw).
+	"upper_limit_fitted": func(h *hoist) cell { return txt("yes") },
+	"limit_last_test":    func(h *hoist) cell { return date(h.LastInspected) },
+	"motor_duty_factor":  func(h *hoist) cell { return num(genDutyFactor[h.Group-1]) },
+	"motor_starts":       func(h *hoist) cell { return num(genStarts[h.Group-1]) },
 	"proposed_rated_load": func(h *hoist) cell {
 		if h.ProposedKg == 0 {
 			return cell{}
@@ -120,6 +126,13 @@ var extractors = map[string]func(h *hoist) cell{
 		return num(h.ProposedKg)
 	},
 }
+
+// genDutyFactor and genStarts are a motor's cyclic duration factor (fraction) and rated
+// starts an hour by mechanism group M1…M8 (the values of the rule tables' FEM 9.683 rows).
+var (
+	genDutyFactor = [8]float64{0.15, 0.20, 0.25, 0.30, 0.40, 0.50, 0.60, 0.60}
+	genStarts     = [8]float64{90, 120, 150, 180, 240, 300, 360, 360}
+)
 
 // passThrough are the generated columns the schema does not know.
 var passThrough = []field{
