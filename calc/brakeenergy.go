@@ -89,9 +89,9 @@ func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 	if rec {
 		tag := " (" + sr.t.radiusName(sr.best) + ")"
 		out.Steps = []Step{
-			{Symbol: "m_eq" + tag, Formula: "equivalent mass of the braking phase (brake-stop)", Numbers: "brake-stop", Value: x.meq, Unit: "kg"},
-			{Symbol: "v_1" + tag, Formula: "speed when the brakes have set (brake-stop)", Numbers: "brake-stop", Value: x.v1, Unit: "m/s"},
-			{Symbol: "s_2" + tag, Formula: "braking distance (brake-stop)", Numbers: "brake-stop", Value: x.s2, Unit: "m"},
+			{Symbol: "m_eq" + tag, Formula: "equivalent mass of the braking phase (brake-stop)", Numbers: "as in brake-stop", Value: x.meq, Unit: "kg"},
+			{Symbol: "v_1" + tag, Formula: "speed when the brakes have set (brake-stop)", Numbers: "as in brake-stop", Value: x.v1, Unit: "m/s"},
+			{Symbol: "s_2" + tag, Formula: "braking distance (brake-stop)", Numbers: "as in brake-stop", Value: x.s2, Unit: "m"},
 			{Symbol: "E_k", Formula: "½ m_eq v_1²", Numbers: fmt.Sprintf("0.5 × %s × %s²", dynNum(x.meq), dynNum(x.v1)), Value: ek, Unit: "J"},
 			{Symbol: "W_g", Formula: "m g s_2", Numbers: fmt.Sprintf("%s × %s × %s", dynNum(sr.t.m), dynNum(sr.t.g), dynNum(x.s2)), Value: wg, Unit: "J"},
 			{Symbol: "E", Formula: "E_k + W_g (losses ignored: an upper bound)", Numbers: dynNum(ek) + " + " + dynNum(wg), Value: e, Unit: "J"},
