@@ -51,7 +51,7 @@ func TestFigureBufSameFigures(t *testing.T) {
 			return calc.ComponentRating(h)
 		}},
 		{"limit-devices", func(h calc.Hoist) (calc.Outcome, error) {
-			return calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LastTest: date(2026, 5, 1), AsOf: date(2026, 12, 1), IntervalMonths: 12, SkipRecord: true, Figs: h.Figs}, true)
+			return calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LastTest: date(2026, 5, 1), AsOf: date(2026, 12, 1), IntervalMonths: 12, SkipRecord: true, Figs: h.Figs, LowerKnown: true})
 		}},
 		{"motor-duty", func(h calc.Hoist) (calc.Outcome, error) {
 			return calc.MotorDuty(calc.MotorDutyInput{RatedDutyFactor: 0.4, RatedStarts: 240, RequiredDutyFactor: math.NaN(), RequiredStarts: math.NaN(),

@@ -11,13 +11,14 @@ type LimitDeviceInput struct {
 	// fitted; UpperRequired: the rules in force ask for one.
 	UpperFitted, UpperRequired bool
 	// LowerRequired: the rules in force ask for a lower hook limit device as well;
-	// LowerFitted: the register says one is fitted (read only when required, or shown).
-	LowerRequired, LowerFitted bool
-	LastTest                   time.Time // the limit devices' last test (needed when fitted)
-	AsOf                       time.Time // the run's date
-	IntervalMonths             int       // test interval from the rules [calendar months]
-	SkipRecord                 bool      // numbers only, no calculation record (bulk runs)
-	Figs                       *FigureBuf
+	// LowerFitted: the register says one is fitted; LowerKnown: the register says
+	// whether one is (lower_fitted is NaN without it).
+	LowerRequired, LowerFitted, LowerKnown bool
+	LastTest                               time.Time // the limit devices' last test (needed when fitted)
+	AsOf                                   time.Time // the run's date
+	IntervalMonths                         int       // test interval from the rules [calendar months]
+	SkipRecord                             bool      // numbers only, no calculation record (bulk runs)
+	Figs                                   *FigureBuf
 }
 
 var limitTest = dueTexts{field: "limit_last_test", intervalField: "service", what: "limit device test", short: "limit device test"}
@@ -45,9 +46,9 @@ var limitTest = dueTexts{field: "limit_last_test", intervalField: "service", wha
 //
 // It returns a *RangeError (devices fitted) for a missing or future test date or an
 // interval < 1 month.
-func LimitDevices(in LimitDeviceInput, lowerKnown bool) (Outcome, error) {
+func LimitDevices(in LimitDeviceInput) (Outcome, error) {
 	lower := math.NaN()
-	if lowerKnown {
+	if in.LowerKnown {
 		lower = 0
 		if in.LowerFitted {
 			lower = 1

@@ -31,8 +31,8 @@ func TestLimitDevices(t *testing.T) {
 		{"both fitted, tested today", calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LowerRequired: true, LowerFitted: true, LastTest: asOf, IntervalMonths: 6}, true, calc.ByUtilisation, 0, "due 2027-06-01"},
 	}
 	for _, c := range cases {
-		c.in.AsOf = asOf
-		o, err := calc.LimitDevices(c.in, c.lowerKnown)
+		c.in.AsOf, c.in.LowerKnown = asOf, c.lowerKnown
+		o, err := calc.LimitDevices(c.in)
 		if err != nil {
 			t.Fatalf("%s: %v", c.name, err)
 		}
@@ -46,7 +46,7 @@ func TestLimitDevices(t *testing.T) {
 			t.Errorf("%s: lower_fitted %g with lowerKnown %v", c.name, got, c.lowerKnown)
 		}
 	}
-	if _, err := calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, AsOf: asOf, IntervalMonths: 12}, false); err == nil {
+	if _, err := calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, AsOf: asOf, IntervalMonths: 12}); err == nil {
 		t.Error("fitted without a test date: no error")
 	}
 }

@@ -352,10 +352,10 @@ func TestSkipRecordLifeChecks(t *testing.T) {
 			return calc.OverloadLimiter(calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, Setting: 1.2, MaxSetting: 1.1, SettingOnly: true, SkipRecord: skip})
 		}},
 		{"limit-devices", func(skip bool) (calc.Outcome, error) {
-			return calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LastTest: day(2025, 10, 1), AsOf: day(2026, 12, 1), IntervalMonths: 12, SkipRecord: skip}, false)
+			return calc.LimitDevices(calc.LimitDeviceInput{UpperFitted: true, UpperRequired: true, LastTest: day(2025, 10, 1), AsOf: day(2026, 12, 1), IntervalMonths: 12, SkipRecord: skip})
 		}},
 		{"limit-devices missing", func(skip bool) (calc.Outcome, error) {
-			return calc.LimitDevices(calc.LimitDeviceInput{UpperRequired: true, SkipRecord: skip}, false)
+			return calc.LimitDevices(calc.LimitDeviceInput{UpperRequired: true, SkipRecord: skip})
 		}},
 		// FEM 9.683 2m: 40 % ED, 240 starts an hour (memory, low); 150 cycles an hour at two
 		// starts each.

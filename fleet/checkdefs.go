@@ -651,8 +651,8 @@ func prepareLimitDevices(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), 
 	rows := append(d.rowBuf[:0], r1, r2)
 	in := calc.LimitDeviceInput{UpperFitted: d.text("upper_limit_fitted") == "yes", UpperRequired: up == "yes",
 		LowerRequired: low == "yes", LowerFitted: d.text("lower_limit_fitted") == "yes", AsOf: d.c.opts.AsOf, SkipRecord: !d.c.opts.Record}
-	lowerKnown := !d.isMissing("lower_limit_fitted")
-	if in.LowerRequired && !lowerKnown {
+	in.LowerKnown = !d.isMissing("lower_limit_fitted")
+	if in.LowerRequired && !in.LowerKnown {
 		return nil, nil, &Error{Kind: Missing, Field: "lower_limit_fitted", Err: errors.New("needs Lower limit device (yes or no): the rules require one")}
 	}
 	fails := (in.UpperRequired && !in.UpperFitted) || (in.LowerRequired && !in.LowerFitted)
@@ -672,7 +672,7 @@ func prepareLimitDevices(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), 
 	return func(h calc.Hoist) (calc.Outcome, error) {
 		in := in
 		in.Figs = h.Figs
-		return calc.LimitDevices(in, lowerKnown)
+		return calc.LimitDevices(in)
 	}, rows, nil
 }
 
