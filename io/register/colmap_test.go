@@ -212,3 +212,17 @@ func TestReadColumnMapDialects(t *testing.T) {
 		}
 	}
 }
+
+// TestPercentColumnWithoutUnit: a percentage column whose header gives no unit is read in
+// % and said so (a duty factor written 1 for 100 % would otherwise pass as 1 % unseen).
+func TestPercentColumnWithoutUnit(t *testing.T) {
+	r, err := NewCSVOptions(strings.NewReader("Asset ID,Rated load [t],Motor duty factor\nH1,5,40\n"), "p.csv", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	as := readAll(t, r)
+	if v := as[0].Get("motor_duty_factor"); v.State != fleet.OK || v.Num != 0.4 {
+		t.Errorf("duty factor %+v, want 40 %% (0.4)", v)
+	}
+	hasProblem(t, r, `p.csv!C1: "Motor duty factor" gives no unit: read in % (write "Motor duty factor [%]" to say so; a fraction such as 0.4 is not a percentage)`)
+}

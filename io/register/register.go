@@ -473,6 +473,10 @@ func (r *Reader) buildHeader(file string, titles []string, row int) error {
 				spec.headerErr = "header " + ref.String() + " " + spec.headerErr
 			} else if spec.col.Quantity == "" && spec.col.Unit != "" && unit == "" {
 				problem(fleet.Other, key, "%q gives no unit: read in %s, the column's only unit (write %q to say so)", raw, sc.Unit, sc.HeaderWithUnit(""))
+			} else if spec.col.Quantity == "ratio" && sc.Unit == "%" && unit == "" {
+				// A percentage column without a unit is read in % (a 1 would be 1 %, not
+				// 100 %): said once, so that a column of fractions is noticed.
+				problem(fleet.Other, key, "%q gives no unit: read in %% (write %q to say so; a fraction such as 0.4 is not a percentage)", raw, sc.HeaderWithUnit(""))
 			} else if spec.col.Quantity == "" && spec.col.Unit == "" && unit != "" && unit != "-" && unit != "1" {
 				problem(fleet.Invalid, key, "%q: %s takes no unit; %q is ignored", raw, sc.Header, unit)
 			}

@@ -187,7 +187,7 @@ func TestUSUnitsMatchSI(t *testing.T) {
 		if c.Key == "rated_load" && (c.Unit != "lb" || c.Factor != 0.45359237) {
 			t.Errorf("rated load column: unit %q factor %v", c.Unit, c.Factor)
 		}
-		if c.Key == "motor_peak_torque" && (c.Unit != "" || c.Factor != 0.01) {
+		if c.Key == "motor_peak_torque" && (c.Unit != "%" || c.Factor != 0.01) {
 			t.Errorf("peak torque column: unit %q factor %v", c.Unit, c.Factor)
 		}
 	}
