@@ -298,17 +298,14 @@ func checkDefinitions() []Definition {
 			Rule: "accelerating torque ≤ peak motor torque p M_r", Source: "Newton's second law for load, drum and rotor; peak torque ratio from the register or the rule default",
 			Reference: []string{"TestMotorAccelTorqueByHand", "TestTorqueLimitsKg"},
 			prepare:   closedForm(calc.MotorAccelTorque, calc.MotorAccelTorqueLimitKg)},
-		{ID: "gearbox-torque", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true,
+		// Optional: a register without the gear unit's rating leaves the check unchecked
+		// without holding back the hoist's status or rating (as before, when it was "not
+		// applicable"), but it counts in the coverage and the Data sheet as a gap.
+		{ID: "gearbox-torque", Kind: Mechanical, LoadDependent: true, NeedsOuterLayer: true, Optional: true,
 			advise: overLimit("gearbox torque", "fit a gear unit rated at least", "N m", 1),
 			Needs:  join(loadNeeds, []string{"gearbox_rated_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "brake_torque"}), Uses: join(brakeUses, []string{"gearbox_peak_torque"}),
 			Rules:     []string{"gearbox.peak_factor"},
 			Reference: []string{"TestGearboxTorque", "TestGearboxPeakRating", "TestTorqueLimitsKg"},
-			applicable: func(d *hoistData) (bool, string) {
-				if d.isMissing("gearbox_rated_torque") {
-					return false, "no gearbox rated torque in the register"
-				}
-				return true, ""
-			},
 			prepare: func(d *hoistData) (func(calc.Hoist) (calc.Outcome, error), []int, error) {
 				// Steady and accelerating torque against the rated torque, the emergency
 				// stop's momentary torque against the peak rating, or the rated torque ×

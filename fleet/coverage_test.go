@@ -183,3 +183,24 @@ func fullWinchA(t testing.TB) *assetBuilder {
 		text("upper_limit_fitted", "yes").date("limit_last_test", winchA(t).asset().Fields["last_inspection"].Date).
 		num("motor_duty_factor", 0.40).num("motor_starts", 240)
 }
+
+// TestGearboxRatingIsAGap: without the gear unit's rated torque, gearbox-torque is
+// unchecked (a gap of its own, counted as possible) but, as before, holds back neither the
+// hoist's status nor its rating.
+func TestGearboxRatingIsAGap(t *testing.T) {
+	c := isoChecker(t)
+	full := c.Check(fullWinchA(t).asset())
+	r := c.Check(fullWinchA(t).drop("gearbox_rated_torque").asset())
+	if cr := mustCheck(t, r, "gearbox-torque"); cr.Status != StatusUnchecked {
+		t.Fatalf("gearbox-torque %s %q, want unchecked", cr.Status, cr.Message)
+	}
+	if r.Status != full.Status {
+		t.Errorf("status %s, want the full hoist's %s", r.Status, full.Status)
+	}
+	if r.Coverage.Possible != full.Coverage.Possible || r.Coverage.Run != full.Coverage.Run-1 {
+		t.Errorf("coverage %+v, full %+v: want one check fewer run of as many possible", r.Coverage, full.Coverage)
+	}
+	if len(r.Gaps) != 1 || r.Gaps[0].Key != "gearbox_rated_torque" || !r.Gaps[0].Alone {
+		t.Errorf("gaps %+v, want the gearbox rated torque alone", r.Gaps)
+	}
+}
