@@ -120,6 +120,7 @@ type CheckCount struct {
 // Brief is one hoist in a summary list.
 type Brief struct {
 	Row            int
+	Sheet          string // the row's sheet when several are read as one register (--sheet all)
 	AssetID        string
 	Site           string
 	Status         Status
@@ -263,7 +264,7 @@ func slicesContains(list []string, s string) bool {
 }
 
 func brief(r *Result) Brief {
-	b := Brief{Row: r.Asset.Row, AssetID: r.Asset.ID, Status: r.Status, WorstCheck: r.WorstCheck,
+	b := Brief{Row: r.Asset.Row, Sheet: r.Asset.Sheet, AssetID: r.Asset.ID, Status: r.Status, WorstCheck: r.WorstCheck,
 		MinMargin: r.MinMargin, GoverningCheck: r.GoverningCheck, MaxRatedLoadKg: r.MaxRatedLoadKg, RatedLoadKg: r.RatedLoadKg, Action: r.Action}
 	if v := r.Asset.Get("site"); v.State == OK {
 		b.Site = v.Text

@@ -48,13 +48,21 @@ func runColumns(ctx context.Context, args []string, st Streams) error {
 	}
 	if all, ok := in.src.(*register.AllSheets); ok {
 		// --sheet all: a report for each sheet read (its own header and notes), then
-		// the notes of the whole read (the sheets skipped); JSON: an array of reports.
+		// the notes of the whole read (the sheets skipped, hidden or empty, the sites taken
+		// from sheet names); JSON: {"sheets": [report, …], "notes": […]}.
 		var reps []colreport.Report
 		for _, h := range all.SheetHeaders() {
 			reps = append(reps, colreport.Build(h))
 		}
 		if format == "json" {
-			return colreport.WriteJSON(st.Out, reps)
+			notes := []string{}
+			for _, p := range all.Notes() {
+				notes = append(notes, p.Error())
+			}
+			return colreport.WriteJSON(st.Out, struct {
+				Sheets []colreport.Report `json:"sheets"`
+				Notes  []string           `json:"notes"`
+			}{reps, notes})
 		}
 		for i, rep := range reps {
 			if i > 0 {

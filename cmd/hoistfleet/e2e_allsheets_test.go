@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/csv"
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -73,6 +74,9 @@ func TestSheetAllEndToEnd(t *testing.T) {
 
 	out := filepath.Join(dir, "sites-results.xlsx")
 	res = runCmd(t, "", "check", book, "--sheet", "all", "-o", out, "--as-of", "2026-12-01")
+	if hs[0].str("status") != "pass" && !strings.Contains(res.out, "North yard!2") {
+		t.Errorf("the terminal's worst list does not name the row's sheet:\n%s", res.out)
+	}
 	if !strings.Contains(res.out, `skipped, no recognisable header: "Read me"`) && !strings.Contains(res.err, `skipped, no recognisable header: "Read me"`) {
 		t.Errorf("the terminal does not say which sheets were skipped:\n%s\n%s", res.out, res.err)
 	}
@@ -119,4 +123,35 @@ func readCSVRows(t *testing.T, path string) [][]string {
 		t.Fatal(err)
 	}
 	return rows
+}
+
+// TestColumnsSheetAllJSON: 'columns --sheet all --format json' gives each sheet's report
+// and the read's own notes (the sheets skipped).
+func TestColumnsSheetAllJSON(t *testing.T) {
+	dir := t.TempDir()
+	f := excelize.NewFile()
+	_ = f.SetSheetName("Sheet1", "Cover")
+	_ = f.SetCellValue("Cover", "A1", "Register (invented)")
+	_, _ = f.NewSheet("Yard")
+	_ = f.SetSheetRow("Yard", "A1", &[]any{"Asset ID", "SWL [t]"})
+	_ = f.SetSheetRow("Yard", "A2", &[]any{"Y-1", 5})
+	book := filepath.Join(dir, "b.xlsx")
+	if err := f.SaveAs(book); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	res := runCmd(t, "", "columns", book, "--sheet", "all", "--format", "json")
+	res.mustExit(t, exitOK, "columns --sheet all --format json")
+	var rep struct {
+		Sheets []struct {
+			Sheet string `json:"sheet"`
+		} `json:"sheets"`
+		Notes []string `json:"notes"`
+	}
+	if err := json.Unmarshal([]byte(res.out), &rep); err != nil {
+		t.Fatalf("%v\n%s", err, res.out)
+	}
+	if len(rep.Sheets) != 1 || rep.Sheets[0].Sheet != "Yard" || !strings.Contains(strings.Join(rep.Notes, "\n"), `skipped, no recognisable header: "Cover"`) {
+		t.Errorf("report %+v", rep)
+	}
 }

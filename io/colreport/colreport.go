@@ -152,7 +152,8 @@ func contains(list []string, s string) bool {
 	return false
 }
 
-// WriteJSON writes a Report as one JSON object (or a []Report, one per sheet, as an array).
+// WriteJSON writes a Report (or any value gathering reports, such as one per sheet) as
+// one JSON object.
 func WriteJSON(w io.Writer, rep any) error {
 	enc := json.NewEncoder(w)
 	enc.SetEscapeHTML(false)

@@ -38,6 +38,7 @@ type AllSheets struct {
 	siteCol int     // the combined header's (first) Site column, -1 when none
 	header  *fleet.Header
 	copied  []int // per reader: its header problems copied so far
+	count   []int // per reader: the rows it gave
 	cur     int
 	// seen is where each asset id was first met on an earlier sheet, by id and site:
 	// an id may repeat from site to site, not within one.
@@ -57,7 +58,9 @@ func NewXLSXAllSheets(path string, opt Options) (*AllSheets, error) {
 	}
 	s := &AllSheets{file: file}
 	var skipped []string
-	for _, name := range names {
+	var hidden []string
+	for _, sn := range names {
+		name := sn.name
 		r, err := NewXLSXFileOptions(path, name, opt)
 		if err != nil {
 			why := strings.TrimPrefix(err.Error(), file+": ")
@@ -66,6 +69,9 @@ func NewXLSXAllSheets(path string, opt Options) (*AllSheets, error) {
 		}
 		s.sheets = append(s.sheets, name)
 		s.readers = append(s.readers, r)
+		if sn.hidden {
+			hidden = append(hidden, name)
+		}
 	}
 	if len(s.readers) == 0 {
 		return nil, fmt.Errorf("%s: --sheet all: no sheet has a recognisable header: %s", file, strings.Join(skipped, "; "))
@@ -80,6 +86,10 @@ func NewXLSXAllSheets(path string, opt Options) (*AllSheets, error) {
 		note = fmt.Errorf("%v; skipped, no recognisable header: %s", note, strings.Join(skipped, "; "))
 	}
 	s.note(&fleet.Error{Kind: fleet.Other, Err: note})
+	if len(hidden) > 0 {
+		s.note(&fleet.Error{Kind: fleet.Other, Err: fmt.Errorf("--sheet all: the workbook hides %s: read all the same, as hidden rows are (unhide or delete a sheet that is not the register's)", quoteAll(hidden))})
+	}
+	s.count = make([]int, len(s.readers))
 	return s, nil
 }
 
@@ -184,12 +194,17 @@ func (s *AllSheets) Next(ctx context.Context) (*fleet.Asset, error) {
 		a, err := s.readers[s.cur].Next(ctx)
 		if errors.Is(err, io.EOF) {
 			s.copyProblems(s.cur)
+			if s.count[s.cur] == 0 {
+				s.note(&fleet.Error{Kind: fleet.Other, Cell: fleet.CellRef{Sheet: s.sheets[s.cur], Row: s.readers[s.cur].Header().Row},
+					Err: fmt.Errorf("sheet %q has a header and no hoist under it", s.sheets[s.cur])})
+			}
 			s.cur++
 			continue
 		}
 		if err != nil {
 			return nil, err
 		}
+		s.count[s.cur]++
 		return s.place(a), nil
 	}
 	return nil, io.EOF
@@ -240,7 +255,7 @@ func (s *AllSheets) Close() error {
 }
 
 // sheetNames lists a workbook's sheets in their order, from xl/workbook.xml.
-func sheetNames(path string) ([]string, error) {
+func sheetNames(path string) ([]sheetName, error) {
 	zr, err := zip.OpenReader(path)
 	if err != nil {
 		return nil, err
@@ -248,18 +263,25 @@ func sheetNames(path string) ([]string, error) {
 	defer zr.Close()
 	var wb struct {
 		Sheets []struct {
-			Name string `xml:"name,attr"`
+			Name  string `xml:"name,attr"`
+			State string `xml:"state,attr"`
 		} `xml:"sheets>sheet"`
 	}
 	if err := decodePart(&zr.Reader, "xl/workbook.xml", &wb); err != nil {
 		return nil, err
 	}
-	names := make([]string, len(wb.Sheets))
+	sheets := make([]sheetName, len(wb.Sheets))
 	for i, sh := range wb.Sheets {
-		names[i] = sh.Name
+		sheets[i] = sheetName{name: sh.Name, hidden: sh.State == "hidden" || sh.State == "veryHidden"}
 	}
-	if len(names) == 0 {
+	if len(sheets) == 0 {
 		return nil, errors.New("the workbook lists no sheet")
 	}
-	return names, nil
+	return sheets, nil
+}
+
+// sheetName is a sheet of a workbook, and whether the workbook hides it.
+type sheetName struct {
+	name   string
+	hidden bool
 }

@@ -157,3 +157,54 @@ func TestAllSheetsNoHeader(t *testing.T) {
 		t.Errorf("error %v", err)
 	}
 }
+
+// TestAllSheetsHiddenAndEmpty: a sheet the workbook hides is read all the same and said
+// so; a sheet with a header and no hoist is said to have none.
+func TestAllSheetsHiddenAndEmpty(t *testing.T) {
+	f := excelize.NewFile()
+	_ = f.SetSheetName("Sheet1", "Yard")
+	_ = f.SetSheetRow("Yard", "A1", &[]any{"Asset ID", "Rated load [t]"})
+	_ = f.SetSheetRow("Yard", "A2", &[]any{"Y-1", 5})
+	for _, sh := range []string{"Old yard", "Empty"} {
+		if _, err := f.NewSheet(sh); err != nil {
+			t.Fatal(err)
+		}
+		_ = f.SetSheetRow(sh, "A1", &[]any{"Asset ID", "Rated load [t]"})
+	}
+	_ = f.SetSheetRow("Old yard", "A2", &[]any{"O-9", 2})
+	if err := f.SetSheetVisible("Old yard", false); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "hidden.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	s, err := NewXLSXAllSheets(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	n := 0
+	for {
+		if _, err := s.Next(context.Background()); errors.Is(err, io.EOF) {
+			break
+		} else if err != nil {
+			t.Fatal(err)
+		}
+		n++
+	}
+	if n != 2 {
+		t.Errorf("%d hoists, want 2 (the hidden sheet's too)", n)
+	}
+	var notes []string
+	for _, p := range s.Notes() {
+		notes = append(notes, p.Error())
+	}
+	all := strings.Join(notes, "\n")
+	for _, want := range []string{`the workbook hides "Old yard": read all the same`, `sheet "Empty" has a header and no hoist under it`} {
+		if !strings.Contains(all, want) {
+			t.Errorf("notes lack %q:\n%s", want, all)
+		}
+	}
+}

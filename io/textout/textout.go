@@ -129,7 +129,7 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		}
 		p("\n")
 		for _, b := range s.Worst[:n] {
-			p("  %s\t%d\t%s\t%s\t%s\t%s\t%s\t%s", orDash(b.AssetID), b.Row, b.Status, marginText(b.MinMargin),
+			p("  %s\t%s\t%s\t%s\t%s\t%s\t%s\t%s", orDash(b.AssetID), rowText(b), b.Status, marginText(b.MinMargin),
 				orDash(b.WorstCheck), tonnesText(b.RatedLoadKg), tonnesText(b.MaxRatedLoadKg), orDash(b.GoverningCheck))
 			if s.Weighted {
 				e := b.Exposure
@@ -146,7 +146,11 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		head := "\nWhat to do, worst hoists first\n"
 		for _, b := range s.Worst[:n] {
 			if b.Action != "" {
-				p("%s  %s\t%s\n", head, orDash(b.AssetID), b.Action)
+				id := orDash(b.AssetID)
+				if b.Sheet != "" {
+					id += " (" + b.Sheet + ")"
+				}
+				p("%s  %s\t%s\n", head, id, b.Action)
 				head = ""
 			}
 		}
@@ -289,4 +293,13 @@ func orDash(s string) string {
 		return "-"
 	}
 	return s
+}
+
+// rowText is a hoist's row for the lists: "7", or "Nord!7" when several sheets are read
+// as one register (row numbers repeat from sheet to sheet).
+func rowText(b fleet.Brief) string {
+	if b.Sheet != "" {
+		return b.Sheet + "!" + strconv.Itoa(b.Row)
+	}
+	return strconv.Itoa(b.Row)
 }
