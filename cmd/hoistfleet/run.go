@@ -62,8 +62,25 @@ func run(ctx context.Context, args []string, st Streams) exitCode {
 		fmt.Fprintln(st.Out, "hoistfleet", version)
 	case "help", "-h", "--help":
 		if len(rest) > 0 {
+			// A command's help is what 'COMMAND --help' prints, flags included, on
+			// standard output.
+			out := st
+			out.Err = st.Out
+			help := []string{"--help"}
+			switch rest[0] {
+			case "check":
+				return report(runCheck(ctx, help, out), st, rest[0])
+			case "explain":
+				return report(runExplain(ctx, help, out), st, rest[0])
+			case "template":
+				return report(runTemplate(help, out), st, rest[0])
+			case "rules":
+				return report(runRules(help, out), st, rest[0])
+			case "demo":
+				return report(runDemo(ctx, help, out), st, rest[0])
+			}
 			if h, ok := commandHelp[rest[0]]; ok {
-				fmt.Fprint(st.Out, h)
+				fmt.Fprint(st.Out, strings.TrimRight(h, "\n")+"\n")
 				return exitOK
 			}
 			topics := make([]string, 0, len(commandHelp))

@@ -226,3 +226,21 @@ func TestPercentColumnWithoutUnit(t *testing.T) {
 	}
 	hasProblem(t, r, `p.csv!C1: "Motor duty factor" gives no unit: read in % (write "Motor duty factor [%]" to say so; a fraction such as 0.4 is not a percentage)`)
 }
+
+// TestColumnsFileDateOrderMessage: a date refused under the columns file's order says the
+// order is the file's, not --date-order's.
+func TestColumnsFileDateOrderMessage(t *testing.T) {
+	m, err := ReadColumnMap("c.csv", strings.NewReader("register column,column,unit,date order\nGeprüft,last_inspection,,mdy\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := NewCSVOptions(strings.NewReader("Asset ID,Rated load [t],Geprüft\nH1,5,25/03/2026\n"), "d.csv", Options{Columns: m, DateOrder: DMY})
+	if err != nil {
+		t.Fatal(err)
+	}
+	as := readAll(t, r)
+	v := as[0].Get("last_inspection")
+	if v.State != fleet.Bad || !strings.Contains(v.Err.Error(), "not a date with the month first (the columns file's date order mdy)") {
+		t.Errorf("25/03/2026 under the file's mdy: %+v", v)
+	}
+}

@@ -318,6 +318,10 @@ func (s *colSpec) fillTextDate(text string, d dialect, ref fleet.CellRef) (time.
 		n.evidence(td.shape, ref, text)
 	}
 	if msg != "" {
+		if s.mapDates != DateOrderAuto && s.mapDates == order {
+			// The order is the columns file's, not the command line's.
+			msg = strings.Replace(msg, "(--date-order "+string(order)+")", "(the columns file's date order "+string(order)+")", 1)
+		}
 		if td.shape == shapeEither && !n.dmyAt.IsZero() && !n.mdyAt.IsZero() && n.order == DateOrderAuto {
 			msg = fmt.Sprintf("it reads both ways, and the column has dates with the day first (%q at %s) and with the month first (%q at %s): give --date-order dmy or mdy, or write it as YYYY-MM-DD",
 				n.dmyText, n.dmyAt, n.mdyText, n.mdyAt)

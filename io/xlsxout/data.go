@@ -49,10 +49,10 @@ func (w *Writer) writeData(s *fleet.Summary) error {
 		}
 		sw.str(1, r, name, 0)
 		sw.str(2, r, unit, 0)
-		sw.set(3, r, g.Hoists, st.int_)
-		sw.set(4, r, g.Unitless, st.int_)
-		sw.set(5, r, g.Waiting, st.int_)
-		sw.set(6, r, g.Unlocks, st.int_)
+		sw.set(3, r, g.Hoists, st.intMid)
+		sw.set(4, r, g.Unitless, st.intMid)
+		sw.set(5, r, g.Waiting, st.intMid)
+		sw.set(6, r, g.Unlocks, st.intMid)
 		checks := strings.Join(g.Checks, ", ")
 		sw.str(7, r, checks, st.wrap)
 		if lines := (len(checks) + 55) / 56; lines > 1 { // about 56 characters a line at width 60

@@ -63,7 +63,7 @@ type styles struct {
 	title, subtitle, caution, heading, th, tileLabel, tileCount, tilePct int
 	tile                                                                 [len(Palette)]int
 	tileNum                                                              [len(Palette)]int
-	int_, wrap, bold                                                     int
+	int_, intMid, wrap, bold                                             int
 }
 
 func newStyles(f *excelize.File) (*styles, error) {
@@ -118,6 +118,9 @@ func newStyles(f *excelize.File) (*styles, error) {
 	add(&s.int_, &excelize.Style{NumFmt: 3}) // #,##0
 	add(&s.wrap, &excelize.Style{Alignment: &excelize.Alignment{WrapText: true, Vertical: "top"}})
 	add(&s.bold, &excelize.Style{Font: &excelize.Font{Bold: true}})
+	// A count in a table of words (the Data sheet): centred and on the first line, so that
+	// it stands clear of the text beside it.
+	add(&s.intMid, &excelize.Style{NumFmt: 3, Alignment: &excelize.Alignment{Horizontal: "center", Vertical: "top"}})
 	if err != nil {
 		return nil, fmt.Errorf("xlsxout: styles: %w", err)
 	}
