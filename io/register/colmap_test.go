@@ -244,3 +244,17 @@ func TestColumnsFileDateOrderMessage(t *testing.T) {
 		t.Errorf("25/03/2026 under the file's mdy: %+v", v)
 	}
 }
+
+// TestNoHeaderMessageUsesColumnsFile: the "no header" message counts what the columns
+// file names: a file mapping only the asset id finds a row naming only that, and says
+// that a register needs another column.
+func TestNoHeaderMessageUsesColumnsFile(t *testing.T) {
+	m, err := ReadColumnMap("c.csv", strings.NewReader("register column,column\nKran-Nr.,asset_id\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = NewCSVOptions(strings.NewReader("Kran-Nr.,Tragfähigkeit\nK1,5\n"), "k.csv", Options{Columns: m})
+	if err == nil || !strings.Contains(err.Error(), "the closest, row 1, names only the asset id: a register needs at least one other of its columns") {
+		t.Errorf("error %v", err)
+	}
+}

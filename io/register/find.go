@@ -153,7 +153,7 @@ func (r *Reader) findHeader(file string, opt Options) error {
 					break
 				}
 			}
-			return noHeaderError(index, rows, bestAt)
+			return noHeaderError(index, opt.Columns, rows, bestAt)
 		}
 	}
 	hdr := rows[at]
@@ -206,21 +206,23 @@ func allBlank(rows []rawRow) bool {
 }
 
 // noHeaderError says what was looked for, where, and what came closest.
-func noHeaderError(index *schemaIdx, rows []rawRow, bestAt int) error {
+func noHeaderError(index *schemaIdx, m *ColumnMap, rows []rawRow, bestAt int) error {
 	first, last := rows[0].row, rows[len(rows)-1].row
 	var b strings.Builder
 	fmt.Fprintf(&b, "no header row found in rows %d to %d: looked for a row of column titles naming the asset id (%s) and at least one other column of the register (Rated load, Rope diameter, Motor power, … : 'hoistfleet help columns' lists them)",
 		first, last, idTitles(index))
 	if bestAt >= 0 {
-		sc := scoreHeader(index, nil, rows[bestAt].cells, rows[bestAt].row)
+		sc := scoreHeader(index, m, rows[bestAt].cells, rows[bestAt].row)
 		var names []string
 		for _, k := range sc.keys {
 			c, _ := index.col(k)
 			names = append(names, c.Header)
 		}
-		fmt.Fprintf(&b, "; the closest, row %d, names only %s", sc.row, strings.Join(names, ", "))
-		if !sc.hasID {
-			b.WriteString(" and no asset id")
+		switch {
+		case !sc.hasID:
+			fmt.Fprintf(&b, "; the closest, row %d, names %s but no asset id", sc.row, strings.Join(names, ", "))
+		default:
+			fmt.Fprintf(&b, "; the closest, row %d, names only the asset id: a register needs at least one other of its columns", sc.row)
 		}
 	} else {
 		b.WriteString("; no row names any of them")

@@ -145,7 +145,7 @@ func TestNotARegister(t *testing.T) {
 	for _, c := range []struct{ in, want string }{
 		{"hello,world\n1,2\n3,4\n", "x.csv: no header row found in rows 1 to 3: looked for a row of column titles naming the asset id (Asset ID, asset, asset no, asset number, hoist id, equipment id, …) and at least one other column of the register (Rated load, Rope diameter, Motor power, … : 'hoistfleet help columns' lists them); no row names any of them. Give the header's row with --header-row N, say which column is which with --columns FILE, or rename the columns"},
 		{"# Hoistfleet\n\nA README renamed .csv.\nIt mentions the Rated load and the Site.\n", "x.csv: no header row found in rows 1 to 4: looked for a row of column titles naming the asset id"},
-		{"Site,Rated load [t]\nA,5\n", "the closest, row 1, names only Site, Rated load and no asset id"},
+		{"Site,Rated load [t]\nA,5\n", "the closest, row 1, names Site, Rated load but no asset id"},
 	} {
 		_, err := NewCSV(strings.NewReader(c.in), "x.csv")
 		var fe *fleet.Error
