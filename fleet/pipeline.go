@@ -49,6 +49,14 @@ func Run(ctx context.Context, src Source, sink Sink, c *Checker, info *RunInfo, 
 	cranes := craneSites{}
 	addProblems := func(ps []*Error) {
 		for _, p := range ps {
+			if p.Kind == Other {
+				// A note of how the register was read, not a problem of a cell.
+				summary.NoteCount++
+				if len(summary.Notes) < summary.TopN {
+					summary.Notes = append(summary.Notes, p.Error())
+				}
+				continue
+			}
 			summary.ProblemCount++
 			if len(summary.Problems) < summary.TopN {
 				summary.Problems = append(summary.Problems, p.Error())

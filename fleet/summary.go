@@ -39,6 +39,11 @@ type Summary struct {
 	// short rows), "asset: message"; ProblemCount counts them all.
 	Problems     []string
 	ProblemCount int
+	// Notes are the first TopN notes of how the register was read (the header found
+	// under a title block, a units row, blank markers, a date order inferred: header
+	// notes of kind Other); NoteCount counts them all.
+	Notes     []string
+	NoteCount int
 	// Coverage is what the verdict rests on: checks run of checks possible, and the
 	// columns that would let more run.
 	Coverage FleetCoverage

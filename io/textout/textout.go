@@ -156,6 +156,22 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		}
 	}
 
+	if s.NoteCount > 0 {
+		if err := tw.Flush(); err != nil {
+			return fmt.Errorf("textout: %w", err)
+		}
+		p("\nHow the register was read: %d notes\n", s.NoteCount)
+		n := min(len(s.Notes), MaxWorst)
+		for _, m := range s.Notes[:n] {
+			p("  %s\n", m)
+		}
+		if s.NoteCount > n {
+			p("  … %d more: see the Audit sheet or 'hoistfleet columns'\n", s.NoteCount-n)
+		}
+		if err := tw.Flush(); err != nil {
+			return fmt.Errorf("textout: %w", err)
+		}
+	}
 	if s.ProblemCount > 0 {
 		if err := tw.Flush(); err != nil {
 			return fmt.Errorf("textout: %w", err)
