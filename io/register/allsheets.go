@@ -261,18 +261,17 @@ func sheetNames(path string) ([]sheetName, error) {
 		return nil, err
 	}
 	defer zr.Close()
-	var wb struct {
-		Sheets []struct {
-			Name  string `xml:"name,attr"`
-			State string `xml:"state,attr"`
-		} `xml:"sheets>sheet"`
-	}
-	if err := decodePart(&zr.Reader, "xl/workbook.xml", &wb); err != nil {
+	parts, err := zipParts(&zr.Reader)
+	if err != nil {
 		return nil, err
 	}
-	sheets := make([]sheetName, len(wb.Sheets))
-	for i, sh := range wb.Sheets {
-		sheets[i] = sheetName{name: sh.Name, hidden: sh.State == "hidden" || sh.State == "veryHidden"}
+	wi, err := readWorkbook(parts)
+	if err != nil {
+		return nil, err
+	}
+	sheets := make([]sheetName, len(wi.sheets))
+	for i, sh := range wi.sheets {
+		sheets[i] = sheetName{name: sh.name, hidden: sh.state == "hidden" || sh.state == "veryHidden"}
 	}
 	if len(sheets) == 0 {
 		return nil, errors.New("the workbook lists no sheet")

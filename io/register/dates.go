@@ -452,6 +452,7 @@ func (r *Reader) lookAhead(i int) {
 			return
 		}
 		rr.cells = append([]string(nil), rr.cells...)
+		rr.formats = append([]string(nil), rr.formats...)
 		r.replay = append(r.replay, rr)
 		look(rr)
 	}

@@ -105,6 +105,7 @@ func (r *Reader) findHeader(file string, opt Options) error {
 			return err
 		}
 		rr.cells = append([]string(nil), rr.cells...)
+		rr.formats = append([]string(nil), rr.formats...)
 		rows = append(rows, rr)
 		if rr.row >= limit {
 			break

@@ -52,12 +52,15 @@ import (
 
 // rawRow is one row as the file gives it.
 type rawRow struct {
-	cells  []string
-	row    int             // spreadsheet row number (CSV: line of the record's start)
-	syntax *csvSyntaxError // CSV: the record could not be read past field len(cells)
-	merged []*fleet.Error  // XLSX: the row's cells hidden by merged cells above them
-	short  bool            // CSV: any other number of fields than the header's is a shape problem
-	hidden bool            // XLSX: the row is hidden or filtered out
+	cells []string
+	// formats are the number format codes of an XLSX row's number cells ("" General;
+	// nil when every cell is General), for the text columns read as shown.
+	formats []string
+	row     int             // spreadsheet row number (CSV: line of the record's start)
+	syntax  *csvSyntaxError // CSV: the record could not be read past field len(cells)
+	merged  []*fleet.Error  // XLSX: the row's cells hidden by merged cells above them
+	short   bool            // CSV: any other number of fields than the header's is a shape problem
+	hidden  bool            // XLSX: the row is hidden or filtered out
 }
 
 // rowSource gives the rows after the header. next returns io.EOF after the last row.

@@ -3,11 +3,9 @@ package register
 import (
 	"archive/zip"
 	"bytes"
-	"encoding/xml"
 	"errors"
 	"fmt"
 	"io"
-	"path"
 	"regexp"
 	"strconv"
 	"strings"
@@ -26,6 +24,8 @@ type formulaCells struct {
 	// sumRows are the rows holding a formula that adds up a column (SUM over a range of
 	// several rows, SUBTOTAL, AGGREGATE): a totals row, not a hoist.
 	sumRows map[int]bool
+	// disordered: the rows are not stored in increasing order (rowOrder).
+	disordered bool
 }
 
 // maxSumRows bounds the totals rows remembered.
@@ -147,7 +147,7 @@ const maxFormulaRefs = 5
 // bytes of the one before (a tag split across two windows is whole in the second).
 const (
 	scanChunk = 256 << 10
-	scanTail  = 16
+	scanTail  = 256
 	maxMerges = 64 << 20 // what is read after the first <mergeCell, at most
 )
 
@@ -214,11 +214,16 @@ func (fc *formulaCells) count(win []byte, from int) {
 type sheetScan struct {
 	fc    formulaCells
 	first bool // no window seen yet
+	rows  rowOrder
+	gap   int64 // bytes since the last '<'
+	limit int64 // the most bytes allowed without a '<' (Limits.MaxCellText; 0 no limit)
+	long  bool  // the limit was passed
 }
 
-// window looks at one window (the carried-over tail, then the chunk): it counts the
-// formulas and returns where "mergeCell" starts in it, -1 when it does not.
-func (s *sheetScan) window(win []byte, tail int) int {
+// window looks at one window (the carried-over tail, then the chunk) starting at offset
+// base of the part: it counts the formulas, follows the rows' order and the longest run
+// without markup, and returns where "mergeCell" starts in it, -1 when it does not.
+func (s *sheetScan) window(win []byte, tail int, base int64) int {
 	// Matches starting in the carried-over tail were counted with the previous window
 	// unless they ran past its end.
 	from := 0
@@ -229,91 +234,206 @@ func (s *sheetScan) window(win []byte, tail int) int {
 	if !s.fc.colsSeen {
 		s.fc.cols(win)
 	}
+	s.rows.scan(win, base)
+	if s.limit > 0 {
+		chunk := win[tail:]
+		if i := bytes.LastIndexByte(chunk, '<'); i >= 0 {
+			if s.gap+int64(bytes.IndexByte(chunk, '<')) > s.limit || int64(len(chunk)) > s.limit && longGap(chunk, s.limit) {
+				s.long = true
+			}
+			s.gap = int64(len(chunk) - 1 - i)
+		} else {
+			s.gap += int64(len(chunk))
+		}
+		s.long = s.long || s.gap > s.limit
+	}
 	return bytes.Index(win, tagMergeCell)
 }
 
-// scanSheet returns the sheet's merged cells and counts its formula cells. Merged cells
-// are listed after the sheet's data, so the whole sheet XML is looked at, as bytes
-// (without XML parsing), up to its <mergeCells> element, which is then read; formula
-// elements are counted on the way. inMemory returns the part's XML when the workbook
-// already holds it unzipped (excelize keeps sheets below its unzip limit in memory), so
-// that it is not inflated a second time; nil means it must be read from the zip.
-func scanSheet(zr *zip.Reader, sheet string, inMemory func(part string) []byte) ([]mergeRange, formulaCells, error) {
-	part, err := sheetPart(zr, sheet)
-	if err != nil || part == "" {
+// rowOrder follows the row numbers of a sheet's <row> elements, found as bytes: whether
+// they increase (the sheet reader can then stream them) or not (it sorts them).
+type rowOrder struct {
+	last       int   // the last row number seen
+	handled    int64 // the part's offset after the last <row> tag read
+	disordered bool  // a row number not above the one before, or a tag that could not be read
+}
+
+var nameRow = []byte("row")
+
+// scan reads the row numbers of the <row> (or <x:row>) tags in win, which starts at
+// offset base of the part. A tag that runs past the window is read with the next one
+// when it starts in the tail carried over; a longer tag makes the order unknown, which
+// is treated as out of order.
+func (o *rowOrder) scan(win []byte, base int64) {
+	if o.disordered {
+		return
+	}
+	for i := 0; ; {
+		j := bytes.Index(win[i:], nameRow)
+		if j < 0 {
+			return
+		}
+		k := i + j
+		i = k + len(nameRow)
+		start := tagStart(win, k)
+		if start < 0 || base+int64(start) < o.handled {
+			continue
+		}
+		if i >= len(win) {
+			return // the next window sees it again (it starts in the tail)
+		}
+		if c := win[i]; c != ' ' && c != '>' && c != '/' && c != '\t' && c != '\n' && c != '\r' {
+			continue
+		}
+		end := bytes.IndexByte(win[i:], '>')
+		if end < 0 {
+			if len(win)-start > scanTail {
+				o.disordered = true
+			}
+			return
+		}
+		tag := win[i : i+end]
+		o.handled = base + int64(i+end)
+		n := o.last + 1
+		if v, ok := attrR(tag); ok {
+			n = v
+		}
+		if n <= o.last {
+			o.disordered = true
+			return
+		}
+		o.last = n
+	}
+}
+
+// tagStart returns where the tag whose name ends at win[k:] ("row") starts: k-1 for
+// "<row", the '<' of "<x:row"; -1 when "row" is not an element name there.
+func tagStart(win []byte, k int) int {
+	if k == 0 {
+		return -1
+	}
+	if win[k-1] == '<' {
+		return k - 1
+	}
+	if win[k-1] != ':' {
+		return -1
+	}
+	for p := k - 2; p >= 0 && p >= k-34; p-- {
+		switch c := win[p]; {
+		case c == '<':
+			if p == k-2 {
+				return -1
+			}
+			return p
+		case !isLetter(c) && (c < '0' || c > '9') && c != '_' && c != '-' && c != '.':
+			return -1
+		}
+	}
+	return -1
+}
+
+// attrR reads the r attribute of a tag's attribute text; ok false when there is none or
+// it is not a number (the sheet reader reports that).
+func attrR(tag []byte) (int, bool) {
+	for i := 0; i+2 < len(tag); i++ {
+		if tag[i] != 'r' || tag[i+1] != '=' || i > 0 && tag[i-1] != ' ' && tag[i-1] != '\t' && tag[i-1] != '\n' && tag[i-1] != '\r' {
+			continue
+		}
+		q := tag[i+2]
+		if q != '"' && q != '\'' {
+			return 0, false
+		}
+		rest := tag[i+3:]
+		e := bytes.IndexByte(rest, q)
+		if e < 0 {
+			return 0, false
+		}
+		n, err := strconv.Atoi(string(rest[:e]))
+		return n, err == nil
+	}
+	return 0, false
+}
+
+// scanPart is the first pass over a sheet: its merged cells, formula cells, hidden
+// columns and totals rows, whether its rows are in order, and that no run of it without
+// markup passes the limit for one cell's text (Limits.MaxCellText: checked here, before
+// any row is read, so that a bomb costs a pass over bytes, not an XML parse). Merged
+// cells are listed after the sheet's data, so the whole sheet XML is looked at, as bytes
+// (without XML parsing), up to its <mergeCells> element, which is then read. The entry
+// is read to its end: its size and CRC-32 are checked before any row is used.
+func scanPart(zf *zip.File, lim Limits) ([]mergeRange, formulaCells, error) {
+	p, err := openChecked(zf)
+	if err != nil {
 		return nil, formulaCells{}, err
 	}
-	var zf *zip.File
-	for _, f := range zr.File {
-		if strings.EqualFold(f.Name, part) {
-			zf = f
-			break
-		}
+	defer p.Close()
+	m, fc, err := scanSheetStream(p, lim.cellText())
+	if err == nil {
+		err = p.finish()
 	}
-	if zf == nil {
-		return nil, formulaCells{}, nil
-	}
-	if inMemory != nil {
-		if b := inMemory(zf.Name); b != nil {
-			m, fc := scanSheetBytes(b)
-			return m, fc, nil
-		}
-	}
-	rc, err := zf.Open()
-	if err != nil {
-		return nil, formulaCells{}, fmt.Errorf("worksheet %s: %w", part, err)
-	}
-	defer rc.Close()
-	m, fc, err := scanSheetStream(rc)
-	if err != nil {
-		return nil, fc, fmt.Errorf("worksheet %s: %w", part, err)
-	}
-	return m, fc, nil
+	return m, fc, err
 }
 
 // scanSheetBytes is the scan of a sheet's XML held in memory, window by window as
-// scanSheetStream sees it.
+// scanSheetStream sees it (tests compare the two).
 func scanSheetBytes(b []byte) ([]mergeRange, formulaCells) {
 	var s sheetScan
 	for start := 0; start < len(b); start += scanChunk {
 		lo := max(start-scanTail, 0)
 		end := min(start+scanChunk, len(b))
-		if i := s.window(b[lo:end], start-lo); i >= 0 {
+		if i := s.window(b[lo:end], start-lo, int64(lo)); i >= 0 {
+			s.fc.disordered = s.rows.disordered
 			return parseMerges(b[lo+max(i-scanTail, 0) : min(len(b), end+maxMerges)]), s.fc
 		}
 	}
+	s.fc.disordered = s.rows.disordered
 	return nil, s.fc
 }
 
-// scanSheetStream is the scan of a sheet's XML read from r, through one reused buffer.
-func scanSheetStream(r io.Reader) ([]mergeRange, formulaCells, error) {
-	var s sheetScan
+// scanSheetStream is the scan of a sheet's XML read from r, through one reused buffer;
+// limit is the most bytes allowed without markup (0 none).
+func scanSheetStream(r io.Reader, limit int64) ([]mergeRange, formulaCells, error) {
+	s := sheetScan{limit: limit}
 	buf := make([]byte, scanTail+scanChunk)
 	tail := 0
+	var base int64
+	done := func() formulaCells {
+		s.fc.disordered = s.rows.disordered
+		return s.fc
+	}
 	for {
 		n, err := io.ReadFull(r, buf[tail:tail+scanChunk])
 		if n == 0 {
 			if err == io.EOF || err == nil {
-				return nil, s.fc, nil
+				return nil, done(), nil
 			}
-			return nil, s.fc, err
+			return nil, done(), err
 		}
 		if err != nil && err != io.ErrUnexpectedEOF {
-			return nil, s.fc, err
+			return nil, done(), err
 		}
 		win := buf[:tail+n]
-		if i := s.window(win, tail); i >= 0 {
+		i := s.window(win, tail, base)
+		if s.long {
+			where := "before its first row"
+			if s.rows.last > 0 {
+				where = fmt.Sprintf("in or after row %d", s.rows.last)
+			}
+			return nil, done(), fmt.Errorf("%s: %w; the sheet is refused (a damaged or crafted file)", where, &errLongText{limit})
+		}
+		if i >= 0 {
 			rest, err := io.ReadAll(io.LimitReader(r, maxMerges))
 			if err != nil {
-				return nil, s.fc, err
+				return nil, done(), err
 			}
-			return parseMerges(append(win[max(i-scanTail, 0):len(win):len(win)], rest...)), s.fc, nil
+			return parseMerges(append(win[max(i-scanTail, 0):len(win):len(win)], rest...)), done(), nil
 		}
 		if errors.Is(err, io.ErrUnexpectedEOF) {
-			return nil, s.fc, nil
+			return nil, done(), nil
 		}
 		keep := min(scanTail, n)
 		copy(buf, buf[tail+n-keep:tail+n])
+		base += int64(tail + n - keep)
 		tail = keep
 	}
 }
@@ -347,61 +467,3 @@ func parseMerges(b []byte) []mergeRange {
 	return out
 }
 
-// sheetPart finds the zip part of a sheet from xl/workbook.xml and its relationships.
-func sheetPart(zr *zip.Reader, sheet string) (string, error) {
-	var wb struct {
-		Sheets []struct {
-			Name  string     `xml:"name,attr"`
-			Attrs []xml.Attr `xml:",any,attr"`
-		} `xml:"sheets>sheet"`
-	}
-	var rels struct {
-		Rel []struct {
-			ID     string `xml:"Id,attr"`
-			Target string `xml:"Target,attr"`
-		} `xml:"Relationship"`
-	}
-	if err := decodePart(zr, "xl/workbook.xml", &wb); err != nil {
-		return "", err
-	}
-	if err := decodePart(zr, "xl/_rels/workbook.xml.rels", &rels); err != nil {
-		return "", err
-	}
-	for _, s := range wb.Sheets {
-		if s.Name != sheet {
-			continue
-		}
-		for _, a := range s.Attrs {
-			if a.Name.Local != "id" {
-				continue
-			}
-			for _, r := range rels.Rel {
-				if r.ID == a.Value {
-					if strings.HasPrefix(r.Target, "/") {
-						return strings.TrimPrefix(r.Target, "/"), nil
-					}
-					return path.Join("xl", r.Target), nil
-				}
-			}
-		}
-	}
-	return "", nil
-}
-
-func decodePart(zr *zip.Reader, name string, v any) error {
-	for _, f := range zr.File {
-		if !strings.EqualFold(f.Name, name) {
-			continue
-		}
-		rc, err := f.Open()
-		if err != nil {
-			return fmt.Errorf("%s: %w", name, err)
-		}
-		defer rc.Close()
-		if err := xml.NewDecoder(io.LimitReader(rc, 64<<20)).Decode(v); err != nil {
-			return fmt.Errorf("%s: %w", name, err)
-		}
-		return nil
-	}
-	return nil
-}

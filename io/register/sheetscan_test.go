@@ -99,7 +99,7 @@ func TestScanSheetMatchesReference(t *testing.T) {
 						return []byte(xml)
 					}
 				}
-				m, f, err := scanSheet(zr, "S", inMemory)
+				m, f, err := scanTest(t, zr, inMemory)
 				if err != nil || !reflect.DeepEqual(m, wm) || !sameFormulaCount(f, wf) {
 					t.Fatalf("merges at boundary %v, offset %d, in memory %v: %v %+v %v, reference %v %+v",
 						merges, offset, mem, m, f, err, wm, wf)
@@ -131,7 +131,7 @@ func TestScanSheetSmallAndEmpty(t *testing.T) {
 			if mem {
 				inMemory = func(string) []byte { return []byte(xml) }
 			}
-			m, f, err := scanSheet(zr, "S", inMemory)
+			m, f, err := scanTest(t, zr, inMemory)
 			if err != nil || !reflect.DeepEqual(m, wm) || !sameFormulaCount(f, wf) {
 				t.Fatalf("%.20q in memory %v: %v %+v %v, reference %v %+v", xml, mem, m, f, err, wm, wf)
 			}
@@ -143,4 +143,15 @@ func TestScanSheetSmallAndEmpty(t *testing.T) {
 // first references (the hidden columns and totals rows are tested on their own).
 func sameFormulaCount(f, ref formulaCells) bool {
 	return f.n == ref.n && reflect.DeepEqual(f.first, ref.first)
+}
+
+// scanTest is the first pass over the test zip's sheet, from the zip or, with inMemory,
+// from the bytes it gives.
+func scanTest(t *testing.T, zr *zip.Reader, inMemory func(string) []byte) ([]mergeRange, formulaCells, error) {
+	zf := zr.File[sheetIndex(t, zr)]
+	if inMemory != nil {
+		m, f := scanSheetBytes(inMemory(zf.Name))
+		return m, f, nil
+	}
+	return scanPart(zf, DefaultLimits)
 }

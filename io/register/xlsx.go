@@ -7,23 +7,50 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"slices"
 	"strings"
-
-	"github.com/xuri/excelize/v2"
 
 	"hoistfleet/fleet"
 )
 
-// Limits bound what an XLSX workbook may unzip to, so that a zip bomb or an outsized
-// shared-strings table is refused with a message instead of exhausting memory or disk.
+// Limits bound what an XLSX workbook may unzip to and what one cell, one row and the
+// shared-strings table may hold, so that a zip bomb or a crafted part is refused with a
+// message within seconds instead of exhausting memory or disk. Zero fields take
+// DefaultLimits' values.
 type Limits struct {
 	MaxUnzipped      int64 // all parts of the workbook, uncompressed
 	MaxSharedStrings int64 // the shared-strings table, uncompressed
-	MaxXMLInMemory   int64 // a larger worksheet or shared-strings part is unzipped to a temporary file
+	MaxSharedCount   int   // strings in the shared-strings table
+	MaxCellText      int64 // one cell's text, or any other run of XML without a tag, in bytes
+	MaxRowBytes      int64 // one row's XML, in bytes
 }
 
-// DefaultLimits allow registers of a few million rows.
-var DefaultLimits = Limits{MaxUnzipped: 2 << 30, MaxSharedStrings: 256 << 20, MaxXMLInMemory: 16 << 20}
+// DefaultLimits allow registers of a million rows and more: a cell holds at most 32 767
+// characters in every spreadsheet program (up to 4 bytes each in UTF-8, more with XML
+// escapes), a row at most 16 384 cells.
+var DefaultLimits = Limits{MaxUnzipped: 2 << 30, MaxSharedStrings: 256 << 20, MaxSharedCount: 4 << 20,
+	MaxCellText: 1 << 20, MaxRowBytes: 64 << 20}
+
+func (l Limits) cellText() int64 {
+	if l.MaxCellText > 0 {
+		return l.MaxCellText
+	}
+	return DefaultLimits.MaxCellText
+}
+
+func (l Limits) rowBytes() int64 {
+	if l.MaxRowBytes > 0 {
+		return l.MaxRowBytes
+	}
+	return DefaultLimits.MaxRowBytes
+}
+
+func (l Limits) sharedCount() int {
+	if l.MaxSharedCount > 0 {
+		return l.MaxSharedCount
+	}
+	return DefaultLimits.MaxSharedCount
+}
 
 // oleMagic starts an OLE2 compound file: an encrypted (password-protected) OOXML
 // workbook, or a legacy binary .xls.
@@ -32,15 +59,25 @@ var oleMagic = []byte{0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1}
 // NewXLSX reads the register on a sheet of an XLSX workbook; sheet "" is the first
 // sheet. name is the file name for messages. It uses DefaultLimits.
 //
-// Cells are read raw (excelize's RawCellValue), as stored and not as displayed: a
-// number shown as "12.3" but stored as 12.3456 is read as 12.3456; a formula gives the
-// value last calculated by the spreadsheet program; a date column's date cells arrive as
-// date serials and are converted with the workbook's date system (1900 or 1904). Hidden
-// rows and columns are read like the others. Empty rows after the last non-empty row are
-// dropped; empty rows between data rows are returned, Blank. Merged cells in the header
-// row are an error; merged cells below it are reported in the rows they hide.
+// The workbook is read by this package (archive/zip, encoding/xml; sheetxml.go), not by
+// a spreadsheet library: every zip entry read is checked against its CRC-32 and declared
+// size, two entries of one name are refused, and an XML error anywhere in the sheet
+// refuses the register with the sheet and row where it broke, instead of ending the
+// register there. Rows and cells are placed by their references; a duplicate or
+// impossible reference is refused naming the cell.
 //
-// Close must be called: excelize may keep large sheets in temporary files.
+// Cells are read as stored: a number shown as "12.3" but stored as 12.3456 is read as
+// 12.3456; a formula gives the value last calculated by the spreadsheet program; a date
+// column's date cells arrive as date serials and are converted with the workbook's date
+// system (1900 or 1904); a boolean cell is TRUE or FALSE (never a number). Text columns
+// (asset id, site, …) are read as the spreadsheet shows them: a number formatted 00000
+// is "00125" (numfmt.go). A value in merged cells below the header applies to every row
+// of the merge (a site merged down over its hoists' rows), said in the notes. Hidden rows
+// and columns are read like the others. Empty rows after the last non-empty row are
+// dropped; empty rows between data rows are returned, Blank. Merged cells in the header
+// row are an error.
+//
+// Close must be called.
 func NewXLSX(r io.Reader, name, sheet string) (*Reader, error) {
 	return NewXLSXLimits(r, name, sheet, DefaultLimits)
 }
@@ -64,42 +101,41 @@ func newXLSX(r io.Reader, name, sheet string, lim Limits, opt Options) (*Reader,
 	if err := sniffXLSX(b, lim); err != nil {
 		return nil, fileError(file, err)
 	}
-	return openWorkbook(bytes.NewReader(b), int64(len(b)), file, sheet, lim, opt,
-		func(o excelize.Options) (*excelize.File, error) { return excelize.OpenReader(bytes.NewReader(b), o) })
+	return openWorkbook(bytes.NewReader(b), int64(len(b)), file, sheet, lim, opt, nil)
 }
 
-// openWorkbook checks the zip's parts against the limits, opens the workbook with open
-// and the register sheet in it. ra and size give the zip for the checks and the scan of
-// the sheet's merged and formula cells.
-func openWorkbook(ra io.ReaderAt, size int64, file, sheet string, lim Limits, opt Options,
-	open func(excelize.Options) (*excelize.File, error)) (*Reader, error) {
+// openWorkbook checks the zip's parts against the limits, reads the workbook's sheets,
+// shared strings and styles, and opens the register sheet. ra and size give the zip;
+// closer, when not nil, is closed with the Reader.
+func openWorkbook(ra io.ReaderAt, size int64, file, sheet string, lim Limits, opt Options, closer io.Closer) (*Reader, error) {
 	zr, err := zip.NewReader(ra, size)
 	if err != nil {
 		return nil, fileError(file, fmt.Errorf("not a readable XLSX workbook (truncated, or another kind of file): %w", err))
 	}
+	parts, err := zipParts(zr)
+	if err != nil {
+		return nil, fileError(file, err)
+	}
 	if err := checkParts(zr, lim); err != nil {
 		return nil, fileError(file, err)
 	}
-	f, err := open(excelize.Options{
-		RawCellValue: true, UnzipSizeLimit: lim.MaxUnzipped, UnzipXMLSizeLimit: min(lim.MaxXMLInMemory, lim.MaxUnzipped)})
+	wi, err := readWorkbook(parts)
 	if err != nil {
-		if f != nil {
-			_ = f.Close()
-		}
 		return nil, fileError(file, fmt.Errorf("not a readable XLSX workbook: %w", err))
 	}
-	rd, err := openSheet(f, zr, file, sheet, opt)
+	rd, err := openSheet(parts, wi, file, sheet, lim, opt)
 	if err != nil {
-		_ = f.Close()
 		return nil, fileError(file, err)
 	}
+	rd.src.(*xlsxSource).closer = closer
 	return rd, nil
 }
 
-// NewXLSXFile is NewXLSX for a workbook on disk. excelize then reads the zip through the
-// file (random access) instead of from a copy of the whole file in memory, which for a
-// register of a million rows saves hundreds of megabytes. The file is opened read-only and
-// closed before NewXLSXFile returns; what is not a zip archive gets NewXLSX's diagnosis.
+// NewXLSXFile is NewXLSX for a workbook on disk, read through the file (random access)
+// instead of from a copy of the whole file in memory, which for a register of a million
+// rows saves hundreds of megabytes. The file is opened read-only and closed by Close; a
+// FIFO or another file that cannot seek is read into memory; what is not a zip archive
+// gets NewXLSX's diagnosis.
 func NewXLSXFile(path, sheet string) (*Reader, error) {
 	return NewXLSXFileOptions(path, sheet, Options{})
 }
@@ -112,21 +148,28 @@ func NewXLSXFileOptions(path, sheet string, opt Options) (*Reader, error) {
 	if err != nil {
 		return nil, fileError(file, err)
 	}
-	defer fh.Close()
 	fi, err := fh.Stat()
 	if err != nil {
+		fh.Close()
 		return nil, fileError(file, err)
 	}
 	head := make([]byte, 4)
 	n, _ := io.ReadFull(fh, head)
-	if !bytes.HasPrefix(head[:n], []byte("PK")) || fi.Size() > lim.MaxUnzipped {
-		if _, err := fh.Seek(0, io.SeekStart); err != nil {
-			return nil, fileError(file, err)
+	if !fi.Mode().IsRegular() || !bytes.HasPrefix(head[:n], []byte("PK")) || fi.Size() > lim.MaxUnzipped {
+		defer fh.Close()
+		if fi.Mode().IsRegular() {
+			if _, err := fh.Seek(0, io.SeekStart); err != nil {
+				return nil, fileError(file, err)
+			}
+			return newXLSX(fh, path, sheet, lim, opt)
 		}
-		return newXLSX(fh, path, sheet, lim, opt)
+		return newXLSX(io.MultiReader(bytes.NewReader(head[:n]), fh), path, sheet, lim, opt)
 	}
-	return openWorkbook(fh, fi.Size(), file, sheet, lim, opt,
-		func(o excelize.Options) (*excelize.File, error) { return excelize.OpenFile(path, o) })
+	rd, err := openWorkbook(fh, fi.Size(), file, sheet, lim, opt, fh)
+	if err != nil {
+		fh.Close()
+	}
+	return rd, err
 }
 
 // sniffXLSX refuses what is not a zip file, with the reason when it is recognisable.
@@ -163,8 +206,8 @@ func size(n int64) string {
 }
 
 // checkParts refuses a workbook whose parts unzip to more than the limits, from the sizes
-// the zip directory declares (archive/zip refuses a part that inflates beyond its
-// declared size).
+// the zip directory declares (a part that inflates to another size than it declares is
+// refused when it is read: checkedPart).
 func checkParts(zr *zip.Reader, lim Limits) error {
 	var total uint64
 	hasWorkbook := false
@@ -188,50 +231,58 @@ func checkParts(zr *zip.Reader, lim Limits) error {
 }
 
 // openSheet selects the sheet, reads the header row and returns the Reader.
-func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string, opt Options) (*Reader, error) {
-	sheets := f.GetSheetList()
-	if len(sheets) == 0 {
+func openSheet(parts map[string]*zip.File, wi workbookInfo, file, sheet string, lim Limits, opt Options) (*Reader, error) {
+	if len(wi.sheets) == 0 {
 		return nil, errors.New("the workbook has no sheets")
 	}
-	name := ""
+	var se sheetEntry
 	if sheet == "" {
-		name = sheets[0]
+		se = wi.sheets[0]
 	} else {
-		for _, s := range sheets {
-			if strings.EqualFold(s, sheet) {
-				name = s
+		for _, s := range wi.sheets {
+			if strings.EqualFold(s.name, sheet) {
+				se = s
 				break
 			}
 		}
-		if name == "" {
-			q := make([]string, len(sheets))
-			for i, s := range sheets {
-				q[i] = fmt.Sprintf("%q", s)
+		if se.name == "" {
+			q := make([]string, len(wi.sheets))
+			for i, s := range wi.sheets {
+				q[i] = fmt.Sprintf("%q", s.name)
 			}
 			return nil, fmt.Errorf("there is no sheet %q: the workbook has %s", sheet, strings.Join(q, ", "))
 		}
 	}
-	props, err := f.GetWorkbookProps()
-	if err != nil {
-		return nil, fmt.Errorf("workbook properties: %w", err)
+	name := se.name
+	zf := parts[strings.ToLower(se.part)]
+	if zf == nil {
+		return nil, fmt.Errorf("sheet %q: the workbook names its part %q, which the zip archive does not hold: the workbook is damaged", name, se.part)
 	}
-	merges, formulas, err := scanSheet(zr, name, func(part string) []byte {
-		// excelize holds the parts it unzipped in memory under their zip names (with
-		// "/" separators); a sheet larger than its unzip limit is in a temporary file.
-		v, _ := f.Pkg.Load(strings.ReplaceAll(part, `\`, "/"))
-		b, _ := v.([]byte)
-		return b
-	})
+	var sst *sharedStrings
+	if wi.sst != "" {
+		if sf := parts[strings.ToLower(wi.sst)]; sf != nil {
+			var err error
+			if sst, err = readSharedStrings(sf, lim); err != nil {
+				return nil, err
+			}
+		}
+	}
+	styles, err := readStyles(parts, wi.styles)
+	if err != nil {
+		return nil, err
+	}
+	merges, formulas, err := scanPart(zf, lim)
 	if err != nil {
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
 	}
-	rows, err := f.Rows(name)
+	sr, err := newSheetReader(zf, file, name, sst, styles, lim, !formulas.disordered)
 	if err != nil {
-		return nil, fmt.Errorf("sheet %q: %w", name, err)
+		return nil, err
 	}
-	src := &xlsxSource{f: f, rows: rows, sheet: name, merges: merges}
+	src := &xlsxSource{sr: sr, sheet: name}
+	src.setMerges(merges)
 	rd := &Reader{sheet: name, src: src, sumRows: formulas.sumRows, hiddenCols: formulas.hiddenCols,
-		d: dialect{xlsx: true, date1904: props.Date1904 != nil && *props.Date1904}}
+		d: dialect{xlsx: true, date1904: wi.date1904}}
 	if err := rd.findHeader(file, opt); err != nil {
 		_ = src.close()
 		return nil, fmt.Errorf("sheet %q: %w", name, err)
@@ -243,6 +294,9 @@ func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string, opt Options
 		}
 	}
 	rd.header.File = file
+	if note := mergeNote(merges, rd.headerRow); note != "" {
+		rd.header.Problems = append(rd.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: fleet.CellRef{Sheet: name}, Err: errors.New(note)})
+	}
 	if formulas.n > 0 {
 		more := ""
 		if formulas.n > len(formulas.first) {
@@ -252,53 +306,139 @@ func openSheet(f *excelize.File, zr *zip.Reader, file, sheet string, opt Options
 			Err: fmt.Errorf("%d cells hold formulas (%s%s): the values the spreadsheet last calculated and saved were used; a formula it never calculated reads as empty",
 				formulas.n, strings.Join(formulas.first, ", "), more)})
 	}
+	if formulas.disordered {
+		rd.header.Problems = append(rd.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: fleet.CellRef{Sheet: name},
+			Err: errors.New("the sheet's rows are not stored in order in its XML: each row and cell was placed by its reference (as a spreadsheet program shows them)")})
+	}
 	return rd, nil
 }
 
-// xlsxSource yields the rows of a sheet through excelize's streaming row iterator.
+// xlsxSource yields the rows of a sheet through sheetReader, with the values of merged
+// cells filled down.
 type xlsxSource struct {
-	f      *excelize.File
-	rows   *excelize.Rows
+	sr     *sheetReader
 	sheet  string
-	row    int // rows seen: Rows.Next yields every row number, including absent rows
-	merges []mergeRange
+	closer io.Closer
+
+	merges []mergeRange // sorted by first row
+	nextM  int          // merges[nextM:] start below the rows read
+	active []activeMerge
+	cells  []string // the row's cells, when a merge fills one in (reused)
 }
 
-func (s *xlsxSource) read() ([]string, int, error) {
-	if !s.rows.Next() {
-		if err := s.rows.Error(); err != nil {
-			return nil, 0, fmt.Errorf("sheet %q after row %d: %w", s.sheet, s.row, err)
+// activeMerge is a merged range that covers rows still to come, with its value.
+type activeMerge struct {
+	m            mergeRange
+	text, format string
+}
+
+func (s *xlsxSource) setMerges(ms []mergeRange) {
+	for _, m := range ms {
+		if m.r2 > m.r1 {
+			s.merges = append(s.merges, m)
 		}
-		return nil, 0, io.EOF
 	}
-	s.row++
-	cells, err := s.rows.Columns()
-	if err != nil {
-		return nil, 0, fmt.Errorf("sheet %q row %d: %w", s.sheet, s.row, err)
-	}
-	return cells, s.row, nil
+	slices.SortStableFunc(s.merges, func(a, b mergeRange) int { return a.r1 - b.r1 })
 }
 
 func (s *xlsxSource) next() (rawRow, error) {
-	cells, row, err := s.read()
+	r, err := s.sr.read()
 	if err != nil {
 		return rawRow{}, err
 	}
-	rr := rawRow{cells: cells, row: row, hidden: s.rows.GetRowOpts().Hidden}
-	for _, m := range s.merges {
-		if row > m.r1 && row <= m.r2 {
-			rr.merged = append(rr.merged, &fleet.Error{Kind: fleet.Shape,
-				Cell: fleet.CellRef{Sheet: s.sheet, Row: row, Col: m.c1},
-				Err:  fmt.Errorf("the cells are merged (%s): only row %d holds the value; unmerge them and fill every row", m.ref, m.r1)})
-		}
+	rr := rawRow{cells: r.cells, formats: r.formats, row: r.row, hidden: r.hidden}
+	if len(s.active) > 0 || s.nextM < len(s.merges) && s.merges[s.nextM].r1 <= r.row {
+		s.fill(&rr)
 	}
 	return rr, nil
 }
 
+// fill writes the value of each merged range that covers the row below its first row
+// into the row's cell in the range's first column (a spreadsheet shows it across the
+// whole range; the file holds it only in the first cell).
+func (s *xlsxSource) fill(rr *rawRow) {
+	keep := s.active[:0]
+	for _, a := range s.active {
+		if a.m.r2 >= rr.row {
+			keep = append(keep, a)
+		}
+	}
+	s.active = keep
+	for s.nextM < len(s.merges) && s.merges[s.nextM].r1 <= rr.row {
+		m := s.merges[s.nextM]
+		s.nextM++
+		if m.r1 == rr.row {
+			a := activeMerge{m: m}
+			if m.c1 <= len(rr.cells) {
+				a.text = rr.cells[m.c1-1]
+				if rr.formats != nil {
+					a.format = rr.formats[m.c1-1]
+				}
+			}
+			s.active = append(s.active, a)
+		}
+	}
+	copied := false
+	for _, a := range s.active {
+		if a.m.r1 == rr.row || a.text == "" {
+			continue
+		}
+		if !copied {
+			s.cells = append(s.cells[:0], rr.cells...)
+			rr.cells = s.cells
+			if rr.formats != nil {
+				rr.formats = slices.Clone(rr.formats)
+			}
+			copied = true
+		}
+		for len(rr.cells) < a.m.c1 {
+			rr.cells = append(rr.cells, "")
+		}
+		if rr.cells[a.m.c1-1] == "" {
+			rr.cells[a.m.c1-1] = a.text
+			if a.format != "" {
+				if rr.formats == nil {
+					rr.formats = make([]string, len(rr.cells))
+				}
+				for len(rr.formats) < len(rr.cells) {
+					rr.formats = append(rr.formats, "")
+				}
+				rr.formats[a.m.c1-1] = a.format
+			}
+		}
+		s.cells = rr.cells
+	}
+}
+
+// mergeNote says which merged ranges below the header were filled down.
+func mergeNote(ms []mergeRange, headerRow int) string {
+	var refs []string
+	n := 0
+	for _, m := range ms {
+		if m.r1 > headerRow && m.r2 > m.r1 {
+			n++
+			if len(refs) < maxListed {
+				refs = append(refs, m.ref)
+			}
+		}
+	}
+	if n == 0 {
+		return ""
+	}
+	more := ""
+	if n > len(refs) {
+		more = fmt.Sprintf(" and %d more", n-len(refs))
+	}
+	return fmt.Sprintf("%d merged cell ranges (%s%s): the value of each range's first cell was read in every row of the range, as the spreadsheet shows it", n, strings.Join(refs, ", "), more)
+}
+
 func (s *xlsxSource) close() error {
-	err := s.rows.Close()
-	if cerr := s.f.Close(); err == nil {
-		err = cerr
+	err := s.sr.close()
+	if s.closer != nil {
+		if cerr := s.closer.Close(); err == nil {
+			err = cerr
+		}
+		s.closer = nil
 	}
 	return err
 }
