@@ -65,6 +65,13 @@ type colSpec struct {
 	// mapDates is the date order a columns file gives the column ("" none).
 	mapDates DateOrder
 
+	// A text column's number cells read as shown (their number format applied), and
+	// those whose format this reader does not render (read as stored): how many, the
+	// first and where.
+	shownN, unshownN         int
+	shownFirst, unshownFirst [3]string // stored value, format code, shown text
+	shownAt, unshownAt       fleet.CellRef
+
 	noUnit    bool          // a physical quantity whose unit is written nowhere: plain numbers are not read
 	headerRow int           // the header's row, for messages
 	cellUnits cellUnitNotes // cells read in the unit they carry
@@ -568,3 +575,47 @@ func isoDay(t string) (time.Time, bool) {
 }
 
 var monthDays = [12]int{31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31}
+
+// shown is a text column's number cell as the spreadsheet shows it with its number
+// format code (numfmt.go), counted for the notes; a format this reader does not render
+// leaves the stored value, counted too.
+func (s *colSpec) shown(raw, code string, ref fleet.CellRef) string {
+	text, ok := formatNumber(raw, code)
+	if !ok {
+		if s.unshownN == 0 {
+			s.unshownFirst, s.unshownAt = [3]string{raw, code, ""}, ref
+		}
+		s.unshownN++
+		return raw
+	}
+	if text == raw {
+		return raw
+	}
+	if s.shownN == 0 {
+		s.shownFirst, s.shownAt = [3]string{raw, code, text}, ref
+	}
+	s.shownN++
+	return text
+}
+
+// shownNotes are the notes of a text column's number cells: read as shown, or as stored.
+func (s *colSpec) shownNotes() []string {
+	var out []string
+	plural := func(n int) string {
+		if n == 1 {
+			return "1 number cell"
+		}
+		return strconv.Itoa(n) + " number cells"
+	}
+	if s.shownN > 0 {
+		f := s.shownFirst
+		out = append(out, fmt.Sprintf("%s: %s read as the spreadsheet shows them, with their number format (%s formatted %s is %s, first at %s)",
+			s.col.Header, plural(s.shownN), f[0], strconv.Quote(f[1]), strconv.Quote(f[2]), s.shownAt))
+	}
+	if s.unshownN > 0 {
+		f := s.unshownFirst
+		out = append(out, fmt.Sprintf("%s: %s have a number format this reader does not apply (%s, first at %s): read as stored (%s); check them against the spreadsheet",
+			s.col.Header, plural(s.unshownN), strconv.Quote(f[1]), s.unshownAt, f[0]))
+	}
+	return out
+}

@@ -276,6 +276,9 @@ func (r *Reader) asset(rr rawRow) *fleet.Asset {
 			Err: fmt.Errorf("row %d is empty", rr.row)})
 		return a
 	}
+	if rr.formats != nil {
+		rr.cells = r.asShown(rr)
+	}
 	if r.idCol >= 0 && r.idCol < len(rr.cells) {
 		a.ID = trimSpace(rr.cells[r.idCol])
 	}
@@ -598,4 +601,28 @@ func countUnit(schemaUnit, unit string) bool {
 		return true
 	}
 	return schemaUnit == "months" && (u == "month" || u == "mo" || u == "mths" || u == "mth")
+}
+
+// asShown is a row's cells with the number cells of its text columns (asset id, site, …)
+// as the spreadsheet shows them with their number format: an id 125 formatted 00000 is
+// "00125". The row's own slice is left as it is (a copy is returned when a cell differs).
+func (r *Reader) asShown(rr rawRow) []string {
+	cells := rr.cells
+	copied := false
+	for i := range r.specs {
+		s := &r.specs[i]
+		if !s.known || s.kind != kindText || i >= len(rr.formats) || i >= len(cells) || rr.formats[i] == "" {
+			continue
+		}
+		text := s.shown(cells[i], rr.formats[i], fleet.CellRef{Sheet: r.sheet, Row: rr.row, Col: i + 1})
+		if text == cells[i] {
+			continue
+		}
+		if !copied {
+			cells = append([]string(nil), cells...)
+			copied = true
+		}
+		cells[i] = text
+	}
+	return cells
 }

@@ -227,6 +227,16 @@ func (r *Reader) finish() {
 	}
 	for i := range r.specs {
 		s := &r.specs[i]
+		for _, n := range s.shownNotes() {
+			at := s.shownAt
+			if at.IsZero() {
+				at = s.unshownAt
+			}
+			r.header.Problems = append(r.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: at, Field: s.col.Key, Err: errors.New(n)})
+		}
+	}
+	for i := range r.specs {
+		s := &r.specs[i]
 		if s.blankN == 0 {
 			continue
 		}

@@ -466,4 +466,3 @@ func parseMerges(b []byte) []mergeRange {
 	}
 	return out
 }
-
