@@ -42,7 +42,7 @@ func NewCSV(r io.Reader, name string) (*Reader, error) {
 // NewCSVOptions is NewCSV with Options.
 func NewCSVOptions(r io.Reader, name string, opt Options) (*Reader, error) {
 	file := displayName(name)
-	text, sep, err := csvStream(r)
+	text, sep, notes, err := csvStream(r)
 	if err != nil {
 		return nil, fileError(file, err)
 	}
@@ -50,6 +50,9 @@ func NewCSVOptions(r io.Reader, name string, opt Options) (*Reader, error) {
 	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}, src: &csvSource{r: cr}}
 	if err := rd.findHeader(file, opt); err != nil {
 		return nil, fileError(file, err)
+	}
+	for _, n := range notes {
+		rd.header.Problems = append(rd.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: fleet.CellRef{Sheet: file}, Err: errors.New(n)})
 	}
 	return rd, nil
 }
@@ -68,37 +71,134 @@ func fileError(file string, err error) error {
 }
 
 // csvStream finds the encoding and the separator and returns the text as UTF-8 (except
-// Windows-1252 fields, which decodeFields converts).
-func csvStream(r io.Reader) (*bufio.Reader, rune, error) {
+// Windows-1252 fields, which decodeFields converts), and what it noted about the file.
+//
+// Line ends: LF, CRLF, or CR alone (the classic Mac OS line end, which some programs
+// still write): a file whose first line ends in a lone CR has every lone CR read as a
+// line break, and the notes say so. An Excel separator hint on the first line ("sep=;"
+// or "sep=,") sets the separator and is not a row (as Excel shows the file). A NUL
+// byte anywhere in the text refuses the file, naming its line.
+func csvStream(r io.Reader) (*bufio.Reader, rune, []string, error) {
 	br := bufio.NewReaderSize(r, peekSize)
 	head, err := br.Peek(4)
 	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
-		return nil, 0, err
+		return nil, 0, nil, err
 	}
-	var text *bufio.Reader
+	var dec io.Reader
 	switch {
 	case bytes.HasPrefix(head, []byte{0xEF, 0xBB, 0xBF}):
 		_, _ = br.Discard(3)
-		text = br
+		dec = br
 	case bytes.HasPrefix(head, []byte{0xFF, 0xFE}):
-		text = bufio.NewReaderSize(transform.NewReader(br, unicode.UTF16(unicode.LittleEndian, unicode.ExpectBOM).NewDecoder()), peekSize)
+		dec = transform.NewReader(br, unicode.UTF16(unicode.LittleEndian, unicode.ExpectBOM).NewDecoder())
 	case bytes.HasPrefix(head, []byte{0xFE, 0xFF}):
-		text = bufio.NewReaderSize(transform.NewReader(br, unicode.UTF16(unicode.BigEndian, unicode.ExpectBOM).NewDecoder()), peekSize)
+		dec = transform.NewReader(br, unicode.UTF16(unicode.BigEndian, unicode.ExpectBOM).NewDecoder())
 	case bytes.HasPrefix(head, []byte("PK\x03\x04")):
-		return nil, 0, errors.New("this is a zip file (an XLSX workbook?), not a CSV file: read it as XLSX")
+		return nil, 0, nil, errors.New("this is a zip file (an XLSX workbook?), not a CSV file: read it as XLSX")
 	case bytes.HasPrefix(head, oleMagic[:4]):
-		return nil, 0, errors.New("this is a binary Office file (.xls?), not a CSV file: save it as CSV UTF-8 or XLSX")
+		return nil, 0, nil, errors.New("this is a binary Office file (.xls?), not a CSV file: save it as CSV UTF-8 or XLSX")
 	default:
-		text = br
+		dec = br
 	}
-	peek, err := text.Peek(peekSize)
+	pk := bufio.NewReaderSize(dec, peekSize)
+	peek, err := pk.Peek(peekSize)
 	if err != nil && err != io.EOF && err != bufio.ErrBufferFull {
-		return nil, 0, err
+		return nil, 0, nil, err
 	}
 	if bytes.IndexByte(peek, 0) >= 0 {
-		return nil, 0, errors.New("the file holds NUL bytes: it is not a text CSV file (UTF-16 without a byte-order mark?): save it as CSV UTF-8")
+		return nil, 0, nil, errors.New("the file holds NUL bytes: it is not a text CSV file (UTF-16 without a byte-order mark?): save it as CSV UTF-8")
 	}
-	return text, detectSeparator(peek), nil
+	var notes []string
+	f := &textFilter{r: pk, line: 1}
+	if i := bytes.IndexAny(peek, "\r\n"); i >= 0 && peek[i] == '\r' && (i+1 == len(peek) || peek[i+1] != '\n') {
+		f.cr = true
+		notes = append(notes, "the file's lines end in a carriage return alone (CR, the classic Mac OS line end): each is read as a line break")
+	}
+	sep, hinted, hintLen, err := sepHint(peek)
+	if err != nil {
+		return nil, 0, nil, err
+	}
+	if hinted {
+		_, _ = pk.Discard(hintLen)
+		f.line = 2
+		notes = append(notes, fmt.Sprintf("the first line %q is Excel's separator hint: the separator is %q; the line is not a row", strings.TrimRight(string(peek[:hintLen]), "\r\n"), string(sep)))
+	} else {
+		sep = detectSeparator(peek)
+	}
+	return bufio.NewReaderSize(f, peekSize), sep, notes, nil
+}
+
+// sepHint reads Excel's separator hint, a first line "sep=X" (also quoted), and returns
+// the separator and the length of the line with its line end. A separator this reader
+// does not read is an error.
+func sepHint(peek []byte) (sep rune, ok bool, n int, err error) {
+	end := bytes.IndexAny(peek, "\r\n")
+	if end < 0 {
+		end = len(peek)
+	}
+	line := strings.Trim(strings.TrimSpace(string(peek[:end])), `"`)
+	if len(line) < 4 || !strings.EqualFold(line[:4], "sep=") {
+		return 0, false, 0, nil
+	}
+	n = end
+	if n < len(peek) && peek[n] == '\r' {
+		n++
+	}
+	if n < len(peek) && peek[n] == '\n' {
+		n++
+	}
+	switch v := line[4:]; v {
+	case ",", ";":
+		return rune(v[0]), true, n, nil
+	default:
+		return 0, false, 0, fmt.Errorf("line 1: %q asks for the separator %q; this reader reads comma- or semicolon-separated files: save the file as CSV with commas or semicolons", line, v)
+	}
+}
+
+// textFilter passes the decoded text through: it refuses a NUL byte, naming its line,
+// and with cr makes each lone CR a line break (a CR LF stays as it is).
+type textFilter struct {
+	r      io.Reader
+	cr     bool
+	line   int  // the line being read, for the message
+	lastCR bool // cr: the previous byte was a CR turned into LF
+	err    error
+}
+
+func (f *textFilter) Read(b []byte) (int, error) {
+	if f.err != nil {
+		return 0, f.err
+	}
+	n, err := f.r.Read(b)
+	p := b[:n]
+	if i := bytes.IndexByte(p, 0); i >= 0 {
+		line := f.line + bytes.Count(p[:i], []byte{'\n'})
+		if f.cr {
+			line += bytes.Count(p[:i], []byte{'\r'})
+		}
+		f.err = fmt.Errorf("line %d: a NUL byte: not a text CSV file (part binary, or damaged): refused", line)
+		return 0, f.err
+	}
+	if f.cr {
+		out := p[:0]
+		for _, c := range p {
+			switch {
+			case c == '\r':
+				out = append(out, '\n')
+				f.lastCR = true
+				f.line++
+				continue
+			case c == '\n' && f.lastCR:
+				f.lastCR = false
+				continue
+			}
+			f.lastCR = false
+			out = append(out, c)
+		}
+		return len(out), err
+	}
+	f.line += bytes.Count(p, []byte{'\n'})
+	return n, err
 }
 
 // detectSeparator counts commas and semicolons outside double quotes on the first line

@@ -2,6 +2,7 @@ package register
 
 import (
 	"fmt"
+	"io"
 	"strconv"
 	"strings"
 	"time"
@@ -448,6 +449,9 @@ func (r *Reader) lookAhead(i int) {
 	for len(r.replay) < maxLookAhead && s.dates.inferred() == DateOrderAuto && !r.srcDone {
 		rr, err := r.src.next()
 		if err != nil {
+			if err != io.EOF {
+				err = r.located(err)
+			}
 			r.srcDone, r.srcErr = true, err
 			return
 		}

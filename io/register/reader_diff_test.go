@@ -37,11 +37,11 @@ var recordInputs = []string{
 // configured it, and compares every record, error and line number.
 func sameRecords(t *testing.T, text []byte) {
 	t.Helper()
-	a, sep, err := csvStream(bytes.NewReader(text))
+	a, sep, _, err := csvStream(bytes.NewReader(text))
 	if err != nil {
 		return
 	}
-	b, _, _ := csvStream(bytes.NewReader(text))
+	b, _, _, _ := csvStream(bytes.NewReader(text))
 	got := newRecords(a, byte(sep))
 	want := csv.NewReader(b)
 	want.Comma, want.FieldsPerRecord, want.ReuseRecord = sep, -1, true

@@ -25,10 +25,11 @@ type refReader struct {
 	refIDs map[string]int // asset id → row where first seen
 }
 
-// refNewCSV is NewCSV of commit dafac1f.
+// refNewCSV is NewCSV of commit dafac1f, with the front end (csvStream: encoding, line
+// ends, separator, NUL bytes) and its notes shared with NewCSV.
 func refNewCSV(r io.Reader, name string) (*refReader, error) {
 	file := displayName(name)
-	text, sep, err := csvStream(r)
+	text, sep, notes, err := csvStream(r)
 	if err != nil {
 		return nil, fileError(file, err)
 	}
@@ -36,6 +37,9 @@ func refNewCSV(r io.Reader, name string) (*refReader, error) {
 	rd := &Reader{sheet: file, d: dialect{decimalComma: sep == ';'}, src: &refCSVSource{r: cr}}
 	if err := rd.findHeader(file, Options{}); err != nil {
 		return nil, fileError(file, err)
+	}
+	for _, n := range notes {
+		rd.header.Problems = append(rd.header.Problems, &fleet.Error{Kind: fleet.Other, Cell: fleet.CellRef{Sheet: file}, Err: errors.New(n)})
 	}
 	return &refReader{Reader: rd, refIDs: map[string]int{}}, nil
 }

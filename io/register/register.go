@@ -236,7 +236,24 @@ func (r *Reader) nextRow() (rawRow, error) {
 	if r.srcDone {
 		return rawRow{}, r.srcErr
 	}
-	return r.src.next()
+	rr, err := r.src.next()
+	if err != nil && err != io.EOF {
+		err = r.located(err)
+	}
+	return rr, err
+}
+
+// located names the file in an error of the source (which names the sheet, row and
+// cell): the register cannot be read further.
+func (r *Reader) located(err error) error {
+	if r.header == nil || r.header.File == "" {
+		return err
+	}
+	var fe *fleet.Error
+	if errors.As(err, &fe) && strings.HasPrefix(fe.Error(), r.header.File+": ") {
+		return err
+	}
+	return fileError(r.header.File, err)
 }
 
 // Close releases the file (an XLSX workbook's temporary files).
