@@ -92,9 +92,9 @@ func (s *sheetReader) xmlErr(err error, row int) error {
 		return fmt.Errorf("sheet %q, %s: %w; the sheet is refused (a damaged or crafted file)", s.sheet, where, err)
 	case errors.Is(err, errPartCorrupt):
 		return fmt.Errorf("sheet %q: %w", s.sheet, err)
-	case errors.As(err, &se):
+	case errors.As(err, &se) && se.Msg != "unexpected EOF":
 		return fmt.Errorf("sheet %q, %s: the sheet's XML is broken (line %d: %s): the register is refused rather than read in part; open it in the spreadsheet program and save a new copy", s.sheet, where, se.Line, se.Msg)
-	case err == io.EOF || errors.Is(err, io.ErrUnexpectedEOF):
+	case err == io.EOF || errors.Is(err, io.ErrUnexpectedEOF) || se != nil:
 		return fmt.Errorf("sheet %q, %s: the sheet's XML ends before its end (cut short): the register is refused rather than read in part", s.sheet, where)
 	}
 	return fmt.Errorf("sheet %q, %s: %w", s.sheet, where, err)

@@ -84,7 +84,7 @@ func (p *checkedPart) describe(err error) error {
 	case errors.Is(err, io.ErrUnexpectedEOF):
 		return fmt.Errorf("%s: %w: it unzips to fewer bytes than the %d its directory entry declares", p.zf.Name, errPartCorrupt, p.zf.UncompressedSize64)
 	case errors.Is(err, zip.ErrFormat):
-		return fmt.Errorf("%s: %w: %v (its declared size or compression is wrong)", p.zf.Name, errPartCorrupt, err)
+		return fmt.Errorf("%s: %w: it unzips to more than the %d bytes its directory entry declares, or its compressed data is damaged", p.zf.Name, errPartCorrupt, p.zf.UncompressedSize64)
 	}
 	return fmt.Errorf("%s: %w", p.zf.Name, err)
 }
