@@ -2,8 +2,8 @@ package register
 
 import (
 	"archive/zip"
-	"compress/flate"
 	"bytes"
+	"compress/flate"
 	"context"
 	"flag"
 	"fmt"
