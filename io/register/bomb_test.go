@@ -58,7 +58,7 @@ func bombBook(t testing.TB, dir, file string, bomb bombPart, others ...part) str
 	}
 	defer f.Close()
 	zw := zip.NewWriter(f)
-	for _, p := range append([]part{{name: "xl/workbook.xml", body: craftedWorkbook}, {name: "xl/_rels/workbook.xml.rels", body: craftedRels}}, others...) {
+	for _, p := range append(craftedPackage(), others...) {
 		w, err := zw.Create(p.name)
 		if err != nil {
 			t.Fatal(err)

@@ -35,6 +35,10 @@ const (
 <workbook xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main" xmlns:r="http://schemas.openxmlformats.org/officeDocument/2006/relationships"><sheets><sheet name="Register" sheetId="1" r:id="rId1"/></sheets></workbook>`
 	craftedRels = `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>
 <Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/worksheet" Target="worksheets/sheet1.xml"/><Relationship Id="rId2" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/sharedStrings" Target="sharedStrings.xml"/><Relationship Id="rId3" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/styles" Target="styles.xml"/></Relationships>`
+	craftedContentTypes = `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>
+<Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types"><Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/><Default Extension="xml" ContentType="application/xml"/><Override PartName="/xl/workbook.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.sheet.main+xml"/><Override PartName="/xl/worksheets/sheet1.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml"/><Override PartName="/xl/sharedStrings.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.sharedStrings+xml"/><Override PartName="/xl/styles.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.styles+xml"/></Types>`
+	craftedPackageRels = `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>
+<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="xl/workbook.xml"/></Relationships>`
 	craftedSheetHead = `<?xml version="1.0" encoding="UTF-8" standalone="yes"?>
 <worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData>`
 	craftedSheetTail = `</sheetData></worksheet>`
@@ -56,13 +60,20 @@ func hoistRows(from, to int) string {
 	return b.String()
 }
 
+// craftedPackage is the parts every crafted workbook has: content types, the package's
+// relationships, the workbook and its relationships.
+func craftedPackage() []part {
+	return []part{{name: "[Content_Types].xml", body: craftedContentTypes}, {name: "_rels/.rels", body: craftedPackageRels},
+		{name: "xl/workbook.xml", body: craftedWorkbook}, {name: "xl/_rels/workbook.xml.rels", body: craftedRels}}
+}
+
 // craftedBook builds a workbook of parts: the workbook and its relationships, then the
 // given parts (a sheet, shared strings, styles), in that order.
 func craftedBook(t testing.TB, parts ...part) []byte {
 	t.Helper()
 	var buf bytes.Buffer
 	zw := zip.NewWriter(&buf)
-	all := append([]part{{name: "xl/workbook.xml", body: craftedWorkbook}, {name: "xl/_rels/workbook.xml.rels", body: craftedRels}}, parts...)
+	all := append(craftedPackage(), parts...)
 	for _, p := range all {
 		if p.crc == 0 && p.size == 0 {
 			w, err := zw.CreateHeader(&zip.FileHeader{Name: p.name, Method: zip.Deflate})

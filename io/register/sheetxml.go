@@ -54,7 +54,8 @@ type sheetReader struct {
 	formats []string
 	seen    []uint32 // seen[c] == gen: column c has a cell in the current row
 	gen     uint32
-	v       []byte // the current cell's value text
+	v       []byte // the current cell's <v> text
+	is      []byte // the current cell's inline string text
 
 	sorted []sheetRow // rows out of order: all of them, sorted
 	pos    int
@@ -357,7 +358,7 @@ func (s *sheetReader) cell(start xml.StartElement, row, prev int) (cellRead, err
 	}
 	// The value: <v>, or an inline string's <is>; a formula's <f> is not read (its
 	// cached value is in <v>).
-	s.v = s.v[:0]
+	s.v, s.is = s.v[:0], s.is[:0]
 	inV, inIS, inT, inPh, hasIS := false, false, 0, 0, false
 	for {
 		tok, err := s.dec.Token()
@@ -394,11 +395,16 @@ func (s *sheetReader) cell(start xml.StartElement, row, prev int) (cellRead, err
 				return s.value(c, typ, style, hasIS, row)
 			}
 		case xml.CharData:
-			if inV && !inIS || inIS && inT > 0 && inPh == 0 {
+			switch {
+			case inV && !inIS:
 				s.v = append(s.v, t...)
-				if int64(len(s.v)) > s.lim.cellText() {
-					return c, s.xmlErr(&errLongText{s.lim.cellText()}, row)
-				}
+			case inIS && inT > 0 && inPh == 0:
+				s.is = append(s.is, t...)
+			default:
+				continue
+			}
+			if int64(len(s.v)+len(s.is)) > s.lim.cellText() {
+				return c, s.xmlErr(&errLongText{s.lim.cellText()}, row)
 			}
 		case xml.Directive:
 			return c, s.xmlErr(errDoctype, row)
@@ -429,9 +435,9 @@ func (s *sheetReader) value(c cellRead, typ string, style int, hasIS bool, row i
 		}
 		c.text = s.sst.at(i)
 	case "inlineStr":
-		c.text = string(unescapeX(v))
-		if !hasIS {
-			c.text = string(v)
+		c.text = string(v)
+		if hasIS {
+			c.text = string(unescapeX(s.is))
 		}
 	case "b":
 		switch strings.TrimSpace(string(v)) {
