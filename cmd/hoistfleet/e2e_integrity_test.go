@@ -1,8 +1,11 @@
 package main
 
 import (
+	"bytes"
 	"os"
 	"path/filepath"
+	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -102,6 +105,38 @@ func TestCSVDialectsOfIssue16(t *testing.T) {
 		c := runCmd(t, "", "columns", in)
 		if !strings.Contains(c.out+c.err, tc.note) {
 			t.Errorf("%s: the column report does not say %q:\n%s", tc.name, tc.note, c.out)
+		}
+	}
+}
+
+// TestWorkbookBytesReproducible (issue 16): two identical runs write byte-identical
+// workbooks, part by part, apart from the Audit's run time (its start and finish times
+// and its duration, in the shared strings). The content-types part used to list image
+// extensions in a different order on each run.
+func TestWorkbookBytesReproducible(t *testing.T) {
+	dir := t.TempDir()
+	reg := writeDemo(t, dir, "demo-si.csv")
+	runTime := regexp.MustCompile(`<t>(\d{4}-\d\d-\d\dT[0-9:.]+Z?|[0-9.]+(µs|ms|s)|[0-9]+m[0-9.]+s)</t>`)
+	var books []map[string][]byte
+	for i := range 3 {
+		out := filepath.Join(dir, "r"+strconv.Itoa(i)+".xlsx")
+		runCmd(t, "", "check", reg, "-o", out, "--as-of", "2026-12-01", "--workers", "2", "-q").
+			mustExit(t, exitFindings, "check")
+		parts := zipFiles(t, out)
+		parts["xl/sharedStrings.xml"] = runTime.ReplaceAll(parts["xl/sharedStrings.xml"], []byte("<t>RUNTIME</t>"))
+		books = append(books, parts)
+	}
+	if len(books[0]) < 10 {
+		t.Fatalf("%d parts", len(books[0]))
+	}
+	for i := 1; i < len(books); i++ {
+		if len(books[i]) != len(books[0]) {
+			t.Fatalf("run %d: %d parts, run 0: %d", i, len(books[i]), len(books[0]))
+		}
+		for name, b := range books[0] {
+			if !bytes.Equal(b, books[i][name]) {
+				t.Errorf("run %d: %s differs", i, name)
+			}
 		}
 	}
 }

@@ -9,6 +9,7 @@ import (
 	"io"
 	"io/fs"
 	"path"
+	"regexp"
 	"sort"
 	"strings"
 
@@ -52,7 +53,56 @@ func (z *swapZip) Create(name string) (io.Writer, error) {
 		}
 		return io.Discard, nil
 	}
+	if name == contentTypesPart {
+		if b, ok := z.read(name); ok {
+			w, err := z.zw.Create(name)
+			if err != nil {
+				return nil, err
+			}
+			if _, err := w.Write(sortedContentTypes(b)); err != nil {
+				return nil, err
+			}
+			return io.Discard, nil
+		}
+	}
 	return z.zw.Create(name)
+}
+
+const contentTypesPart = "[Content_Types].xml"
+
+var contentTypeElem = regexp.MustCompile(`<(Default|Override)\b[^>]*?(/>|>\s*</(Default|Override)>)`)
+
+// sortedContentTypes is the content-types part (OPC, ECMA-376 Part 2 §10.1.2) with its
+// Default and Override elements in a fixed order (Defaults first, each kind sorted):
+// excelize lists the image extensions' Defaults from a Go map, in a different order on
+// each run (issue 16: two identical runs gave different workbooks). The order of the
+// elements carries no meaning. A part that is not as expected is returned as it is.
+func sortedContentTypes(b []byte) []byte {
+	locs := contentTypeElem.FindAllIndex(b, -1)
+	if len(locs) == 0 {
+		return b
+	}
+	var defaults, overrides []string
+	for i, l := range locs {
+		if i > 0 && strings.TrimSpace(string(b[locs[i-1][1]:l[0]])) != "" {
+			return b // something else between the elements
+		}
+		e := string(b[l[0]:l[1]])
+		if strings.HasPrefix(e, "<Default") {
+			defaults = append(defaults, e)
+		} else {
+			overrides = append(overrides, e)
+		}
+	}
+	sort.Strings(defaults)
+	sort.Strings(overrides)
+	var out bytes.Buffer
+	out.Write(b[:locs[0][0]])
+	for _, e := range append(defaults, overrides...) {
+		out.WriteString(e)
+	}
+	out.Write(b[locs[len(locs)-1][1]:])
+	return out.Bytes()
 }
 
 func (z *swapZip) resolve() error {
