@@ -15,7 +15,9 @@ import (
 // no temporary file. The workbooks are io/register's crafted fixtures (built and
 // described in its crafted_test.go); the CSV files are made here.
 func TestDamagedRegistersRefused(t *testing.T) {
-	crafted := func(name string) string { return filepath.Join("..", "..", "io", "register", "testdata", "crafted", name) }
+	crafted := func(name string) string {
+		return filepath.Join("..", "..", "io", "register", "testdata", "crafted", name)
+	}
 	bigCSV := func(dir string) string {
 		var b strings.Builder
 		b.WriteString("Asset ID,Site,Rated load [t]\n")
