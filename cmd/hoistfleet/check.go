@@ -207,6 +207,7 @@ func openRegister(name, sheet string, opt register.Options, st Streams) (*input,
 	in := &input{hash: sha256.New()}
 	var r io.Reader
 	display := name
+	regular := false // a regular file, which can be opened again and read at random
 	if name == "-" {
 		r = st.In
 		display = "stdin"
@@ -215,10 +216,12 @@ func openRegister(name, sheet string, opt register.Options, st Streams) (*input,
 		if err != nil {
 			return nil, fmt.Errorf("reading the register: %w", err)
 		}
-		if fi, err := f.Stat(); err == nil && fi.IsDir() {
+		fi, err := f.Stat()
+		if err == nil && fi.IsDir() {
 			f.Close()
 			return nil, fmt.Errorf("reading the register: %s is a directory", name)
 		}
+		regular = err == nil && fi.Mode().IsRegular()
 		in.file = f
 		r = f
 	}
@@ -234,11 +237,15 @@ func openRegister(name, sheet string, opt register.Options, st Streams) (*input,
 		switch {
 		case strings.EqualFold(sheet, register.SheetAll) && in.file == nil:
 			err = usagef("--sheet all reads a workbook from its file, not from standard input")
+		case strings.EqualFold(sheet, register.SheetAll) && !regular:
+			err = usagef("--sheet all reads a workbook from a regular file, not from a pipe")
 		case strings.EqualFold(sheet, register.SheetAll):
 			in.src, err = register.NewXLSXAllSheets(name, opt)
-		case in.file != nil:
-			// From the path: excelize reads the zip with random access instead of a
-			// copy of the whole file in memory. The hash reads the file at the end.
+		case regular:
+			// From the path: the reader reads the zip with random access instead of a
+			// copy of the whole file in memory. The hash reads the file at the end. A
+			// named pipe is read through once, from here (opening it again would wait
+			// for another writer).
 			in.src, err = register.NewXLSXFileOptions(name, sheet, opt)
 		default:
 			in.src, err = register.NewXLSXOptions(full, filepath.Base(display), sheet, opt)
