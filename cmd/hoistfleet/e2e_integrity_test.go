@@ -56,10 +56,13 @@ func TestDamagedRegistersRefused(t *testing.T) {
 			[]string{"cell-A0.xlsx", `"A0"`}},
 		{"shared string index", func(string) string { return crafted("shared-string-out-of-range.xlsx") },
 			[]string{"shared-string-out-of-range.xlsx", "cell A2", "shared string 7"}},
+		{"a cell of 2 MiB", func(string) string { return crafted("inline-string-2MiB.xlsx") },
+			[]string{"inline-string-2MiB.xlsx", "row 2", "the limit is 1 MiB"}},
 		{"NUL after 64 KiB", bigCSV, []string{"nul-late.csv", "NUL"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			dir := t.TempDir()
+			t.Setenv("TMPDIR", dir) // a temporary file anywhere would be left here
 			in := tc.file(dir)
 			out := filepath.Join(dir, "out.xlsx")
 			r := runCmd(t, "", "check", in, "-o", out)

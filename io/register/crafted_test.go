@@ -208,6 +208,8 @@ func craftedCases() []craftedCase {
 					t.Errorf("rated load %+v", v)
 				}
 			}},
+		{file: "inline-string-2MiB.xlsx", build: rows(`<row r="2"><c r="A2" t="inlineStr"><is><t>` + strings.Repeat("x", 2<<20) + `</t></is></c></row>`),
+			errHas: []string{"inline-string-2MiB.xlsx", `sheet "Register"`, "row 2", "the limit is 1 MiB"}},
 		{file: "text-as-shown.xlsx", build: func(t testing.TB) []byte {
 			styles := `<styleSheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><numFmts count="1"><numFmt numFmtId="164" formatCode="00000"/></numFmts><cellXfs count="2"><xf numFmtId="0"/><xf numFmtId="164"/></cellXfs></styleSheet>`
 			data := `<row r="2"><c r="A2" s="1"><v>125</v></c><c r="B2" t="inlineStr"><is><t>North yard</t></is></c><c r="C2"><v>2</v></c></row>` +
