@@ -198,6 +198,10 @@ func TestXLSXLimitsEach(t *testing.T) {
 		{"shared strings size", Limits{MaxSharedStrings: 1 << 10},
 			craftedBook(t, rows, sst(strings.Repeat("z", 600), strings.Repeat("w", 600))),
 			[]string{"x.xlsx", "shared-strings table", "more than the 0.000977 MiB limit"}},
+		// A workbook from a stream is held in memory: its size is bounded.
+		{"streamed size", Limits{MaxStreamed: 512},
+			craftedBook(t, rows),
+			[]string{"x.xlsx", "a workbook read from a stream is held in memory", "give the file's path instead"}},
 	} {
 		lim := DefaultLimits
 		if tc.lim.MaxRowBytes > 0 {
@@ -211,6 +215,9 @@ func TestXLSXLimitsEach(t *testing.T) {
 		}
 		if tc.lim.MaxSharedStrings > 0 {
 			lim.MaxSharedStrings = tc.lim.MaxSharedStrings
+		}
+		if tc.lim.MaxStreamed > 0 {
+			lim.MaxStreamed = tc.lim.MaxStreamed
 		}
 		r, err := NewXLSXLimits(bytes.NewReader(tc.book), "x.xlsx", "", lim)
 		if err == nil {

@@ -23,6 +23,9 @@ type Limits struct {
 	MaxSharedCount   int   // strings in the shared-strings table
 	MaxCellText      int64 // one cell's text, or any other run of XML without a tag, in bytes
 	MaxRowBytes      int64 // one row's XML, in bytes
+	// MaxStreamed bounds a workbook read from a stream (standard input, a named pipe),
+	// which is held in memory whole: a million-row register is about 200 MB zipped.
+	MaxStreamed int64
 }
 
 // DefaultLimits allow registers of a million rows and more (hoistgen's million rows of
@@ -31,7 +34,7 @@ type Limits struct {
 // spreadsheet program (up to 4 bytes each in UTF-8, more with XML escapes), a row at most
 // 16 384 cells.
 var DefaultLimits = Limits{MaxUnzipped: 4 << 30, MaxSharedStrings: 256 << 20, MaxSharedCount: 4 << 20,
-	MaxCellText: 1 << 20, MaxRowBytes: 64 << 20}
+	MaxCellText: 1 << 20, MaxRowBytes: 64 << 20, MaxStreamed: 1 << 30}
 
 func (l Limits) cellText() int64 {
 	if l.MaxCellText > 0 {
@@ -96,9 +99,18 @@ func NewXLSXOptions(r io.Reader, name, sheet string, opt Options) (*Reader, erro
 
 func newXLSX(r io.Reader, name, sheet string, lim Limits, opt Options) (*Reader, error) {
 	file := displayName(name)
-	b, err := io.ReadAll(io.LimitReader(r, lim.MaxUnzipped+1))
+	// A workbook from a stream (standard input, a pipe) is held in memory whole: its
+	// compressed size is bounded apart from what it unzips to.
+	maxStreamed := lim.MaxStreamed
+	if maxStreamed <= 0 {
+		maxStreamed = DefaultLimits.MaxStreamed
+	}
+	b, err := io.ReadAll(io.LimitReader(r, maxStreamed+1))
 	if err != nil {
 		return nil, fileError(file, err)
+	}
+	if int64(len(b)) > maxStreamed {
+		return nil, fileError(file, fmt.Errorf("a workbook read from a stream is held in memory, and this one is larger than %s: give the file's path instead", size(maxStreamed)))
 	}
 	if err := sniffXLSX(b, lim); err != nil {
 		return nil, fileError(file, err)
