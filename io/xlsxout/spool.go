@@ -39,9 +39,12 @@ type spool struct {
 // hoists, with cells without references and numbers to six digits (2026-12-05, same
 // run, CPU time of the whole check, user + system): best speed (1) 22.4 MB, 3.39 s;
 // level 2 16.9 MB, 3.48 s; level 4 14.5 MB, 3.71–3.89 s, the CPU time the workbook
-// took before at best speed (3.90 s, 42.9 MB). Level 4 keeps the workbook under
-// 1.5 KB a hoist (issue 17).
-const spoolLevel = 4
+// took before at best speed (3.90 s, 42.9 MB). Level 4 kept the workbook under
+// 1.5 KB a hoist (issue 17) until three more checks a hoist (23) made it 1.70 KB; again
+// on 10 000 hoistgen hoists (2026-12-06, two interleaved rounds, CPU user + system):
+// level 4 1.70 KB a hoist, 2.78–2.81 s; level 5 1.46 KB, 2.95–3.03 s (1.06×); level 6
+// 1.39 KB, 3.25–3.31 s (1.17×); level 9 1.31 KB, 5.73 s. Level 5 keeps the target.
+const spoolLevel = 5
 
 // spoolBuffers is how many buffers go round: one being formatted, the others queued or
 // being deflated.
