@@ -156,37 +156,33 @@ func Summary(w io.Writer, s *fleet.Summary, info *fleet.RunInfo) error {
 		}
 	}
 
-	if s.NoteCount > 0 {
+	// Lists of untabulated lines: flushed around them so that the tables keep their own
+	// column widths.
+	list := func(title string, count int, items []string, more string) error {
+		if count == 0 {
+			return nil
+		}
 		if err := tw.Flush(); err != nil {
 			return fmt.Errorf("textout: %w", err)
 		}
-		p("\nHow the register was read: %d notes\n", s.NoteCount)
-		n := min(len(s.Notes), MaxWorst)
-		for _, m := range s.Notes[:n] {
+		p("\n"+title+"\n", count)
+		n := min(len(items), MaxWorst)
+		for _, m := range items[:n] {
 			p("  %s\n", m)
 		}
-		if s.NoteCount > n {
-			p("  … %d more: see the Audit sheet or 'hoistfleet columns'\n", s.NoteCount-n)
+		if count > n {
+			p("  … %d more: "+more+"\n", count-n)
 		}
 		if err := tw.Flush(); err != nil {
 			return fmt.Errorf("textout: %w", err)
 		}
+		return nil
 	}
-	if s.ProblemCount > 0 {
-		if err := tw.Flush(); err != nil {
-			return fmt.Errorf("textout: %w", err)
-		}
-		p("\nInput problems: %d (each affects only its hoist's checks)\n", s.ProblemCount)
-		n := min(len(s.Problems), MaxWorst)
-		for _, m := range s.Problems[:n] {
-			p("  %s\n", m)
-		}
-		if s.ProblemCount > n {
-			p("  … %d more: see the Messages column of the results\n", s.ProblemCount-n)
-		}
-		if err := tw.Flush(); err != nil {
-			return fmt.Errorf("textout: %w", err)
-		}
+	if err := list("How the register was read: %d notes", s.NoteCount, s.Notes, "see the Audit sheet or 'hoistfleet columns'"); err != nil {
+		return err
+	}
+	if err := list("Input problems: %d (each affects only its hoist's checks)", s.ProblemCount, s.Problems, "see the Messages column of the results"); err != nil {
+		return err
 	}
 	if gaps := s.Coverage.Sorted(); len(gaps) > 0 {
 		p("\nData to collect first (register columns the checks lacked; the Data sheet lists them all)\n")
