@@ -24,8 +24,9 @@ import (
 // η_l E on the motor shaft, η_RD E on the drum), exact with unit efficiencies.
 //
 // The requirement: holding brakes on hoists "shall have ample thermal capacity for the
-// frequency of operation required by the service" (29 CFR 1910.179(f); Cal. Code Regs.
-// tit. 8 §4898(d), law, read). One stop's energy is the least of what that asks; the
+// frequency of operation required by the service" (29 CFR 1910.179(f)(2)(ii); Cal. Code
+// Regs. tit. 8 §4898(d), law, read). The law gives no number: judging one stop against the
+// brakes' rated friction work per stop is ours (rule brake_energy.factor, common practice). One stop's energy is the least of what that asks; the
 // heat of repeated stops over an hour is not checked here.
 //
 // Verdict: Info without W_perm (E is still a figure); Fail when the brakes cannot stop
@@ -70,9 +71,9 @@ func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 		out.Note = "the brakes cannot stop the lowering load: its energy grows without bound (see brake-stop)"
 	case math.IsNaN(permittedJ):
 		out.Verdict = Info
-		out.Note = "one emergency stop puts " + dynNum(e/1000) + " kJ into the brakes (" + sr.brakeWhere + " brake, " + where + "); the register gives no permitted friction work to compare"
+		out.Note = "one emergency stop puts up to " + dynNum(e/1000) + " kJ into the brakes (losses ignored: an upper bound; " + sr.brakeWhere + " brake, " + where + "); the register gives no permitted friction work to compare"
 	default:
-		out.Note = "one emergency stop puts " + dynNum(e/1000/nb) + " kJ into each brake against the " + dynNum(permittedJ/1000) + " kJ it may take (" + sr.brakeWhere + " brake, " + where + ")"
+		out.Note = "one emergency stop puts up to " + dynNum(e/1000/nb) + " kJ into each brake (losses ignored: an upper bound) against the " + dynNum(permittedJ/1000) + " kJ it may take (" + sr.brakeWhere + " brake, " + where + ")"
 	}
 	if h.SkipDetail {
 		out.Note = ""
@@ -100,7 +101,7 @@ func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 			out.Steps = append(out.Steps, Step{Symbol: "u", Formula: "f E / (N_b W_perm)", Numbers: fmt.Sprintf("%s × %s / (%s × %s)", dynNum(factor), dynNum(e), dynNum(nb), dynNum(permittedJ)), Value: out.Utilisation, Unit: "1"})
 		}
 		out.Steps = append(out.Steps, Step{Symbol: "requirement", Formula: "holding brakes of ample thermal capacity for the frequency of operation required by the service",
-			Numbers: "29 CFR 1910.179(f); Cal. Code Regs. tit. 8 §4898(d) [law]", Value: math.NaN(), Unit: ""})
+			Numbers: "29 CFR 1910.179(f)(2)(ii); Cal. Code Regs. tit. 8 §4898(d) [law]; one stop against the rated friction work per stop is hoistfleet's reading [common practice]", Value: math.NaN(), Unit: ""})
 	}
 	return out, nil
 }

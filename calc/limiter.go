@@ -98,7 +98,9 @@ func OverloadLimiter(in LimiterInput) (Outcome, error) {
 	if err != nil {
 		return Outcome{}, err
 	}
-	if uSet > o.Utilisation { // NaN compares false: the test governs
+	// The setting governs only when it is above the largest the rules allow: a limiter
+	// set at or below it is right, however close (no marginal band for a setting).
+	if uSet > 1+1e-9 && uSet > o.Utilisation { // NaN compares false: the test governs
 		s := limiterSetting(in, uSet)
 		o.Demand, o.Capacity, o.Unit, o.Utilisation = s.Demand, s.Capacity, s.Unit, s.Utilisation
 		o.Note = s.Note + "; " + o.Note

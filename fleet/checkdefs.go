@@ -532,7 +532,7 @@ func checkDefinitions() []Definition {
 			Rules:     []string{"limit.upper_required", "limit.lower_required", "limit.test_interval_months"},
 			Reference: []string{"TestLimitDevices", "TestInspectionDueCalendar"},
 			prepare:   prepareLimitDevices},
-		{ID: "motor-duty", Kind: Mechanical, Optional: true,
+		{ID: "motor-duty", Kind: Mechanical, NoBand: true, Optional: true,
 			advise: func(in adviceInput) advice {
 				if in.cr.Status == StatusMarginal {
 					if in.cr.ReviewUtilisation > 1+utilisationTolerance {
@@ -549,15 +549,19 @@ func checkDefinitions() []Definition {
 			Rules:     []string{"motor.starts_per_cycle", "motor.min_duty_factor", "motor.min_starts"},
 			Reference: []string{"TestMotorDuty"},
 			prepare:   prepareMotorDuty},
-		{ID: "brake-energy", Kind: Mechanical, Optional: true, NeedsOuterLayer: true,
+		// Load-dependent: the energy grows with the load, so a failing brake-energy limits
+		// the rating. Without the brakes' permitted friction work it is information, and
+		// its limit is the load the brakes can just stop (as brake-stop's).
+		{ID: "brake-energy", Kind: Mechanical, Optional: true, NeedsOuterLayer: true, LoadDependent: true,
+			InfoLimit: "Rated load above which the brakes can no longer stop the lowering load (without the brakes' permitted friction work, brake-energy's only limit)",
 			advise: func(in adviceInput) advice {
 				switch {
 				case math.IsNaN(in.cr.Utilisation):
 					return say("take out of service: the brakes cannot stop the lowering rated load")
 				case in.cr.Status == StatusMarginal:
-					return say("keep emergency stops at the rated load rare: each brake takes " + num3(in.fig("energy_per_brake_j")/1000) + " kJ of its " + num3(in.fig("permitted_work_j")/1000) + " kJ")
+					return say("have the brake maker confirm the brakes take up to " + num3(in.fig("energy_per_brake_j")/1000) + " kJ each in an emergency stop at the rated load (rated " + num3(in.fig("permitted_work_j")/1000) + " kJ)")
 				}
-				return say("fit holding brakes rated for at least " + up3(RequiredCapacity(in.cr)*in.fig("permitted_work_j")/in.cr.Capacity/1000) + " kJ a stop each (" + num3(in.fig("permitted_work_j")/1000) + " kJ now), or have the brake maker confirm the brakes take " + num3(in.fig("energy_per_brake_j")/1000) + " kJ a stop")
+				return orDerate("fit holding brakes rated for at least " + up3(RequiredCapacity(in.cr)*in.fig("permitted_work_j")/in.cr.Capacity/1000) + " kJ a stop each (" + num3(in.fig("permitted_work_j")/1000) + " kJ now), or have the brake maker confirm the brakes take " + num3(in.fig("energy_per_brake_j")/1000) + " kJ a stop")
 			},
 			Needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), Uses: join(brakeUses, []string{"brake_friction_work"}),
 			Rules:     []string{"brake_energy.factor"},

@@ -39,6 +39,10 @@ func TestLimitLoadIsTheLimit(t *testing.T) {
 		{"two layers, motor brakes, no stop-distance rule", motorBrakeB(t), nil},
 		{"two layers, drum brakes, stop-distance rule", winchB(t).asset(), []string{stopDistanceRule}},
 		{"two layers, drum brakes, no stop-distance rule", winchB(t).asset(), nil},
+		// brake-energy has a limit only where the register gives the brakes' permitted
+		// friction work a stop.
+		{"single layer, motor brake, brake friction work", winchA(t).num("brake_friction_work", 20e3).asset(), nil},
+		{"two layers, drum brakes, brake friction work", winchB(t).num("brake_friction_work", 200e3).asset(), nil},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -61,8 +65,9 @@ func TestLimitLoadIsTheLimit(t *testing.T) {
 				at := mustCheck(t, c.Check(withLoad(tc.a, L)), cr.ID)
 				above := mustCheck(t, c.Check(withLoad(tc.a, L+0.2)), cr.ID)
 				if math.IsNaN(at.Utilisation) {
-					// brake-stop with no distance rule (info): its limit is the load the
-					// brakes can just stop; just above it they cannot (fail outright).
+					// brake-stop with no distance rule, brake-energy without the brakes'
+					// friction work (info): the limit is the load the brakes can just
+					// stop; just above it they cannot (fail outright).
 					if at.Status == StatusFail || above.Status != StatusFail {
 						t.Errorf("%s: at %.1f kg status %v, at +0.2 kg %v: want not fail, then fail", cr.ID, L, at.Status, above.Status)
 					}
