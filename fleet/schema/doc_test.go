@@ -122,6 +122,15 @@ func TestReadmeHasColumnTable(t *testing.T) {
 	if !strings.Contains(readme, ColumnsMarkdown()) {
 		t.Errorf("README.md does not contain the current column table: run go test ./fleet/schema -run TestReadmeHasColumnTable -update-readme")
 	}
+	// The rules block too: a rule row's value, source or provenance changed in the tables
+	// and not in README would mislead a reader of the README.
+	rules, err := rulesReadme()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(readme, rules) {
+		t.Errorf("README.md does not contain the current rule tables: run go test ./fleet/schema -run TestReadmeHasColumnTable -update-readme")
+	}
 }
 
 func TestRulesMarkdown(t *testing.T) {
