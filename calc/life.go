@@ -65,7 +65,10 @@ type LifeInput struct {
 // verified that FEM 9.755 itself sets it).
 //
 // After a general overhaul S restarts (FEM 9.755: the safe working period begins again
-// once the mechanism has been overhauled; memory, medium-high): with the hour meter at
+// once the mechanism has been overhauled; memory, low: the period allowed after an
+// overhaul is the one the overhaul's expert sets (DGUV Vorschrift 54 §35a, seen, refers
+// to FEM 9.755 for the conditions of further operation), counted here as a full D again,
+// and the note says so): with the hour meter at
 // the overhaul T_o, T = T_meter − T_o, and the usage rate is counted from the overhaul's
 // date where it is given. An overhaul date without the hour meter reading cannot restart
 // S: the hours are then counted from commissioning (the conservative reading) and the
@@ -225,12 +228,12 @@ func lifePeriod(in *LifeInput) (lifeSpan, error) {
 		p.hours, p.fromOverhaul = in.OperatingHours-in.HoursAtOverhaul, true
 		if in.Overhaul.IsZero() {
 			p.start, p.startWord, p.countedFrom = time.Time{}, "overhaul", "overhaul"
-			p.note = fmt.Sprintf("S counted from the last general overhaul (hour meter %s h then; its date not given, so the usage rate is unknown): %s h since", dutyNum(in.HoursAtOverhaul), dutyNum(p.hours))
+			p.note = fmt.Sprintf("S counted from the last general overhaul (hour meter %s h then; its date not given, so the usage rate is unknown): %s h since, against a full D again: check the period the overhaul report allows", dutyNum(in.HoursAtOverhaul), dutyNum(p.hours))
 			return p, nil
 		}
 		p.start, p.startWord, p.rateWord = in.Overhaul, "overhaul", "days since the overhaul"
 		p.countedFrom = "overhaul " + lifeISO(lifeDay(in.Overhaul))
-		p.note = fmt.Sprintf("S counted from the general overhaul of %s (hour meter %s h then): %s h since", lifeISO(lifeDay(in.Overhaul)), dutyNum(in.HoursAtOverhaul), dutyNum(p.hours))
+		p.note = fmt.Sprintf("S counted from the general overhaul of %s (hour meter %s h then): %s h since, against a full D again: check the period the overhaul report allows", lifeISO(lifeDay(in.Overhaul)), dutyNum(in.HoursAtOverhaul), dutyNum(p.hours))
 	case !in.Overhaul.IsZero():
 		p.note = fmt.Sprintf("general overhaul of %s recorded without the hour meter at it: S counted from commissioning (conservative); add Overhaul hour meter to restart it", lifeISO(lifeDay(in.Overhaul)))
 	}

@@ -68,7 +68,7 @@ func ExampleDesignLife_overhaul() {
 	fmt.Printf("counted from %s: T = %.0f h, S/D = %.0f/%.0f h = %.4g, rate %.4g h/day\n",
 		o.Figures[5].Text, o.Figure("period_h"), o.Demand, o.Capacity, o.Utilisation, o.Figure("usage_rate_h_per_day"))
 	// Output:
-	// S counted from the general overhaul of 2023-01-01 (hour meter 3000 h then): 1000 h since
+	// S counted from the general overhaul of 2023-01-01 (hour meter 3000 h then): 1000 h since, against a full D again: check the period the overhaul report allows
 	// counted from overhaul 2023-01-01: T = 1000 h, S/D = 300/1600 h = 0.1875, rate 1.368 h/day
 }
 

@@ -67,6 +67,7 @@ func MotorDuty(in MotorDutyInput) (Outcome, error) {
 		switch {
 		case math.IsNaN(act):
 			act = fromCycles
+			notes = append(notes, dutyNum(act)+" starts an hour from "+dutyNum(in.CyclesPerHour)+" cycles: a lower bound (inching adds more)")
 			if rec {
 				o.Steps = append(o.Steps, Step{Symbol: "z_act", Formula: "c · cycles per hour", Numbers: dutyNum(in.StartsPerCycle) + " × " + dutyNum(in.CyclesPerHour), Value: act, Unit: "1/h"})
 			}
