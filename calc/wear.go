@@ -194,6 +194,9 @@ func RopeWear(in WearInput) (Outcome, error) {
 	// The governing broken-wire count and its discard count, and where they were counted.
 	var bwN, bwMax int
 	bwWhere := ""
+	if (in.BrokenWires > 0 && in.MaxBrokenWires <= 0) || (in.StrandBrokenWires > 0 && in.MaxStrandBrokenWires <= 0) {
+		notes = append(notes, "broken wires counted per lay or per strand not assessed: the rules give no such count for this rope")
+	}
 	if hasLay {
 		uLay = float64(in.BrokenWires) / float64(in.MaxBrokenWires)
 		uBW, bwN, bwMax, bwWhere = uLay, in.BrokenWires, in.MaxBrokenWires, "in one lay"
@@ -292,6 +295,8 @@ func (in WearInput) validate() error {
 	hasBW := in.BrokenWires >= 0 && in.MaxBrokenWires > 0 || in.StrandBrokenWires >= 0 && in.MaxStrandBrokenWires > 0
 	if !hasDia && !hasBW {
 		switch {
+		case in.BrokenWires > 0 || in.StrandBrokenWires > 0:
+			return &RangeError{Field: "rope_measured_diameter", Msg: "the rules in force give no discard count for broken wires counted per lay or per strand on this rope (rotation-resistant rope is judged per 6 and 30 rope diameters), and no diameter was measured: measure the diameter"}
 		case in.MeasuredM > 0:
 			return &RangeError{Msg: "no discard criterion in the rules for the rope's diameter or broken wires"}
 		default:

@@ -177,3 +177,19 @@ func TestRopeWearBrokenWiresAction(t *testing.T) {
 		}
 	}
 }
+
+// TestRotationResistantBrokenWires: ASME B30.2 judges rotation-resistant running rope by
+// broken wires in 6 and 30 rope diameters, not per lay (memory, medium): 13 broken wires
+// counted per lay on such a rope are not judged by the 12-per-lay count (they would fail
+// another rope), and the note says they were not assessed.
+func TestRotationResistantBrokenWires(t *testing.T) {
+	c := isoChecker(t)
+	other := mustCheck(t, c.Check(winchA(t).num("rope_broken_wires", 13).asset()), "rope-wear")
+	if other.Status != StatusFail {
+		t.Fatalf("13 per lay on a steel-core rope: %s, want fail", other.Status)
+	}
+	cr := mustCheck(t, c.Check(winchA(t).text("rope_construction", "rotation resistant").num("rope_broken_wires", 13).asset()), "rope-wear")
+	if cr.Status == StatusFail || !strings.Contains(cr.Message, "not assessed: the rules give no such count for this rope") {
+		t.Errorf("rotation-resistant rope, 13 per lay: %s %q", cr.Status, cr.Message)
+	}
+}
