@@ -60,8 +60,11 @@ func (w *Writer) writeAudit(info *fleet.RunInfo) error {
 		{"Sheet", info.Sheet},
 		{"Columns file", info.ColumnsFile},
 		{"As of", ts(info.AsOf, "2006-01-02")},
-		{"Started", ts(info.Started, time.RFC3339)},
-		{"Finished", ts(info.Finished, time.RFC3339)},
+		// To the nanosecond: start and finish in the same second would be one shared
+		// string, and the workbook's shared strings would differ from run to run in
+		// number, not only in the times (issue 16: byte-reproducible apart from the times).
+		{"Started", ts(info.Started, time.RFC3339Nano)},
+		{"Finished", ts(info.Finished, time.RFC3339Nano)},
 		{"Rule profile", info.Profile},
 		{"User rules file", info.RulesFile},
 		{"Marginal band", strconv.FormatFloat(info.MarginalBand*100, 'f', -1, 64) + " %"},
