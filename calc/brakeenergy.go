@@ -33,7 +33,9 @@ import (
 // the load (no finite energy; BrakeStop fails too); Info for a self-locking train (E then
 // comes from BrakeStop's upper bound, or does not exist when the gear holds the load).
 // Figures: energy_j, kinetic_energy_j, gravity_work_j, energy_per_brake_j,
-// permitted_work_j, stop_layer. Valid ranges: as BrakeStop, plus W_perm > 0 or not given
+// friction_work_j (W_b = F_b s_2: the brakes' own friction work through the angle they
+// slip, with F_b the brake force at the hook; η E under design.md's loss model, E with
+// unit efficiencies), permitted_work_j, stop_layer. Valid ranges: as BrakeStop, plus W_perm > 0 or not given
 // (NaN or ≤ 0), f > 0.
 func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 	if !(factor > 0) || math.IsInf(factor, 0) {
@@ -55,6 +57,10 @@ func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 	ek := 0.5 * x.meq * x.v1 * x.v1
 	wg := sr.t.m * sr.t.g * x.s2
 	e := ek + wg // NaN when the brakes cannot stop
+	// The brakes' own friction work: their torque through the angle they slip, F_b s_2
+	// at the hook (F_b = N_b M_b i n_e / r, or N_b M_b n_e / r on the drum: the brake
+	// torque reflected by the kinematics alone). E bounds it from above by the losses.
+	wb := x.fb * x.s2
 	capacity := nb * permittedJ
 	out := Outcome{Demand: e, Capacity: capacity, Unit: "J", Utilisation: factor * e / capacity, Verdict: ByUtilisation}
 	where := sr.t.radiusWords(sr.best)
@@ -84,6 +90,7 @@ func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 		{Name: "kinetic_energy_j", Value: ek, Unit: "J"},
 		{Name: "gravity_work_j", Value: wg, Unit: "J"},
 		{Name: "energy_per_brake_j", Value: e / nb, Unit: "J"},
+		{Name: "friction_work_j", Value: wb, Unit: "J"},
 		{Name: "permitted_work_j", Value: permittedJ, Unit: "J"},
 		{Name: "stop_layer", Value: sr.t.layerNumber(sr.best), Unit: "1"},
 	})
@@ -96,6 +103,7 @@ func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 			{Symbol: "E_k", Formula: "½ m_eq v_1²", Numbers: fmt.Sprintf("0.5 × %s × %s²", dynNum(x.meq), dynNum(x.v1)), Value: ek, Unit: "J"},
 			{Symbol: "W_g", Formula: "m g s_2", Numbers: fmt.Sprintf("%s × %s × %s", dynNum(sr.t.m), dynNum(sr.t.g), dynNum(x.s2)), Value: wg, Unit: "J"},
 			{Symbol: "E", Formula: "E_k + W_g (losses ignored: an upper bound)", Numbers: dynNum(ek) + " + " + dynNum(wg), Value: e, Unit: "J"},
+			{Symbol: "W_b" + tag, Formula: "F_b s_2 (the brakes' own friction work, losses included; E ≥ W_b)", Numbers: dynNum(x.fb) + " × " + dynNum(x.s2), Value: wb, Unit: "J"},
 		}
 		if !math.IsNaN(permittedJ) {
 			out.Steps = append(out.Steps, Step{Symbol: "u", Formula: "f E / (N_b W_perm)", Numbers: fmt.Sprintf("%s × %s / (%s × %s)", dynNum(factor), dynNum(e), dynNum(nb), dynNum(permittedJ)), Value: out.Utilisation, Unit: "1"})

@@ -135,6 +135,11 @@ func TestBrakeEnergyBalance(t *testing.T) {
 			if !dynApproxEqual(e*eta, wb, 0, 0.005) {
 				t.Errorf("η E = %.6g J, brakes' work by integration %.6g J", e*eta, wb)
 			}
+			// F_b s_2, the brake force at the hook through the braking distance, is the
+			// brakes' own work: the integration's ∫ M_b ω dt (kinematics, no loss model).
+			if got := o.Figure("friction_work_j"); !dynApproxEqual(got, wb, 0, 0.005) || got > e*(1+1e-12) {
+				t.Errorf("friction_work_j %.6g J, integrated brake work %.6g J (E %.6g J must bound it)", got, wb, e)
+			}
 			if e < wb*(1-0.005) {
 				t.Errorf("E = %.6g J is below the integrated brake work %.6g J: not an upper bound", e, wb)
 			}
