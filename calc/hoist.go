@@ -197,6 +197,9 @@ const (
 	Fail
 	// Marginal: marginal whatever the utilisation (e.g. fleet angle below the minimum).
 	Marginal
+	// WithoutBand: pass up to utilisation 1, fail above, no marginal band: a minimum
+	// rating that is met is met however closely (a motor rated exactly for its group).
+	WithoutBand
 )
 
 // Figure is one named result of a check, in SI unless Unit says otherwise. Names are

@@ -39,8 +39,10 @@ type MotorDutyInput struct {
 // an hour (memory, low: in the rule tables as review limits until read in the document).
 // The motor's rating is its nameplate's (the register).
 //
-// Verdict: ByUtilisation when any ratio can be formed; Info otherwise (nothing verified to
-// judge: the fleet's review of the group's requirement may still make it marginal).
+// Verdict: by the governing ratio: ByUtilisation for the starts run (the marginal band
+// applies), WithoutBand for the group's requirements (minimum ratings: met however
+// closely); Info when no ratio can be formed (nothing verified to judge: the fleet's
+// review of the group's requirement may still make it marginal).
 // Figures: rated_duty_factor, required_duty_factor, rated_starts_per_hour,
 // required_starts_per_hour, starts_per_hour (z_act), starts_utilisation (u_z).
 //
@@ -79,14 +81,17 @@ func MotorDuty(in MotorDutyInput) (Outcome, error) {
 			}
 		}
 	}
+	// The group's requirements are minimum ratings: met however closely (WithoutBand);
+	// the starts run against the motor's rating take the marginal band.
 	parts := [...]struct {
 		sym            string
 		demand, rating float64
 		unit, what     string
+		verdict        Verdict
 	}{
-		{"u_ED", in.RequiredDutyFactor, in.RatedDutyFactor, "1", "duty factor the group asks"},
-		{"u_zreq", in.RequiredStarts, in.RatedStarts, "1/h", "starts per hour the group asks"},
-		{"u_z", act, in.RatedStarts, "1/h", "starts per hour run"},
+		{"u_ED", in.RequiredDutyFactor, in.RatedDutyFactor, "1", "duty factor the group asks", WithoutBand},
+		{"u_zreq", in.RequiredStarts, in.RatedStarts, "1/h", "starts per hour the group asks", WithoutBand},
+		{"u_z", act, in.RatedStarts, "1/h", "starts per hour run", ByUtilisation},
 	}
 	for _, p := range parts {
 		u := p.demand / p.rating
@@ -97,7 +102,7 @@ func MotorDuty(in MotorDutyInput) (Outcome, error) {
 			o.Steps = append(o.Steps, Step{Symbol: p.sym, Formula: p.what + " / the motor's rating", Numbers: motorDutyNum(p.demand, p.unit) + " / " + motorDutyNum(p.rating, p.unit), Value: u, Unit: "1"})
 		}
 		if math.IsNaN(o.Utilisation) || u > o.Utilisation {
-			o.Demand, o.Capacity, o.Unit, o.Utilisation, o.Verdict = p.demand, p.rating, p.unit, u, ByUtilisation
+			o.Demand, o.Capacity, o.Unit, o.Utilisation, o.Verdict = p.demand, p.rating, p.unit, u, p.verdict
 		}
 		if u > 1+1e-9 {
 			notes = append(notes, p.what+" "+motorDutyNum(p.demand, p.unit)+" exceed the motor's "+motorDutyNum(p.rating, p.unit))

@@ -23,12 +23,17 @@ func TestMotorDuty(t *testing.T) {
 		starts  float64 // z_act
 		note    string
 	}{
+		// The group's requirements are minimum ratings: judged without the marginal band.
 		{"40 % ED motor in a 2m group: at its limit",
 			calc.MotorDutyInput{RatedDutyFactor: 0.40, RatedStarts: 240, RequiredDutyFactor: 0.40, RequiredStarts: 240, StartsPerHour: nan, CyclesPerHour: nan, StartsPerCycle: 2},
-			calc.ByUtilisation, 1, "1", nan, ""},
+			calc.WithoutBand, 1, "1", nan, ""},
 		{"25 % ED motor in a 2m group: 40/25",
 			calc.MotorDutyInput{RatedDutyFactor: 0.25, RatedStarts: 240, RequiredDutyFactor: 0.40, RequiredStarts: 240, StartsPerHour: nan, CyclesPerHour: nan, StartsPerCycle: 2},
-			calc.ByUtilisation, 1.6, "1", nan, "duty factor the group asks 40 % ED exceed the motor's 25 % ED"},
+			calc.WithoutBand, 1.6, "1", nan, "duty factor the group asks 40 % ED exceed the motor's 25 % ED"},
+		// The starts run against the motor's rating take the band: 170 of 180 is near it.
+		{"170 starts an hour on a 180-start motor",
+			calc.MotorDutyInput{RatedDutyFactor: 0.40, RatedStarts: 180, RequiredDutyFactor: nan, RequiredStarts: nan, StartsPerHour: 170, CyclesPerHour: nan, StartsPerCycle: 2},
+			calc.ByUtilisation, 170.0 / 180, "1/h", 170, ""},
 		{"150 cycles an hour on a 240-start motor: 300/240",
 			calc.MotorDutyInput{RatedDutyFactor: 0.40, RatedStarts: 240, RequiredDutyFactor: nan, RequiredStarts: nan, StartsPerHour: nan, CyclesPerHour: 150, StartsPerCycle: 2},
 			calc.ByUtilisation, 1.25, "1/h", 300, "starts per hour run 300/h exceed the motor's 240/h"},

@@ -47,3 +47,9 @@ func SlipFactor(v, lo, hi float64) float64 {
 	mid := math.Sqrt(lo * hi)
 	return math.Pow(10, math.Round(math.Abs(math.Log10(v/mid))))
 }
+
+// BrakeWorkRange bounds one brake's permitted friction work per stop [J]: the smallest
+// industrial hoist brakes are rated for some hundreds of joules a stop, the largest for
+// some megajoules (common practice, no published source): 50 J to 100 MJ, widened, so
+// that a value in J written in a kJ column (or kJ in a J column) is caught.
+func BrakeWorkRange() (lo, hi float64) { return 50, 100e6 }

@@ -532,7 +532,7 @@ func checkDefinitions() []Definition {
 			Rules:     []string{"limit.upper_required", "limit.lower_required", "limit.test_interval_months"},
 			Reference: []string{"TestLimitDevices", "TestInspectionDueCalendar"},
 			prepare:   prepareLimitDevices},
-		{ID: "motor-duty", Kind: Mechanical, NoBand: true, Optional: true,
+		{ID: "motor-duty", Kind: Mechanical, Optional: true,
 			advise: func(in adviceInput) advice {
 				if in.cr.Status == StatusMarginal {
 					if in.cr.ReviewUtilisation > 1+utilisationTolerance {
@@ -559,9 +559,9 @@ func checkDefinitions() []Definition {
 				case math.IsNaN(in.cr.Utilisation):
 					return say("take out of service: the brakes cannot stop the lowering rated load")
 				case in.cr.Status == StatusMarginal:
-					return say("have the brake maker confirm the brakes take up to " + num3(in.fig("energy_per_brake_j")/1000) + " kJ each in an emergency stop at the rated load (rated " + num3(in.fig("permitted_work_j")/1000) + " kJ)")
+					return say("have the brake maker confirm the brakes take up to " + up3(in.fig("energy_per_brake_j")/1000) + " kJ each in an emergency stop at the rated load (rated " + num3(in.fig("permitted_work_j")/1000) + " kJ)")
 				}
-				return orDerate("fit holding brakes rated for at least " + up3(RequiredCapacity(in.cr)*in.fig("permitted_work_j")/in.cr.Capacity/1000) + " kJ a stop each (" + num3(in.fig("permitted_work_j")/1000) + " kJ now), or have the brake maker confirm the brakes take " + num3(in.fig("energy_per_brake_j")/1000) + " kJ a stop")
+				return orDerate("fit holding brakes rated for at least " + up3(RequiredCapacity(in.cr)*in.fig("permitted_work_j")/in.cr.Capacity/1000) + " kJ a stop each (" + num3(in.fig("permitted_work_j")/1000) + " kJ now), or have the brake maker confirm the brakes take " + up3(in.fig("energy_per_brake_j")/1000) + " kJ a stop")
 			},
 			Needs: join(loadNeeds, []string{"brake_torque", "drum_diameter", "gear_ratio", "drum_inertia", "motor_inertia", "hoist_speed"}), Uses: join(brakeUses, []string{"brake_friction_work"}),
 			Rules:     []string{"brake_energy.factor"},

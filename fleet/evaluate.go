@@ -511,7 +511,7 @@ func (c *Checker) applyReview(cr *CheckResult, p *preparedCheck, h calc.Hoist) {
 			return
 		}
 		u = o.Utilisation
-		exceeded = o.Verdict == calc.Fail || (o.Verdict == calc.ByUtilisation && u > 1+utilisationTolerance)
+		exceeded = o.Verdict == calc.Fail || ((o.Verdict == calc.ByUtilisation || o.Verdict == calc.WithoutBand) && u > 1+utilisationTolerance)
 	}
 	cr.ReviewUtilisation, cr.ReviewRule, cr.ReviewSource = u, p.reviewRule, p.reviewSource
 	if p.reviewOnly {
@@ -648,6 +648,8 @@ func (c *Checker) fill(cr *CheckResult, o calc.Outcome, noBand bool) {
 		cr.Status = StatusFail
 	case calc.Marginal:
 		cr.Status = StatusMarginal
+	case calc.WithoutBand:
+		cr.Status = StatusOf(o.Utilisation, 0)
 	default:
 		band := c.opts.MarginalBand
 		if noBand {

@@ -46,6 +46,19 @@ func (d *hoistData) plausibility() {
 				"is "+num3(r)+" × the motor's rated torque "+num3(mr)+" N m (over "+num3(calc.MaxBrakeRatio)+" × for a brake on the motor shaft): check the units of Brake torque and Motor power, and Brake location")
 		}
 	}
+	// One brake's permitted friction work a stop: zero is no rating, and a value far
+	// outside what brakes are rated for is a unit slip (J in a kJ column).
+	if v := d.given("brake_friction_work"); v != nil {
+		lo, hi := calc.BrakeWorkRange()
+		switch {
+		case !(v.Num > 0):
+			d.implausible("brake_friction_work", v, 1, false, "is not a positive number: a brake's permitted friction work a stop is; leave the cell blank if it is not known")
+		case v.Num < lo || v.Num > hi:
+			// The slip to expect is J for kJ (or kJ for J): a factor of 1000.
+			d.implausible("brake_friction_work", v, 1000, v.Num > hi,
+				"is outside what hoist brakes are rated for ("+num3(lo)+" J to "+num3(hi/1e6)+" MJ a stop)")
+		}
+	}
 	// Zeros where physics needs a positive number.
 	for _, key := range [...]string{"drum_inertia", "motor_inertia"} {
 		if v := d.given(key); v != nil && v.Num == 0 {

@@ -1,6 +1,7 @@
 package fleet
 
 import (
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -40,5 +41,24 @@ func TestImplausibleValuesAreErrors(t *testing.T) {
 		if r.Status == StatusPass {
 			t.Errorf("%s: the hoist passes", tc.name)
 		}
+	}
+}
+
+// TestBrakeFrictionWorkPlausible: a brake's permitted friction work of 0 is not "no
+// limit" but no rating (an error of brake-energy), and 3 J (3 kJ written in a J column)
+// is a unit slip naming the likely value.
+func TestBrakeFrictionWorkPlausible(t *testing.T) {
+	c := isoChecker(t)
+	for _, tc := range []struct {
+		j    float64
+		want string
+	}{{0, "is not a positive number"}, {3, "check the unit: 3000?"}} {
+		cr := mustCheck(t, c.Check(winchA(t).raw("brake_friction_work", tc.j, strconv.FormatFloat(tc.j, 'f', -1, 64)).asset()), "brake-energy")
+		if cr.Status != StatusError || !strings.Contains(cr.Message, tc.want) {
+			t.Errorf("%g J: %s %q, want error %q", tc.j, cr.Status, cr.Message, tc.want)
+		}
+	}
+	if cr := mustCheck(t, c.Check(winchA(t).num("brake_friction_work", 20e3).asset()), "brake-energy"); cr.Status == StatusError {
+		t.Errorf("20 kJ: %s %q", cr.Status, cr.Message)
 	}
 }
