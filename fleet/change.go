@@ -152,26 +152,31 @@ func kgWords(kg float64) string {
 	return strconv.FormatFloat(kg, 'f', 0, 64) + " kg"
 }
 
-// changeRank orders changes for listing: worse status first, then added, removed, the
-// other changes, better status last but one, unchanged last.
+// changeRank orders changes for listing: worse status first, then better (a status that
+// changed, either way, matters before anything else), added, removed, the changes of
+// rating, capacity, checks or inspections, then changes of register values alone (a site
+// renamed), unchanged last.
 func (c *Change) rank() int {
 	switch {
 	case c.StatusChange == "worse":
 		return 0
-	case c.Kind == ChangeAdded:
-		return 1
-	case c.Kind == ChangeRemoved:
-		return 2
 	case c.StatusChange == "better":
-		return 4
+		return 1
+	case c.Kind == ChangeAdded:
+		return 2
+	case c.Kind == ChangeRemoved:
+		return 3
 	case c.Kind == ChangeUnchanged:
-		return 5
+		return 6
+	case c.RatingChanged || c.CapacityChanged || len(c.NewlyFailing) > 0 || len(c.Cleared) > 0 || c.NewlyOverdue || c.OverdueCleared:
+		return 4
 	}
-	return 3
+	return 5
 }
 
-// SortChanges orders changes for listing (worse first, then added, removed, other
-// changes, better); equal ranks keep register order (removed: the baseline's order).
+// SortChanges orders changes for listing (worse, better, added, removed, changes of the
+// results, changes of register values alone); equal ranks keep register order (removed:
+// the baseline's order).
 func SortChanges(cs []*Change) {
 	sort.SliceStable(cs, func(i, j int) bool { return cs[i].rank() < cs[j].rank() })
 }
@@ -358,5 +363,14 @@ func (n ChangeCounts) Words() string {
 	if n.Capacity > 0 {
 		parts = append(parts, strconv.Itoa(n.Capacity)+" mechanism capacity changed")
 	}
-	return strings.Join(parts, ", ")
+	s := strings.Join(parts, ", ")
+	if n.Added > 0 && n.Removed > 0 && n.matched() == 0 {
+		s += ". No hoist of this register is in the baseline: is the baseline this register's earlier results?"
+	}
+	return s
+}
+
+// matched counts the hoists found in the baseline: each is unchanged or has a change.
+func (n ChangeCounts) matched() int {
+	return n.Unchanged + n.Worse + n.Better + n.Rating + n.NewlyFailing + n.Cleared + n.NewlyOverdue + n.OverdueCleared + n.Inputs + n.Capacity
 }

@@ -120,11 +120,14 @@ func TestSameInput(t *testing.T) {
 	}
 }
 
-// TestSortChanges: worse first, then added, removed, other changes, better.
+// TestSortChanges: worse first, then better, added, removed, changes of the results
+// (a rating), register values alone (a site renamed: the new-user run saw 17 of these
+// push a cleared rope-wear fail and a derating out of the terminal's list).
 func TestSortChanges(t *testing.T) {
 	cs := []*Change{
-		{AssetID: "better", Kind: ChangeChanged, StatusChange: "better"},
 		{AssetID: "input", Kind: ChangeChanged},
+		{AssetID: "better", Kind: ChangeChanged, StatusChange: "better"},
+		{AssetID: "rating", Kind: ChangeChanged, RatingChanged: true},
 		{AssetID: "removed", Kind: ChangeRemoved},
 		{AssetID: "added", Kind: ChangeAdded},
 		{AssetID: "worse", Kind: ChangeChanged, StatusChange: "worse"},
@@ -135,7 +138,7 @@ func TestSortChanges(t *testing.T) {
 	for _, c := range cs {
 		got = append(got, c.AssetID)
 	}
-	if want := []string{"worse", "worse2", "added", "removed", "input", "better"}; !slices.Equal(got, want) {
+	if want := []string{"worse", "worse2", "better", "added", "removed", "rating", "input"}; !slices.Equal(got, want) {
 		t.Errorf("order %v, want %v", got, want)
 	}
 }
@@ -274,5 +277,18 @@ func TestRunCraneAtTwoSites(t *testing.T) {
 	}
 	if s.ChangeCounts.Added != 3 || s.ChangeCounts.Removed != 1 || len(s.Removed) != 1 || s.Removed[0].AssetID != "Z" {
 		t.Errorf("changes %+v, removed %+v", s.ChangeCounts, s.Removed)
+	}
+}
+
+// TestChangeCountsNoMatch: a baseline with no hoist in common with the register (another
+// site's results given by mistake) is said to be probably the wrong file.
+func TestChangeCountsNoMatch(t *testing.T) {
+	wrong := ChangeCounts{Added: 49, Removed: 10}
+	if !strings.Contains(wrong.Words(), "No hoist of this register is in the baseline") {
+		t.Errorf("%q", wrong.Words())
+	}
+	right := ChangeCounts{Added: 1, Removed: 1, Unchanged: 47}
+	if strings.Contains(right.Words(), "No hoist") {
+		t.Errorf("%q", right.Words())
 	}
 }

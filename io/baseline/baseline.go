@@ -219,6 +219,9 @@ func readJSONL(path string, r io.Reader, meta fleet.BaselineMeta) (*fleet.Baseli
 		}
 		var l line
 		if err := json.Unmarshal(b, &l); err != nil {
+			if n == 1 && bytes.HasPrefix(bytes.TrimPrefix(b, []byte("\ufeff")), []byte("row,asset_id,")) {
+				return nil, fmt.Errorf("--baseline %s: this is hoistfleet's CSV long form, which a baseline cannot be (it keeps neither the register's values nor a hoist's line): give the results workbook (.xlsx) or the JSON lines (.jsonl) of the earlier check", path)
+			}
 			return nil, fmt.Errorf("--baseline %s: line %d: not a hoistfleet JSON line: %v (give the results workbook or the JSON lines of an earlier check)", path, n, err)
 		}
 		if l.Change != nil && l.Change.Kind == fleet.ChangeRemoved {

@@ -81,6 +81,7 @@ func TestReadErrors(t *testing.T) {
 	}{
 		{"missing", filepath.Join(t.TempDir(), "none.xlsx"), []string{"--baseline", "no such file"}},
 		{"not json", write(t, "a.jsonl", "Asset ID,Site\nH-1,North\n"), []string{"a.jsonl: line 1: not a hoistfleet JSON line"}},
+		{"csv long form", write(t, "long.csv", "row,asset_id,site,hoist_status\n2,H-1,North,pass\n"), []string{"long.csv: this is hoistfleet's CSV long form, which a baseline cannot be", "give the results workbook (.xlsx) or the JSON lines (.jsonl)"}},
 		{"no status", write(t, "b.jsonl", `{"asset_id":"H-1","row":2}`+"\n"), []string{"b.jsonl: line 1: expected a hoist's line with \"row\" and \"status\""}},
 		{"bad status", write(t, "c.jsonl", `{"asset_id":"H-1","row":2,"status":"ok"}`+"\n"), []string{"c.jsonl: line 1: status \"ok\" is not a status word"}},
 		{"empty", write(t, "d.jsonl", "\n"), []string{"d.jsonl: no hoist's line"}},
