@@ -156,6 +156,11 @@ func (s *colSpec) unitlessProblem(col fleet.Column) string {
 	if us, ok := units.USCustomary(s.col.Quantity, s.col.Unit); ok && us != s.col.Unit {
 		eg = append(eg, strconv.Quote(title+" ["+us+"]"))
 	}
-	return fmt.Sprintf("%q gives no unit, and no units row under the header does: a %s is not read in an assumed unit, so its cells are not read (unless a cell carries its own unit, e.g. \"5 %s\") and the checks that need %s are unchecked; write the unit in the header, e.g. %s",
-		title, strings.ReplaceAll(s.col.Quantity, "_", " "), s.col.Unit, s.col.Header, strings.Join(eg, " or "))
+	q := strings.ReplaceAll(s.col.Quantity, "_", " ")
+	article := "a"
+	if q != "" && strings.ContainsRune("aeiou", rune(q[0])) {
+		article = "an"
+	}
+	return fmt.Sprintf("%q gives no unit, and no units row under the header does: %s %s is not read in an assumed unit, so its cells are not read (unless a cell carries its own unit, e.g. \"5 %s\") and the checks that need %s are unchecked; write the unit in the header, e.g. %s",
+		title, article, q, s.col.Unit, s.col.Header, strings.Join(eg, " or "))
 }

@@ -404,7 +404,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 		for _, b := range w.top(s.Overdue) {
 			w.briefRow(sw, r, b)
 			sw.set(4, r, math.Round(b.Days), st.int_)
-			sw.str(5, r, b.Reason, 0)
+			sw.str(5, r, clipText(b.Reason, summaryReasonChars-20), 0)
 			r++
 		}
 	}
@@ -432,7 +432,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 		r++
 		for _, b := range w.top(s.Flags) {
 			w.briefRow(sw, r, b)
-			sw.str(4, r, b.Reason, 0)
+			sw.str(4, r, clipText(b.Reason, summaryReasonChars), 0)
 			r++
 		}
 	}
@@ -602,4 +602,19 @@ func titleCase(s string) string {
 		return s
 	}
 	return string(s[0]-'a'+'A') + s[1:]
+}
+
+// summaryReasonChars is about how many characters of a reason fit the Summary's page
+// width from column D: a longer one (a review limit's message runs to 300) spilled past
+// the page and made the one-page Summary print at a third of its size. The Register and
+// Checks sheets have the whole text.
+const summaryReasonChars = 110
+
+// clipText cuts s to at most n characters, ending in "…" when cut.
+func clipText(s string, n int) string {
+	r := []rune(s)
+	if len(r) <= n {
+		return s
+	}
+	return strings.TrimRight(string(r[:n-1]), " ;,") + "…"
 }
