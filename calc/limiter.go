@@ -108,6 +108,10 @@ func OverloadLimiter(in LimiterInput) (Outcome, error) {
 	} else if !math.IsNaN(uSet) && !in.SkipRecord {
 		o.Steps = append(o.Steps, limiterSetting(in, uSet).Steps...)
 	}
+	if in.Setting > 0 && in.Setting < 1 {
+		// Not a hazard, but the hoist cannot lift its rated load: worth a word.
+		o.Note += "; the limiter trips at " + dutyNum(in.Setting*100) + " % of the rated load, below it: the hoist cannot lift its rated load (check the setting or the rating)"
+	}
 	var buf [12]Figure // the figures gathered here are copied by take
 	fs := append(buf[:0], Figure{Name: "required_from_kg", Value: in.RequiredFromKg, Unit: "kg"})
 	fs = append(fs, o.Figures...)

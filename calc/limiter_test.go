@@ -135,3 +135,17 @@ func TestLimiterTripSetting(t *testing.T) {
 		t.Error("a negative setting: no error")
 	}
 }
+
+// TestLimiterBelowRatedLoad: a limiter set to trip below the rated load is no hazard (the
+// check passes) but the hoist cannot lift its rating: the note says so.
+func TestLimiterBelowRatedLoad(t *testing.T) {
+	in := calc.LimiterInput{Fitted: true, RatedLoadKg: 5000, RequiredFromKg: 1000, LastTest: date(2026, 6, 1), AsOf: date(2026, 12, 1),
+		IntervalMonths: 12, MaxSetting: 1.10, Setting: 0.90}
+	o, err := calc.OverloadLimiter(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(o.Utilisation < 1) || !strings.Contains(o.Note, "trips at 90 % of the rated load, below it") {
+		t.Errorf("u %g note %q", o.Utilisation, o.Note)
+	}
+}

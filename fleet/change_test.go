@@ -212,7 +212,7 @@ func TestAttentionWeights(t *testing.T) {
 }
 
 // TestCraneCounts: a crane's status is its worst hoist's; at two sites it is at least
-// error; its exposure is the most exposed hoist's.
+// error; its exposure is the most exposed hoist's; "C1" and "c1 " are one crane.
 func TestCraneCounts(t *testing.T) {
 	s := NewSummary(5)
 	add := func(id, site, crane, exposure string, st Status) {
@@ -222,7 +222,7 @@ func TestCraneCounts(t *testing.T) {
 		s.Add(r)
 	}
 	add("A1", "North", "C1", "low", StatusPass)
-	add("A2", "North", "C1", "people below", StatusMarginal)
+	add("A2", "North", "c1 ", "people below", StatusMarginal) // the same crane, as a reader takes it
 	add("B1", "North", "C2", "", StatusPass)
 	add("B2", "South", "C2", "", StatusPass)
 	add("D1", "South", "", "", StatusFail)

@@ -204,9 +204,10 @@ func (m craneSites) check(a *Asset) {
 		return
 	}
 	site := a.Get("site").Text
-	first, ok := m[v.Text]
+	key := CraneKey(v.Text)
+	first, ok := m[key]
 	if !ok {
-		m[v.Text] = craneSeen{site: site, row: a.Row}
+		m[key] = craneSeen{site: site, row: a.Row}
 		return
 	}
 	if strings.EqualFold(strings.TrimSpace(first.site), strings.TrimSpace(site)) {

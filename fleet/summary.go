@@ -233,14 +233,20 @@ func (s *Summary) AllChanges() []*Change {
 	return out
 }
 
+// CraneKey is what makes two Crane cells one crane: the id as written, ignoring case and
+// surrounding or repeated spaces ("C8" and "c8 " are one crane, as a reader of the
+// register would take them).
+func CraneKey(id string) string { return strings.ToLower(strings.Join(strings.Fields(id), " ")) }
+
 func (s *Summary) addCrane(b *Brief, st Status) {
 	if b.Crane == "" {
 		return
 	}
-	i, ok := s.craneIndex[b.Crane]
+	key := CraneKey(b.Crane)
+	i, ok := s.craneIndex[key]
 	if !ok {
 		i = len(s.Cranes)
-		s.craneIndex[b.Crane] = i
+		s.craneIndex[key] = i
 		s.Cranes = append(s.Cranes, CraneCount{Crane: b.Crane, Status: StatusPass, Exposure: ExposureUnstated})
 	}
 	c := &s.Cranes[i]
