@@ -64,10 +64,41 @@ type styles struct {
 	tile                                                                 [len(Palette)]int
 	tileNum                                                              [len(Palette)]int
 	int_, intMid, wrap, bold                                             int
+
+	f   *excelize.File
+	top map[int]int // style → its top-aligned variant (topOf)
+}
+
+// topOf returns style id's variant aligned to the top of its cell, made once. Cells in a
+// row that a wrapped text makes tall are top-aligned, so that each stands beside the
+// text's first line: bottom-aligned, a row's values sat under its action block, next to
+// the following row's, on a sheet without gridlines (seen on the Summary in LibreOffice).
+func (s *styles) topOf(id int) int {
+	if v, ok := s.top[id]; ok {
+		return v
+	}
+	st := &excelize.Style{}
+	if id != 0 {
+		got, err := s.f.GetStyle(id)
+		if err != nil {
+			return id
+		}
+		st = got
+	}
+	if st.Alignment == nil {
+		st.Alignment = &excelize.Alignment{}
+	}
+	st.Alignment.Vertical = "top"
+	v, err := s.f.NewStyle(st)
+	if err != nil {
+		return id
+	}
+	s.top[id] = v
+	return v
 }
 
 func newStyles(f *excelize.File) (*styles, error) {
-	s := &styles{}
+	s := &styles{f: f, top: map[int]int{}}
 	var err error
 	add := func(dst *int, st *excelize.Style) {
 		if err != nil {

@@ -362,29 +362,33 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 	r++
 	worst := w.top(s.Worst)
 	for _, b := range worst {
-		w.briefRow(sw, r, b)
+		// the Action wraps in its column: room for its lines (about 52 characters of
+		// Calibri 11 to a line in the 48-wide column), and the row's other cells at the
+		// top, beside its first line
+		lines := (len([]rune(b.Action)) + 51) / 52
+		at := func(style int) int { return style }
+		if lines > 1 {
+			sw.height(r, float64(15*lines))
+			at = st.topOf
+		}
+		w.briefRowStyled(sw, r, b, at)
 		if s.Weighted {
 			e := b.Exposure
 			if e == "" {
 				e = fleet.ExposureUnstated
 			}
-			sw.str(extra, r, e, 0)
-			sw.set(extra+1, r, b.Priority, 0)
+			sw.str(extra, r, e, at(0))
+			sw.set(extra+1, r, b.Priority, at(0))
 		}
 		if craneCol > 0 {
-			sw.str(craneCol, r, b.Crane, 0)
+			sw.str(craneCol, r, b.Crane, at(0))
 		}
-		sw.str(4, r, b.Status.String(), st.text[statusIndex(b.Status)])
-		sw.set(5, r, b.MinMargin, st.pctPlain)
-		sw.str(6, r, b.WorstCheck, 0)
-		sw.str(7, r, b.GoverningCheck, 0)
-		sw.set(8, r, roundSig(b.MaxRatedLoadKg*w.perKg), st.load)
+		sw.str(4, r, b.Status.String(), at(st.text[statusIndex(b.Status)]))
+		sw.set(5, r, b.MinMargin, at(st.pctPlain))
+		sw.str(6, r, b.WorstCheck, at(0))
+		sw.str(7, r, b.GoverningCheck, at(0))
+		sw.set(8, r, roundSig(b.MaxRatedLoadKg*w.perKg), at(st.load))
 		sw.str(9, r, b.Action, st.wrap)
-		// the Action wraps in its column: room for its lines (about 52 characters of
-		// Calibri 11 to a line in the 48-wide column)
-		if lines := (len([]rune(b.Action)) + 51) / 52; lines > 1 {
-			sw.height(r, float64(15*lines))
-		}
 		r++
 	}
 	if len(worst) == 0 {
@@ -585,16 +589,22 @@ func more(shown, n int) string {
 
 // briefRow writes Asset ID (linked to its Register row), Row and Site.
 func (w *Writer) briefRow(sw *sheetWriter, r int, b fleet.Brief) {
+	w.briefRowStyled(sw, r, b, func(style int) int { return style })
+}
+
+// briefRowStyled is briefRow with each cell's style passed through at (topOf for a tall
+// row).
+func (w *Writer) briefRowStyled(sw *sheetWriter, r int, b fleet.Brief, at func(int) int) {
 	id := b.AssetID
 	if id == "" {
 		id = "(row " + strconv.Itoa(b.Row) + ")"
 	}
-	sw.str(1, r, id, w.st.link)
+	sw.str(1, r, id, at(w.st.link))
 	if b.Row > 0 {
 		sw.link(1, r, quoted(SheetRegister)+"!A"+strconv.Itoa(b.Row))
 	}
-	sw.set(2, r, b.Row, 0)
-	sw.str(3, r, b.Site, 0)
+	sw.set(2, r, b.Row, at(0))
+	sw.str(3, r, b.Site, at(0))
 }
 
 func titleCase(s string) string {
