@@ -452,39 +452,40 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 	if r.Proposed != nil && w.proposed {
 		lines = max(lines, wrappedLines(r.Proposed.Action, actionLineChars))
 	}
-	height := 0.0
+	// In a tall row every other cell stands at the top, beside the action's first line.
+	height, at := 0.0, func(style int) int { return style }
 	if lines > 1 {
-		height = float64(lines) * 15
+		height, at = float64(lines)*15, st.topOf
 	}
 	sw.startRow(row, height)
 	for i, c := range r.Asset.Cells {
 		if i >= w.nIn { // cells beyond the header are not part of any column
 			break
 		}
-		w.inputCell(i+1, c)
+		w.inputCell(i+1, c, at)
 	}
 	col := w.nIn
 	si := statusIndex(r.Status)
-	sw.str(col+1, r.Status.String(), st.text[si])
+	sw.str(col+1, r.Status.String(), at(st.text[si]))
 	sw.text(col+2, r.Action, st.wrap)
-	sw.text(col+3, r.GoverningCheck, 0)
-	sw.result(col+4, r.MaxRatedLoadKg*w.perKg, st.load)
-	sw.result(col+5, r.MinMargin, st.pctPlain)
-	sw.text(col+6, r.WorstCheck, 0)
-	sw.text(col+7, strings.Join(r.Messages, "; "), 0)
-	sw.text(col+8, strings.Join(r.DefaultsUsed, "; "), 0)
+	sw.text(col+3, r.GoverningCheck, at(0))
+	sw.result(col+4, r.MaxRatedLoadKg*w.perKg, at(st.load))
+	sw.result(col+5, r.MinMargin, at(st.pctPlain))
+	sw.text(col+6, r.WorstCheck, at(0))
+	sw.text(col+7, strings.Join(r.Messages, "; "), at(0))
+	sw.text(col+8, strings.Join(r.DefaultsUsed, "; "), at(0))
 	if firstCheck > 0 {
 		sw.formula(col+9, `HYPERLINK("#'`+w.chkSheet+`'!A`+strconv.Itoa(firstCheck)+`","details")`, "details", st.link)
 	}
 	if r.Coverage.Possible > 0 {
-		sw.str(col+10, strconv.Itoa(r.Coverage.Run)+" of "+strconv.Itoa(r.Coverage.Possible), 0)
+		sw.str(col+10, strconv.Itoa(r.Coverage.Run)+" of "+strconv.Itoa(r.Coverage.Possible), at(0))
 	}
 	col += 10
 	for _, id := range fleet.CheckIDs {
 		if c := r.Check(id); c != nil {
 			ci := statusIndex(c.Status)
-			sw.str(col+1, c.Status.String(), st.text[ci])
-			sw.result(col+2, c.Utilisation, st.pct[ci])
+			sw.str(col+1, c.Status.String(), at(st.text[ci]))
+			sw.result(col+2, c.Utilisation, at(st.pct[ci]))
 		}
 		col += 2
 	}
@@ -494,8 +495,8 @@ func (w *Writer) writeRegister(r *fleet.Result, firstCheck int) error {
 			if p.Status != r.Status {
 				changes = "yes"
 			}
-			sw.str(col+1, p.Status.String(), st.text[statusIndex(p.Status)])
-			sw.str(col+2, changes, 0)
+			sw.str(col+1, p.Status.String(), at(st.text[statusIndex(p.Status)]))
+			sw.str(col+2, changes, at(0))
 			sw.text(col+3, p.Action, st.wrap)
 		}
 	}
@@ -538,18 +539,18 @@ func wrappedLines(s string, n int) int {
 // inputCell writes a register cell as given: a number, a date, or text. Text is always
 // a text cell, so "=1+2" from the register stays the string "=1+2". An empty cell is
 // not written.
-func (w *Writer) inputCell(col int, c fleet.Cell) {
+func (w *Writer) inputCell(col int, c fleet.Cell, at func(int) int) {
 	switch {
 	case c.IsDate && !c.Date.IsZero():
-		w.reg.date(col, c.Date, w.st.date)
+		w.reg.date(col, c.Date, at(w.st.date))
 		return
 	case c.IsNumber:
 		if v, err := strconv.ParseFloat(strings.TrimSpace(c.Text), 64); err == nil && finite(v) {
-			w.reg.num(col, v, 0)
+			w.reg.num(col, v, at(0))
 			return
 		}
 	}
-	w.reg.text(col, c.Text, 0)
+	w.reg.text(col, c.Text, at(0))
 }
 
 // shortSource returns the short form of a check's source (cite.Short): the full texts
