@@ -27,6 +27,12 @@ var (
 	ErrSyntax     = errors.New("CSV syntax error")
 )
 
+// Sentinels lists the sentinels above: the errors a reader error may match with
+// errors.Is (for the register dumps, io/register/regdump).
+func Sentinels() []error {
+	return []error{ErrNotNumber, ErrNotWhole, ErrNotDate, ErrNotAllowed, ErrOutOfRange, ErrUnit, ErrSyntax}
+}
+
 // cellError is a message for the user that also matches a sentinel with errors.Is.
 type cellError struct {
 	msg  string

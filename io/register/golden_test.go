@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"compress/gzip"
 	"context"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -12,7 +11,6 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
-	"sort"
 	"strconv"
 	"strings"
 	"sync"
@@ -23,6 +21,7 @@ import (
 
 	"hoistfleet/fleet"
 	"hoistfleet/fleet/schema"
+	"hoistfleet/io/register/regdump"
 	"hoistfleet/templates"
 )
 
@@ -192,76 +191,19 @@ func dumpRegisterWith(t testing.TB, name string, in goldenInput, recycle bool) s
 		return b.String()
 	}
 	defer r.Close()
-	h := r.Header()
-	fmt.Fprintf(&b, "header file=%q sheet=%q\n", h.File, h.Sheet)
-	for _, c := range h.Columns {
-		fmt.Fprintf(&b, " col %d title=%q key=%q unit=%q factor=%s\n", c.Index, c.Title, c.Key, c.Unit, bits(c.Factor))
+	var recycleFn func(*fleet.Asset)
+	if recycle {
+		recycleFn = r.Recycle
 	}
-	for _, p := range h.Problems {
-		fmt.Fprintf(&b, " problem %s\n", dumpErr(p))
-	}
-	for {
-		a, err := r.Next(context.Background())
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			fmt.Fprintf(&b, "next error: %v\n", err)
-			break
-		}
-		dumpAsset(&b, a)
-		if recycle {
-			r.Recycle(a)
-		}
-	}
+	regdump.Read(&b, r, recycleFn, Sentinels())
 	return b.String()
 }
 
-func dumpAsset(b *strings.Builder, a *fleet.Asset) {
-	fmt.Fprintf(b, "asset index=%d row=%d id=%q blank=%v cells=%d fields=%v\n", a.Index, a.Row, a.ID, a.Blank, len(a.Cells), a.Values != nil)
-	for i, c := range a.Cells {
-		fmt.Fprintf(b, " cell %d %q num=%v date=%v %s\n", i, c.Text, c.IsNumber, c.IsDate, c.Date.Format("2006-01-02T15:04:05.999999999Z07:00"))
-	}
-	// The fields the reader wrote: every one carries its cell reference (the dumps were
-	// made when Asset held a map of exactly those).
-	var keys []string
-	for i, col := range schema.Columns() {
-		if i < len(a.Values) && a.Values[i].Cell.Row != 0 {
-			keys = append(keys, col.Key)
-		}
-	}
-	sort.Strings(keys)
-	for _, k := range keys {
-		v := a.Get(k)
-		fmt.Fprintf(b, " field %s state=%d num=%s text=%q date=%s raw=%q cell=%+v", k, v.State, bits(v.Num), v.Text,
-			v.Date.Format("2006-01-02T15:04:05.999999999Z07:00"), v.Raw, v.Cell)
-		if v.Err != nil {
-			fmt.Fprintf(b, " err=%s", dumpErr(v.Err))
-		}
-		b.WriteByte('\n')
-	}
-	for _, p := range a.Problems {
-		fmt.Fprintf(b, " problem %s\n", dumpErr(p))
-	}
-}
+func dumpAsset(b *strings.Builder, a *fleet.Asset) { regdump.Asset(b, a, Sentinels()) }
 
-// sentinels are the errors a reader error may match with errors.Is.
-var sentinels = []error{ErrNotNumber, ErrNotWhole, ErrNotDate, ErrNotAllowed, ErrOutOfRange, ErrUnit, ErrSyntax}
+func dumpErr(e *fleet.Error) string { return regdump.Err(e, Sentinels()) }
 
-func dumpErr(e *fleet.Error) string {
-	is := ""
-	for _, s := range sentinels {
-		if errors.Is(e, s) {
-			is += "[" + s.Error() + "]"
-		}
-	}
-	return fmt.Sprintf("kind=%d op=%q asset=%q field=%q cell=%+v is=%s msg=%q", e.Kind, e.Op, e.Asset, e.Field, e.Cell, is, e.Error())
-}
-
-// bits shows a float exactly.
-func bits(x float64) string {
-	return strconv.FormatFloat(x, 'g', -1, 64) + "/" + strconv.FormatUint(math.Float64bits(x), 16)
-}
+func bits(x float64) string { return regdump.Bits(x) }
 
 // csvToXLSX writes a CSV register's records into a workbook, a field that is a plain
 // number as a numeric cell and the rest as text.
