@@ -55,7 +55,7 @@ func (w *Writer) writeData(s *fleet.Summary) error {
 		sw.set(6, r, g.Unlocks, st.intMid)
 		checks := strings.Join(g.Checks, ", ")
 		sw.str(7, r, checks, st.wrap)
-		if lines := (len(checks) + 55) / 56; lines > 1 { // about 56 characters a line at width 60
+		if lines := wrappedLines(checks, 56); lines > 1 { // about 56 characters a line at width 60
 			sw.height(r, float64(15*lines))
 		}
 		r++

@@ -365,7 +365,7 @@ func (w *Writer) writeSummary(s *fleet.Summary, info *fleet.RunInfo) error {
 		// the Action wraps in its column: room for its lines (about 52 characters of
 		// Calibri 11 to a line in the 48-wide column), and the row's other cells at the
 		// top, beside its first line
-		lines := (len([]rune(b.Action)) + 51) / 52
+		lines := wrappedLines(b.Action, 52)
 		at := func(style int) int { return style }
 		if lines > 1 {
 			sw.height(r, float64(15*lines))
