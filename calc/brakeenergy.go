@@ -47,7 +47,7 @@ func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 	if !(permittedJ > 0) {
 		permittedJ = math.NaN()
 	}
-	rec := !h.SkipRecord && !h.SkipDetail
+	rec := !h.SkipRecord // SkipDetail returns before the record
 	sr, err := brakeStopRun("calc.BrakeEnergy", h, false)
 	if err != nil {
 		return Outcome{}, err
@@ -63,27 +63,29 @@ func BrakeEnergy(h Hoist, permittedJ, factor float64) (Outcome, error) {
 	wb := x.fb * x.s2
 	capacity := nb * permittedJ
 	out := Outcome{Demand: e, Capacity: capacity, Unit: "J", Utilisation: factor * e / capacity, Verdict: ByUtilisation}
+	switch {
+	case sr.lock, x.canStop && math.IsNaN(permittedJ):
+		out.Verdict = Info
+	case !x.canStop:
+		out.Verdict = Fail
+	}
+	if h.SkipDetail { // the rating search: the verdict and numbers only, no text
+		return out, nil
+	}
 	where := sr.t.radiusWords(sr.best)
 	switch {
 	case sr.lock:
-		out.Verdict = Info
 		if x.canStop {
 			out.Note = "self-locking gear train: the energy is of BrakeStop's upper bound (" + sr.brakeWhere + " brake alone, lossless back-driving), at the " + where
 		} else {
 			out.Note = "self-locking gear train: the gear, not the brake, holds the load; no braking energy"
 		}
 	case !x.canStop:
-		out.Verdict = Fail
 		out.Note = "the brakes cannot stop the lowering load: its energy grows without bound (see brake-stop)"
 	case math.IsNaN(permittedJ):
-		out.Verdict = Info
 		out.Note = "one emergency stop puts up to " + dynNum(e/1000) + " kJ into the brakes (losses ignored: an upper bound; " + sr.brakeWhere + " brake, " + where + "); the register gives no permitted friction work to compare"
 	default:
 		out.Note = "one emergency stop puts up to " + dynNum(e/1000/nb) + " kJ into each brake (losses ignored: an upper bound) against the " + dynNum(permittedJ/1000) + " kJ it may take (" + sr.brakeWhere + " brake, " + where + ")"
-	}
-	if h.SkipDetail {
-		out.Note = ""
-		return out, nil
 	}
 	out.Figures = h.Figs.take([]Figure{
 		{Name: "energy_j", Value: e, Unit: "J"},

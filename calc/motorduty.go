@@ -3,6 +3,7 @@ package calc
 import (
 	"math"
 	"strconv"
+	"strings"
 )
 
 // MotorDutyInput is what the motor-duty check reads. A NaN field is not known.
@@ -111,12 +112,7 @@ func MotorDuty(in MotorDutyInput) (Outcome, error) {
 	if o.Verdict == Info {
 		notes = append(notes, "nothing verified to compare: no starts or cycles per hour to set against the motor's rated starts, and no verified requirement of the duty group in the rules in force")
 	}
-	for i, n := range notes {
-		if i > 0 {
-			o.Note += "; "
-		}
-		o.Note += n
-	}
+	o.Note = strings.Join(notes, "; ")
 	o.Figures = in.Figs.take([]Figure{
 		{Name: "rated_duty_factor", Value: in.RatedDutyFactor, Unit: "1"},
 		{Name: "required_duty_factor", Value: in.RequiredDutyFactor, Unit: "1"},

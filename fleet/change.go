@@ -168,10 +168,17 @@ func (c *Change) rank() int {
 		return 3
 	case c.Kind == ChangeUnchanged:
 		return 6
-	case c.RatingChanged || c.CapacityChanged || len(c.NewlyFailing) > 0 || len(c.Cleared) > 0 || c.NewlyOverdue || c.OverdueCleared:
+	case c.resultsChanged():
 		return 4
 	}
 	return 5
+}
+
+// resultsChanged reports whether the hoist's results changed apart from its status: its
+// rating or capacity, a check newly failing or cleared, an inspection newly overdue or
+// no longer.
+func (c *Change) resultsChanged() bool {
+	return c.RatingChanged || c.CapacityChanged || len(c.NewlyFailing) > 0 || len(c.Cleared) > 0 || c.NewlyOverdue || c.OverdueCleared
 }
 
 // SortChanges orders changes for listing (worse, better, added, removed, changes of the
@@ -269,8 +276,7 @@ func (b *Baseline) Compare(r *Result, titles []string) *Change {
 		}
 	}
 	c.Kind = ChangeUnchanged
-	if c.StatusChange != "" || c.RatingChanged || c.CapacityChanged || len(c.NewlyFailing) > 0 ||
-		len(c.Cleared) > 0 || c.NewlyOverdue || c.OverdueCleared || len(c.Inputs) > 0 {
+	if c.StatusChange != "" || c.resultsChanged() || len(c.Inputs) > 0 {
 		c.Kind = ChangeChanged
 	}
 	return c
@@ -364,13 +370,9 @@ func (n ChangeCounts) Words() string {
 		parts = append(parts, strconv.Itoa(n.Capacity)+" mechanism capacity changed")
 	}
 	s := strings.Join(parts, ", ")
-	if n.Added > 0 && n.Removed > 0 && n.matched() == 0 {
+	if n.Added > 0 && n.Removed > 0 && n.Compared == 0 {
 		s += ". No hoist of this register is in the baseline: is the baseline this register's earlier results?"
 	}
 	return s
 }
 
-// matched counts the hoists found in the baseline: each is unchanged or has a change.
-func (n ChangeCounts) matched() int {
-	return n.Unchanged + n.Worse + n.Better + n.Rating + n.NewlyFailing + n.Cleared + n.NewlyOverdue + n.OverdueCleared + n.Inputs + n.Capacity
-}

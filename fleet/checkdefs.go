@@ -572,6 +572,11 @@ func checkDefinitions() []Definition {
 					return nil, nil, err
 				}
 				w, _ := d.num("brake_friction_work") // not given: 0, no limit
+				if !(w > 0) {
+					// Information: its limit is the load the brakes can just stop, which
+					// brake-stop's closed form gives (no search through the stop).
+					d.closedLimit = calc.BrakeStopLimitKg
+				}
 				return func(h calc.Hoist) (calc.Outcome, error) { return calc.BrakeEnergy(h, w, f) }, d.usedRows(r), nil
 			}},
 	}

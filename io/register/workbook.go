@@ -237,10 +237,6 @@ func readSharedStrings(zf *zip.File, lim Limits) (*sharedStrings, error) {
 	var cur []byte
 	depthSI, inT, inPh := 0, 0, 0
 	fail := func(err error) (*sharedStrings, error) {
-		var lt *errLongText
-		if errors.As(err, &lt) {
-			return nil, fmt.Errorf("%s, string %d: %w", zf.Name, len(sst.ends)+1, err)
-		}
 		return nil, fmt.Errorf("%s, string %d: %w", zf.Name, len(sst.ends)+1, err)
 	}
 	for {
