@@ -375,4 +375,3 @@ func (n ChangeCounts) Words() string {
 	}
 	return s
 }
-
